@@ -1,0 +1,78 @@
+"""The desk's exception classes.
+
+Every error a user can cause is an :class:`InputError` (a ``ValueError``) with a
+one-line message they can act on; the command line prints it and exits with
+status 2. Nothing is written when one is raised.
+"""
+
+from __future__ import annotations
+
+
+class PairingsError(Exception):
+    """Base of every error the desk raises on purpose."""
+
+
+class InputError(PairingsError, ValueError):
+    """A request the event's data or rules do not allow (exit status 2)."""
+
+
+class UnknownPlayerError(InputError):
+    """No player has this id or name."""
+
+
+class AmbiguousPlayerError(InputError):
+    """More than one player matches this name."""
+
+
+class ResultCodeError(InputError):
+    """A result code outside 1-0, 0-1, 1/2-1/2, +-, -+, --."""
+
+
+class RoundStateError(InputError):
+    """The round is not in the state this action needs (draft, published, complete)."""
+
+
+class RosterError(InputError):
+    """A roster file with bad rows; ``problems`` lists every one with its line."""
+
+    def __init__(self, problems: list[str]) -> None:
+        self.problems = problems
+        first = problems[0] if problems else "no rows"
+        more = f" (and {len(problems) - 1} more)" if len(problems) > 1 else ""
+        super().__init__(f"roster not imported: {first}{more}")
+
+
+class NoPairingError(InputError):
+    """The engine cannot pair this field (too few players, bad pins, ...)."""
+
+
+class StoreError(PairingsError):
+    """Problems with the event file itself."""
+
+
+class NotAnEventFileError(StoreError, InputError):
+    """The file is missing, not SQLite, or not one of our event files."""
+
+
+class NewerSchemaError(StoreError, InputError):
+    """The file was written by a newer version of the desk."""
+
+
+class ChainBrokenError(StoreError, InputError):
+    """The hash chain does not verify: the file was altered outside the desk."""
+
+    def __init__(self, seq: int, reason: str) -> None:
+        self.seq = seq
+        super().__init__(f"event file altered: hash chain breaks at event {seq} ({reason})")
+
+
+class ConflictError(StoreError, InputError):
+    """Another window or process wrote to the event meanwhile; nothing was written."""
+
+    def __init__(self, expected: int, found: int) -> None:
+        self.expected = expected
+        self.found = found
+        super().__init__(
+            f"the event changed elsewhere (expected event {expected}, found {found}); "
+            "reload and try again — nothing was written"
+        )

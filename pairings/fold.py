@@ -1,0 +1,242 @@
+"""Fold the event log into an :class:`~pairings.state.EventState`.
+
+One plain function per event type, applied in order to a mutable builder that is
+frozen once at the end (so folding is linear in the log's length). Events named
+by an :class:`~pairings.events.Undone` are skipped: undo compensates, it never
+rewrites history.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass, field, replace
+from functools import singledispatch
+from types import MappingProxyType
+from typing import Iterable
+
+from pairings import events as ev
+from pairings.state import (
+    DEFAULT_TIEBREAKS,
+    Bye,
+    ByeKind,
+    EventState,
+    Float,
+    ForbiddenPair,
+    Game,
+    Player,
+    PlayerId,
+    PlayerRecord,
+    Round,
+    RoundEntry,
+    RoundState,
+    Scoring,
+    Settings,
+    Status,
+)
+
+
+@dataclass
+class _Builder:
+    settings: Settings | None = None
+    players: dict[PlayerId, Player] = field(default_factory=dict)
+    rounds: list[Round] = field(default_factory=list)
+    forbidden: list[ForbiddenPair] = field(default_factory=list)
+    requests: dict[int, dict[PlayerId, ByeKind]] = field(default_factory=dict)
+    head: int = 0
+
+
+@singledispatch
+def _apply(event: object, b: _Builder) -> None:
+    raise TypeError(f"no fold rule for {type(event).__name__}")
+
+
+@_apply.register
+def _(e: ev.EventCreated, b: _Builder) -> None:
+    b.settings = Settings(
+        name=e.name,
+        rounds=e.rounds,
+        scoring=Scoring(e.scoring.win, e.scoring.draw, e.scoring.loss),
+        sides=e.sides,
+        bye_points=e.bye_points,
+        requested_bye_points=e.requested_bye_points,
+        tiebreaks=e.tiebreaks if e.tiebreaks is not None else DEFAULT_TIEBREAKS,
+        unplayed=e.unplayed,
+        default_rating=e.default_rating,
+        max_meetings=e.max_meetings,
+        final_round_side_exception=e.final_round_side_exception,
+        system=e.system,
+        double_round=e.double_round,
+        seed=e.seed,
+    )
+
+
+@_apply.register
+def _(e: ev.SettingsChanged, b: _Builder) -> None:
+    assert b.settings is not None
+    changes = {k: v for k, v in e.model_dump(exclude={"type"}).items() if v is not None}
+    if "tiebreaks" in changes:
+        changes["tiebreaks"] = tuple(changes["tiebreaks"])
+    b.settings = replace(b.settings, **changes)
+
+
+@_apply.register
+def _(e: ev.PlayerRegistered, b: _Builder) -> None:
+    pid = PlayerId(e.id)
+    b.players[pid] = Player(
+        id=pid, name=e.name, rating=e.rating, club=e.club, status=Status.ACTIVE,
+        order=len(b.players), entry_round=e.entry_round,
+    )
+
+
+@_apply.register
+def _(e: ev.PlayerEdited, b: _Builder) -> None:
+    pid = PlayerId(e.id)
+    b.players[pid] = replace(b.players[pid], name=e.name, rating=e.rating, club=e.club)
+
+
+@_apply.register
+def _(e: ev.PlayerWithdrawn, b: _Builder) -> None:
+    pid = PlayerId(e.player)
+    b.players[pid] = replace(b.players[pid], status=Status.WITHDRAWN, withdrawn_from=e.from_round)
+
+
+@_apply.register
+def _(e: ev.PlayerReinstated, b: _Builder) -> None:
+    pid = PlayerId(e.player)
+    p = b.players[pid]
+    b.players[pid] = replace(
+        p, status=Status.ACTIVE, withdrawn_from=None, entry_round=max(p.entry_round, e.from_round)
+    )
+
+
+@_apply.register
+def _(e: ev.ByeRequested, b: _Builder) -> None:
+    b.requests.setdefault(e.round, {})[PlayerId(e.player)] = ByeKind(e.kind)
+
+
+@_apply.register
+def _(e: ev.ByeCancelled, b: _Builder) -> None:
+    b.requests.get(e.round, {}).pop(PlayerId(e.player), None)
+
+
+@_apply.register
+def _(e: ev.PairForbidden, b: _Builder) -> None:
+    b.forbidden.append(ForbiddenPair(PlayerId(e.a), PlayerId(e.b), e.until_round, e.reason))
+
+
+def _round_state(games: tuple[Game, ...], published: bool) -> RoundState:
+    if not published:
+        return RoundState.DRAFT
+    return RoundState.COMPLETE if all(g.result is not None for g in games) else RoundState.PUBLISHED
+
+
+@_apply.register
+def _(e: ev.RoundDrafted, b: _Builder) -> None:
+    games = tuple(
+        Game(
+            board=x.board, first=PlayerId(x.first), second=PlayerId(x.second), result=x.result,
+            flags=x.flags, cost=MappingProxyType(dict(x.cost)),
+        )
+        for x in e.boards
+    )
+    byes = tuple(Bye(PlayerId(x.player), x.kind, x.points) for x in e.byes)
+    previous = b.rounds[e.round - 1] if len(b.rounds) >= e.round else None
+    notes = previous.notes if previous is not None else ()
+    if e.reason:
+        notes = notes + (e.reason,)
+    published = e.source == "restored"
+    new = Round(
+        number=e.round, state=_round_state(games, published), games=games, byes=byes,
+        cost=MappingProxyType(dict(e.cost)), engine_version=e.engine_version,
+        source=e.source, notes=notes,
+    )
+    if previous is not None:
+        b.rounds[e.round - 1] = new
+    else:
+        b.rounds.append(new)
+
+
+@_apply.register
+def _(e: ev.DraftDiscarded, b: _Builder) -> None:
+    if b.rounds and b.rounds[-1].number == e.round:
+        b.rounds.pop()
+
+
+@_apply.register
+def _(e: ev.RoundPublished, b: _Builder) -> None:
+    r = b.rounds[e.round - 1]
+    b.rounds[e.round - 1] = replace(r, state=_round_state(r.games, True))
+
+
+@_apply.register
+def _(e: ev.RoundUnpublished, b: _Builder) -> None:
+    r = b.rounds[e.round - 1]
+    b.rounds[e.round - 1] = replace(r, state=RoundState.DRAFT, notes=r.notes + (e.reason,))
+
+
+@_apply.register
+def _(e: ev.ResultRecorded, b: _Builder) -> None:
+    r = b.rounds[e.round - 1]
+    games = tuple(replace(g, result=e.result) if g.board == e.board else g for g in r.games)
+    b.rounds[e.round - 1] = replace(r, games=games, state=_round_state(games, True))
+
+
+def _records(settings: Settings, players: dict[PlayerId, Player], rounds: list[Round]) -> dict[PlayerId, PlayerRecord]:
+    """Each player's round-by-round history over the published and complete rounds."""
+    entries: dict[PlayerId, list[RoundEntry]] = {pid: [] for pid in players}
+    score: dict[PlayerId, float] = {pid: 0.0 for pid in players}
+    scoring = settings.scoring
+    for rnd in rounds:
+        if rnd.state is RoundState.DRAFT:
+            continue
+        before = dict(score)
+        for g in rnd.games:
+            for pid, side in ((g.first, g.side_of(g.first)), (g.second, g.side_of(g.second))):
+                opp = g.opponent_of(pid)
+                mine, theirs = before.get(pid, 0.0), before.get(opp, 0.0)
+                fl = Float.DOWN if mine > theirs else Float.UP if mine < theirs else None
+                pts = scoring.points(g.result.outcome(side)) if g.result is not None else None
+                entries.setdefault(pid, []).append(
+                    RoundEntry(
+                        round=rnd.number, opponent=opp, side=side, result=g.result, bye=None,
+                        points=pts, played=g.result is not None and g.result.played,
+                        score_before=mine, float=fl,
+                    )
+                )
+                if pts is not None:
+                    score[pid] = score.get(pid, 0.0) + pts
+        for bye in rnd.byes:
+            entries.setdefault(bye.player, []).append(
+                RoundEntry(
+                    round=rnd.number, opponent=None, side=None, result=None, bye=bye.kind,
+                    points=bye.points, played=False, score_before=before.get(bye.player, 0.0),
+                    float=Float.DOWN if bye.kind is ByeKind.PAIRING else None,
+                )
+            )
+            score[bye.player] = score.get(bye.player, 0.0) + bye.points
+    return {
+        pid: PlayerRecord(player=pid, entries=tuple(entries.get(pid, ())), score=score.get(pid, 0.0))
+        for pid in players
+    }
+
+
+def fold(log: Iterable[tuple[int, ev.Event]]) -> EventState:
+    """Fold ``(sequence number, event)`` pairs, oldest first, into the event's state."""
+    items = list(log)
+    undone = {e.target for _, e in items if isinstance(e, ev.Undone)}
+    b = _Builder()
+    for seq, event in items:
+        b.head = seq
+        if seq in undone or isinstance(event, ev.Undone):
+            continue
+        _apply(event, b)
+    if b.settings is None:
+        raise ValueError("the log holds no event-created record")
+    return EventState(
+        settings=b.settings,
+        players=MappingProxyType(dict(b.players)),
+        rounds=tuple(b.rounds),
+        forbidden=tuple(b.forbidden),
+        requests=MappingProxyType({k: MappingProxyType(dict(v)) for k, v in b.requests.items()}),
+        records=MappingProxyType(_records(b.settings, b.players, b.rounds)),
+        head=b.head,
+    )

@@ -1,0 +1,354 @@
+"""The event's state: a plain, immutable projection of the event log.
+
+Built by :func:`pairings.fold.fold`; the only input of the engine, the standings
+and the reports. Nothing here touches SQLite, the terminal or the clock.
+
+Derived histories (each player's score, sides and floats round by round) are
+computed once when the state is frozen and kept in :attr:`EventState.records`.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass, field
+from enum import StrEnum
+from fractions import Fraction
+from types import MappingProxyType
+from typing import Mapping, NewType
+
+from pairings.errors import ResultCodeError
+
+PlayerId = NewType("PlayerId", str)
+
+
+class Status(StrEnum):
+    ACTIVE = "active"
+    WITHDRAWN = "withdrawn"
+
+
+class RoundState(StrEnum):
+    DRAFT = "draft"
+    PUBLISHED = "published"
+    COMPLETE = "complete"
+
+
+class ByeKind(StrEnum):
+    PAIRING = "pairing"
+    REQUESTED = "requested"
+    ABSENCE = "absence"
+
+
+class Side(StrEnum):
+    FIRST = "first"
+    SECOND = "second"
+
+    @property
+    def other(self) -> "Side":
+        return Side.SECOND if self is Side.FIRST else Side.FIRST
+
+
+class Float(StrEnum):
+    DOWN = "down"
+    UP = "up"
+
+
+class System(StrEnum):
+    SWISS = "swiss"
+    ROUND_ROBIN = "round_robin"
+
+
+class Unplayed(StrEnum):
+    """How tiebreaks treat rounds a player did not play (see rules.md, Tiebreaks)."""
+
+    AS_THEY_STAND = "as_they_stand"
+    VIRTUAL_OPPONENT = "virtual_opponent"
+    DUMMY_OPPONENT = "dummy_opponent"
+
+
+class Result(StrEnum):
+    """A game's result, written from the first side's point of view."""
+
+    FIRST_WINS = "1-0"
+    SECOND_WINS = "0-1"
+    DRAW = "1/2-1/2"
+    FIRST_WINS_BY_FORFEIT = "+-"
+    SECOND_WINS_BY_FORFEIT = "-+"
+    DOUBLE_FORFEIT = "--"
+
+    @classmethod
+    def parse(cls, text: str) -> "Result":
+        """Read a result code; accepts ``½-½`` and ``0.5-0.5`` for a draw."""
+        cleaned = text.strip().replace("½", "1/2").replace("0.5", "1/2")
+        try:
+            return cls(cleaned)
+        except ValueError:
+            raise ResultCodeError(
+                f"unknown result {text!r}: use 1-0, 0-1, 1/2-1/2, +-, -+ or --"
+            ) from None
+
+    @property
+    def played(self) -> bool:
+        """True when the game was played over the board (not a forfeit)."""
+        return self in (Result.FIRST_WINS, Result.SECOND_WINS, Result.DRAW)
+
+    def outcome(self, side: Side) -> str:
+        """``"win"``, ``"draw"`` or ``"loss"`` for the player on ``side``."""
+        first = {
+            Result.FIRST_WINS: "win",
+            Result.SECOND_WINS: "loss",
+            Result.DRAW: "draw",
+            Result.FIRST_WINS_BY_FORFEIT: "win",
+            Result.SECOND_WINS_BY_FORFEIT: "loss",
+            Result.DOUBLE_FORFEIT: "loss",
+        }[self]
+        if side is Side.FIRST or self is Result.DOUBLE_FORFEIT:
+            return first
+        return {"win": "loss", "loss": "win", "draw": "draw"}[first]
+
+
+@dataclass(frozen=True, slots=True)
+class Scoring:
+    """Points for a win, a draw and a loss (forfeits score as a win or a loss)."""
+
+    win: float = 1.0
+    draw: float = 0.5
+    loss: float = 0.0
+
+    def points(self, outcome: str) -> float:
+        return {"win": self.win, "draw": self.draw, "loss": self.loss}[outcome]
+
+    @property
+    def unit(self) -> Fraction:
+        """The largest step that divides every score: scores are integer multiples of it."""
+        values = [Fraction(v).limit_denominator(1000) for v in (self.win, self.draw, self.loss)]
+        values = [v for v in values if v]
+        if not values:
+            return Fraction(1)
+        from math import gcd, lcm
+
+        den = lcm(*(v.denominator for v in values))
+        num = gcd(*(int(v * den) for v in values))
+        return Fraction(num, den)
+
+
+DEFAULT_TIEBREAKS: tuple[str, ...] = ("buchholz_cut1", "buchholz", "sonneborn_berger", "wins")
+
+
+@dataclass(frozen=True, slots=True)
+class Settings:
+    name: str
+    rounds: int
+    scoring: Scoring = Scoring()
+    sides: tuple[str, str] | None = ("White", "Black")
+    bye_points: float = 1.0
+    requested_bye_points: float = 0.5
+    tiebreaks: tuple[str, ...] = DEFAULT_TIEBREAKS
+    unplayed: Unplayed = Unplayed.VIRTUAL_OPPONENT
+    default_rating: int = 1000
+    max_meetings: int = 1
+    final_round_side_exception: bool = False
+    system: System = System.SWISS
+    double_round: bool = False
+    seed: int = 0
+
+
+@dataclass(frozen=True, slots=True)
+class Player:
+    id: PlayerId
+    name: str
+    rating: int | None
+    club: str | None
+    status: Status
+    order: int
+    """Registration order, 0-based; the last tiebreak of the initial rank."""
+    entry_round: int = 1
+    """First round the player can be paired in (late entries)."""
+    withdrawn_from: int | None = None
+    """First round the player is no longer paired in, when withdrawn."""
+
+
+@dataclass(frozen=True, slots=True)
+class Game:
+    board: int
+    first: PlayerId
+    second: PlayerId
+    result: Result | None = None
+    flags: tuple[str, ...] = ()
+    cost: Mapping[str, float] = field(default_factory=lambda: MappingProxyType({}))
+
+    def side_of(self, player: PlayerId) -> Side:
+        return Side.FIRST if player == self.first else Side.SECOND
+
+    def opponent_of(self, player: PlayerId) -> PlayerId:
+        return self.second if player == self.first else self.first
+
+
+@dataclass(frozen=True, slots=True)
+class Bye:
+    player: PlayerId
+    kind: ByeKind
+    points: float
+
+
+@dataclass(frozen=True, slots=True)
+class Round:
+    number: int
+    state: RoundState
+    games: tuple[Game, ...]
+    byes: tuple[Bye, ...]
+    cost: Mapping[str, float] = field(default_factory=lambda: MappingProxyType({}))
+    engine_version: str | None = None
+    source: str = "engine"
+    """``engine`` (as drafted), ``override`` (changed by the organiser) or ``restored``."""
+    notes: tuple[str, ...] = ()
+    """The organiser's override reasons, in order."""
+
+    def game_on(self, board: int) -> Game | None:
+        for game in self.games:
+            if game.board == board:
+                return game
+        return None
+
+    @property
+    def open_boards(self) -> tuple[int, ...]:
+        return tuple(g.board for g in self.games if g.result is None)
+
+
+@dataclass(frozen=True, slots=True)
+class ForbiddenPair:
+    """A do-not-pair entry (H5); applies up to and including ``until_round`` if set."""
+
+    a: PlayerId
+    b: PlayerId
+    until_round: int | None = None
+    reason: str = ""
+
+    def applies(self, round_number: int) -> bool:
+        return self.until_round is None or round_number <= self.until_round
+
+
+@dataclass(frozen=True, slots=True)
+class RoundEntry:
+    """What one player did in one round."""
+
+    round: int
+    opponent: PlayerId | None
+    side: Side | None
+    """The side taken in a game (also for a forfeit); None for a bye."""
+    result: Result | None
+    bye: ByeKind | None
+    points: float | None
+    """None while the game has no result."""
+    played: bool
+    """True for a game played over the board (not a forfeit, not a bye)."""
+    score_before: float
+    float: Float | None
+    """Paired against a lower (down) or higher (up) score; a pairing bye is a down float."""
+
+
+@dataclass(frozen=True, slots=True)
+class PlayerRecord:
+    player: PlayerId
+    entries: tuple[RoundEntry, ...]
+    """One entry per round the player took part in (game or bye), in round order."""
+    score: float
+
+    def entry(self, round_number: int) -> RoundEntry | None:
+        for e in self.entries:
+            if e.round == round_number:
+                return e
+        return None
+
+    def score_before(self, round_number: int) -> float:
+        return sum(e.points or 0.0 for e in self.entries if e.round < round_number)
+
+    @property
+    def played_sides(self) -> tuple[Side, ...]:
+        """Sides of the games played over the board, oldest first (SD counts only these)."""
+        return tuple(e.side for e in self.entries if e.played and e.side is not None)
+
+    @property
+    def side_difference(self) -> int:
+        sides = self.played_sides
+        return sides.count(Side.FIRST) - sides.count(Side.SECOND)
+
+    @property
+    def opponents(self) -> tuple[PlayerId, ...]:
+        """Opponents actually met over the board (forfeits are not meetings)."""
+        return tuple(e.opponent for e in self.entries if e.played and e.opponent is not None)
+
+    @property
+    def floats(self) -> tuple[tuple[int, Float | None], ...]:
+        return tuple((e.round, e.float) for e in self.entries)
+
+    @property
+    def had_pairing_bye(self) -> bool:
+        return any(e.bye is ByeKind.PAIRING for e in self.entries)
+
+    @property
+    def had_unplayed_point(self) -> bool:
+        """Scored a point without playing: a pairing bye or a forfeit win (H2)."""
+        for e in self.entries:
+            if e.bye is ByeKind.PAIRING:
+                return True
+            if e.result is not None and not e.played and e.side is not None:
+                if e.result.outcome(e.side) == "win":
+                    return True
+        return False
+
+
+@dataclass(frozen=True, slots=True)
+class EventState:
+    settings: Settings
+    players: Mapping[PlayerId, Player]
+    """In registration order."""
+    rounds: tuple[Round, ...]
+    forbidden: tuple[ForbiddenPair, ...]
+    requests: Mapping[int, Mapping[PlayerId, ByeKind]]
+    """Announced byes and absences by round number (requested / absence)."""
+    records: Mapping[PlayerId, PlayerRecord]
+    head: int
+    """Sequence number of the last event folded in (0 for an empty log)."""
+
+    @property
+    def last_round(self) -> Round | None:
+        return self.rounds[-1] if self.rounds else None
+
+    @property
+    def next_round_number(self) -> int:
+        """The number the next drafted round would get."""
+        last = self.last_round
+        if last is None:
+            return 1
+        return last.number + 1 if last.state is not RoundState.DRAFT else last.number
+
+    def round(self, number: int) -> Round | None:
+        if 1 <= number <= len(self.rounds):
+            return self.rounds[number - 1]
+        return None
+
+    def score(self, player: PlayerId) -> float:
+        return self.records[player].score
+
+    def initial_rank(self) -> tuple[PlayerId, ...]:
+        """Rating descending, then name casefolded, then registration (rules.md)."""
+        default = self.settings.default_rating
+        return tuple(
+            p.id
+            for p in sorted(
+                self.players.values(),
+                key=lambda p: (-(p.rating if p.rating is not None else default), p.name.casefold(), p.order),
+            )
+        )
+
+    def available(self, round_number: int) -> tuple[PlayerId, ...]:
+        """Players to pair in ``round_number`` (H4), in initial-rank order."""
+        asked = self.requests.get(round_number, {})
+        out = []
+        for pid in self.initial_rank():
+            p = self.players[pid]
+            if p.entry_round > round_number or pid in asked:
+                continue
+            if p.withdrawn_from is not None and p.withdrawn_from <= round_number:
+                continue
+            out.append(pid)
+        return tuple(out)
