@@ -38,7 +38,7 @@ from pairings.state import (
 class _Builder:
     settings: Settings | None = None
     players: dict[PlayerId, Player] = field(default_factory=dict)
-    rounds: list[Round] = field(default_factory=list)
+    rounds: list[_RoundBuilder] = field(default_factory=list)
     forbidden: list[ForbiddenPair] = field(default_factory=list)
     requests: dict[int, dict[PlayerId, ByeKind]] = field(default_factory=dict)
     head: int = 0
@@ -123,31 +123,51 @@ def _(e: ev.PairForbidden, b: _Builder) -> None:
     b.forbidden.append(ForbiddenPair(PlayerId(e.a), PlayerId(e.b), e.until_round, e.reason))
 
 
-def _round_state(games: tuple[Game, ...], published: bool) -> RoundState:
-    if not published:
-        return RoundState.DRAFT
-    return RoundState.COMPLETE if all(g.result is not None for g in games) else RoundState.PUBLISHED
+@dataclass
+class _RoundBuilder:
+    """A round while folding: games by board, so a result is one dict update."""
+
+    number: int
+    games: dict[int, Game]
+    byes: tuple[Bye, ...]
+    cost: dict[str, float]
+    engine_version: str | None
+    source: str
+    notes: tuple[str, ...]
+    published: bool
+
+    def freeze(self) -> Round:
+        games = tuple(self.games[k] for k in sorted(self.games))
+        if not self.published:
+            state = RoundState.DRAFT
+        elif all(g.result is not None for g in games):
+            state = RoundState.COMPLETE
+        else:
+            state = RoundState.PUBLISHED
+        return Round(
+            number=self.number, state=state, games=games, byes=self.byes,
+            cost=MappingProxyType(self.cost), engine_version=self.engine_version,
+            source=self.source, notes=self.notes,
+        )
 
 
 @_apply.register
 def _(e: ev.RoundDrafted, b: _Builder) -> None:
-    games = tuple(
-        Game(
+    games = {
+        x.board: Game(
             board=x.board, first=PlayerId(x.first), second=PlayerId(x.second), result=x.result,
             flags=x.flags, cost=MappingProxyType(dict(x.cost)),
         )
         for x in e.boards
-    )
+    }
     byes = tuple(Bye(PlayerId(x.player), x.kind, x.points) for x in e.byes)
     previous = b.rounds[e.round - 1] if len(b.rounds) >= e.round else None
     notes = previous.notes if previous is not None else ()
     if e.reason:
         notes = notes + (e.reason,)
-    published = e.source == "restored"
-    new = Round(
-        number=e.round, state=_round_state(games, published), games=games, byes=byes,
-        cost=MappingProxyType(dict(e.cost)), engine_version=e.engine_version,
-        source=e.source, notes=notes,
+    new = _RoundBuilder(
+        number=e.round, games=games, byes=byes, cost=dict(e.cost), engine_version=e.engine_version,
+        source=e.source, notes=notes, published=False,
     )
     if previous is not None:
         b.rounds[e.round - 1] = new
@@ -163,24 +183,23 @@ def _(e: ev.DraftDiscarded, b: _Builder) -> None:
 
 @_apply.register
 def _(e: ev.RoundPublished, b: _Builder) -> None:
-    r = b.rounds[e.round - 1]
-    b.rounds[e.round - 1] = replace(r, state=_round_state(r.games, True))
+    b.rounds[e.round - 1].published = True
 
 
 @_apply.register
 def _(e: ev.RoundUnpublished, b: _Builder) -> None:
     r = b.rounds[e.round - 1]
-    b.rounds[e.round - 1] = replace(r, state=RoundState.DRAFT, notes=r.notes + (e.reason,))
+    r.published = False
+    r.notes = r.notes + (e.reason,)
 
 
 @_apply.register
 def _(e: ev.ResultRecorded, b: _Builder) -> None:
-    r = b.rounds[e.round - 1]
-    games = tuple(replace(g, result=e.result) if g.board == e.board else g for g in r.games)
-    b.rounds[e.round - 1] = replace(r, games=games, state=_round_state(games, True))
+    games = b.rounds[e.round - 1].games
+    games[e.board] = replace(games[e.board], result=e.result)
 
 
-def _records(settings: Settings, players: dict[PlayerId, Player], rounds: list[Round]) -> dict[PlayerId, PlayerRecord]:
+def _records(settings: Settings, players: dict[PlayerId, Player], rounds: tuple[Round, ...]) -> dict[PlayerId, PlayerRecord]:
     """Each player's round-by-round history over the published and complete rounds."""
     entries: dict[PlayerId, list[RoundEntry]] = {pid: [] for pid in players}
     score: dict[PlayerId, float] = {pid: 0.0 for pid in players}
@@ -231,12 +250,13 @@ def fold(log: Iterable[tuple[int, ev.Event]]) -> EventState:
         _apply(event, b)
     if b.settings is None:
         raise ValueError("the log holds no event-created record")
+    rounds = tuple(r.freeze() for r in b.rounds)
     return EventState(
         settings=b.settings,
         players=MappingProxyType(dict(b.players)),
-        rounds=tuple(b.rounds),
+        rounds=rounds,
         forbidden=tuple(b.forbidden),
         requests=MappingProxyType({k: MappingProxyType(dict(v)) for k, v in b.requests.items()}),
-        records=MappingProxyType(_records(b.settings, b.players, b.rounds)),
+        records=MappingProxyType(_records(b.settings, b.players, rounds)),
         head=b.head,
     )
