@@ -74,14 +74,14 @@ def _name(rng: random.Random, taken: set[str]) -> str:
 
 
 def _field(n_players: int, rng: random.Random) -> list[_Entrant]:
-    width = max(3, len(str(n_players)))
     taken: set[str] = set()
     out = []
     for i in range(n_players):
         strength = min(2800.0, max(1000.0, rng.gauss(1800, 300)))
         rated = rng.random() >= _UNRATED
         rating = round(min(2800.0, max(1000.0, strength + rng.gauss(0, 75)))) if rated else None
-        out.append(_Entrant(PlayerId(f"p{i + 1:0{width}d}"), _name(rng, taken), rating, strength, i))
+        # ids as the desk gives them (pairings.actions.new_id): p1, p2, ...
+        out.append(_Entrant(PlayerId(f"p{i + 1}"), _name(rng, taken), rating, strength, i))
     return out
 
 
