@@ -300,11 +300,11 @@ def record_result(
     correct: bool = False,
 ) -> list[ev.Event]:
     """Enter (or, with ``correct``, change or clear) the result on one board."""
+    code = Result.parse(result) if isinstance(result, str) else result
     rnd = results_round(state, round_number)
     game = rnd.game_on(board)
     if game is None:
         raise InputError(f"round {rnd.number} has no board {board} (boards 1-{len(rnd.games)})")
-    code = Result.parse(result) if isinstance(result, str) else result
     if game.result is not None and not correct:
         raise InputError(
             f"board {board} of round {rnd.number} already has {game.result.value}; "
