@@ -1,0 +1,161 @@
+"""Each player's rounds, normalised once for every tiebreak.
+
+A :class:`Slot` says what one player did in one round up to the cut-off round:
+a game played over the board, a game still waiting for its result, or an
+*unplayed* round (forfeit won or lost, any kind of bye, an absence, a round
+before the player entered or after they withdrew). The tiebreak functions in
+:mod:`pairings.standings.tiebreaks` read only a :class:`Context`.
+
+The treatment of unplayed rounds follows ``rules.md`` ("Tiebreaks"):
+
+* *as they stand*: an unplayed round adds no opponent, and every player counts
+  with their actual score in other players' tiebreaks;
+* *virtual opponent* (FIDE 2009 Congress decision on unplayed games, restated in
+  FIDE Handbook C.07 of 2022): an unplayed round R of a player counts as a game
+  against a virtual opponent scoring ``SPR + (1 - SfPR) + 0.5 * (n - R)``, and
+  towards other players' tiebreaks a player's own unplayed rounds count as draws;
+* *dummy opponent* (FIDE Handbook C.07 of 2023, from memory): an unplayed round
+  counts as a game against an opponent holding the player's own score; other
+  players' scores count as they stand.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+from enum import StrEnum
+from types import MappingProxyType
+from typing import Mapping
+
+from pairings.state import EventState, PlayerId, RoundEntry, Scoring, Side, Unplayed
+
+
+class SlotKind(StrEnum):
+    PLAYED = "played"
+    """A game played over the board, with its result."""
+    PENDING = "pending"
+    """A published game whose result is not in yet (provisional standings)."""
+    UNPLAYED = "unplayed"
+    """A forfeit, a bye of any kind, an absence, or a round outside the player's entry."""
+
+
+@dataclass(frozen=True, slots=True)
+class Slot:
+    round: int
+    kind: SlotKind
+    opponent: PlayerId | None
+    """The opponent over the board (also for a pending game); None when unplayed."""
+    side: Side | None
+    """The side of a played or pending game; None when unplayed."""
+    points: float
+    """Points the player scored this round (0 while pending)."""
+    fraction: float
+    """The round's score as a share of a win: 1, ½, 0 for a game; points / win when unplayed."""
+    won: bool
+    """Scored a win's points, with or without play."""
+    score_before: float
+
+
+@dataclass(frozen=True, slots=True)
+class Context:
+    """Everything the tiebreaks need, over rounds ``1 .. last``."""
+
+    state: EventState
+    last: int
+    unplayed: Unplayed
+    slots: Mapping[PlayerId, tuple[Slot, ...]]
+    """One slot per round 1..last for every player, in round order."""
+    points: Mapping[PlayerId, float]
+    """Actual points after round ``last``."""
+    for_others: Mapping[PlayerId, float]
+    """The score a player counts with in other players' tiebreaks (see module notes)."""
+
+    @property
+    def scoring(self) -> Scoring:
+        return self.state.settings.scoring
+
+    def rating(self, player: PlayerId) -> int:
+        """The player's rating, or the event's default rating for an unrated player."""
+        rating = self.state.players[player].rating
+        return rating if rating is not None else self.state.settings.default_rating
+
+    def opponent_values(self, player: PlayerId) -> list[tuple[Slot, float]]:
+        """Each round that contributes an opponent, with the score that opponent counts with.
+
+        Played and pending games give the real opponent's :attr:`for_others`
+        score; unplayed rounds give the virtual or dummy opponent's score, or
+        nothing when unplayed games count as they stand.
+        """
+        out: list[tuple[Slot, float]] = []
+        for slot in self.slots[player]:
+            if slot.opponent is not None:
+                out.append((slot, self.for_others[slot.opponent]))
+            elif self.unplayed is Unplayed.VIRTUAL_OPPONENT:
+                out.append((slot, virtual_opponent_score(slot, self.last, self.scoring)))
+            elif self.unplayed is Unplayed.DUMMY_OPPONENT:
+                out.append((slot, self.points[player]))
+        return out
+
+
+def opposite_points(points: float, scoring: Scoring) -> float:
+    """The points of the other side of a result worth ``points`` (``1 - SfPR`` for 1-½-0)."""
+    if points == scoring.win:
+        return scoring.loss
+    if points == scoring.loss:
+        return scoring.win
+    if points == scoring.draw:
+        return scoring.draw
+    return scoring.win + scoring.loss - points
+
+
+def virtual_opponent_score(slot: Slot, last: int, scoring: Scoring) -> float:
+    """``Svon = SPR + (1 - SfPR) + 0.5 * (n - R)`` (FIDE 2009 decision on unplayed games).
+
+    ``SPR`` is the player's score before round ``R``, ``SfPR`` the player's
+    points in round ``R``, ``n`` the last round counted. With other scoring the
+    ``1 - SfPR`` is the opposite result and ``0.5`` a draw's points.
+    """
+    later = last - slot.round
+    return slot.score_before + opposite_points(slot.points, scoring) + scoring.draw * later
+
+
+def _slot(entry: RoundEntry | None, round_number: int, before: float, scoring: Scoring) -> Slot:
+    if entry is None:
+        return Slot(round_number, SlotKind.UNPLAYED, None, None, 0.0, 0.0, False, before)
+    points = entry.points or 0.0
+    if entry.opponent is not None and entry.result is None:
+        return Slot(round_number, SlotKind.PENDING, entry.opponent, entry.side, 0.0, 0.0, False, before)
+    won = scoring.win > scoring.loss and points >= scoring.win
+    if entry.played and entry.result is not None and entry.side is not None:
+        outcome = entry.result.outcome(entry.side)
+        fraction = {"win": 1.0, "draw": 0.5, "loss": 0.0}[outcome]
+        return Slot(round_number, SlotKind.PLAYED, entry.opponent, entry.side, points, fraction, won, before)
+    fraction = points / scoring.win if scoring.win else 0.0
+    return Slot(round_number, SlotKind.UNPLAYED, None, None, points, fraction, won, before)
+
+
+def build_context(state: EventState, last: int, unplayed: Unplayed) -> Context:
+    """Normalise every player's rounds ``1 .. last`` into slots (see :class:`Slot`)."""
+    scoring = state.settings.scoring
+    slots: dict[PlayerId, tuple[Slot, ...]] = {}
+    points: dict[PlayerId, float] = {}
+    for pid, record in state.records.items():
+        row: list[Slot] = []
+        score = 0.0
+        for r in range(1, last + 1):
+            slot = _slot(record.entry(r), r, score, scoring)
+            row.append(slot)
+            score += slot.points
+        slots[pid] = tuple(row)
+        points[pid] = score
+    if unplayed is Unplayed.VIRTUAL_OPPONENT:
+        # A player's own unplayed rounds count as draws towards other players' tiebreaks.
+        for_others = {
+            pid: sum(s.points if s.kind is not SlotKind.UNPLAYED else scoring.draw for s in row)
+            for pid, row in slots.items()
+        }
+    else:
+        for_others = dict(points)
+    return Context(
+        state=state, last=last, unplayed=unplayed, slots=MappingProxyType(slots),
+        points=MappingProxyType(points), for_others=MappingProxyType(for_others),
+    )
