@@ -1,0 +1,86 @@
+"""Integer edge weights that make one maximum-weight matching the lexicographic optimum.
+
+Notes
+-----
+**Components.** A pair's cost tuple (``CRITERIA`` order) is expanded into the
+components ``rematch, side_rule, repeat_bye, gap_L, ..., gap_1, bye_rank,
+pref_absolute, pref_strong, pref_mild, float_repeat, float_repeat_2,
+rank_order``, where ``gap_d`` is 1 when the pair's score gap is ``d`` units
+(``L`` is the largest gap among the candidate edges). Comparing the per-level
+counts ``(c_L, ..., c_1)`` highest level first is the same as comparing the
+sorted-largest-first gap lists lexicographically (rules.md S2), because all
+maximum-cardinality matchings have the same number of pairs: at the highest
+level where the counts differ, the list with more entries at that level has the
+larger element at the first position where the lists differ.
+
+**Bound (proof of strict priority).** Let ``P`` be the number of edges of a
+matching (at most ``floor(V / 2)`` for ``V`` vertices) and ``m_k`` the largest
+value of component ``k`` over the candidate edges. Every matching's total in
+component ``k`` is an integer ``S_k`` with ``0 <= S_k <= T_k := P * m_k``. With
+radices ``R_k = T_k + 1`` and place values ``M_last = 1``,
+``M_k = M_{k+1} * R_{k+1}``, a matching's total cost is
+``C = sum_k S_k * M_k``: the mixed-radix number with digits ``S_k`` (each digit
+below its radix). Two digit strings compare as numbers exactly as they compare
+lexicographically, so no amount of lower components can outweigh one unit of
+a higher one, whatever the field size. Each edge gets the weight
+``w(e) = K - cost(e)`` with ``K = 1 + max_e cost(e)`` > 0; for matchings of the
+same cardinality ``c``, ``W = c * K - C``, so the maximum-weight matching among
+those of maximum cardinality (Edmonds' blossom algorithm with
+``maxcardinality``) is the lexicographic minimum of the cost vector. S1 (pair as
+many as possible) is the cardinality itself.
+
+The weights are exact Python integers (no floats, any size); the fast solver
+path checks that they fit its integer type before it is used.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+from typing import Sequence
+
+from pairings.engine.criteria import Cost
+
+GAP_INDEX = 3
+"""Position of ``score_gap`` in a cost tuple."""
+
+
+@dataclass(frozen=True, slots=True)
+class Encoder:
+    """Place values for the expanded components of the candidate edges' costs."""
+
+    levels: int
+    """Largest score gap ``L`` (in units) among the candidate edges."""
+    place: tuple[int, ...]
+    """``M_k`` for each expanded component, highest priority first."""
+    top: int
+    """``K``: one more than the largest edge cost."""
+
+    def expand(self, cost: Cost) -> tuple[int, ...]:
+        gap = cost[GAP_INDEX]
+        levels = tuple(1 if gap == d else 0 for d in range(self.levels, 0, -1))
+        return cost[:GAP_INDEX] + levels + cost[GAP_INDEX + 1:]
+
+    def cost(self, cost: Cost) -> int:
+        return sum(c * m for c, m in zip(self.expand(cost), self.place))
+
+    def weight(self, cost: Cost) -> int:
+        return self.top - self.cost(cost)
+
+
+def encoder(costs: Sequence[Cost], vertices: int) -> Encoder:
+    """Build the place values for these candidate edge costs (see the module Notes)."""
+    levels = max((c[GAP_INDEX] for c in costs), default=0)
+    width = len(costs[0]) - 1 + levels if costs else 0
+    maxima = [0] * width
+    probe = Encoder(levels, (0,) * width, 0)
+    for c in costs:
+        for k, v in enumerate(probe.expand(c)):
+            if v > maxima[k]:
+                maxima[k] = v
+    pairs = vertices // 2
+    place = [1] * width
+    for k in range(width - 2, -1, -1):
+        place[k] = place[k + 1] * (pairs * maxima[k + 1] + 1)
+    enc = Encoder(levels, tuple(place), 0)
+    top = 1 + max((enc.cost(c) for c in costs), default=0)
+    return Encoder(levels, tuple(place), top)
