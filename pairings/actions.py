@@ -283,9 +283,9 @@ def unpublish(state: EventState, reason: str) -> list[ev.Event]:
 def results_round(state: EventState, round_number: int | None) -> Round:
     """The round results go into: the given one, else the newest published one."""
     if round_number is None:
-        for rnd in reversed(state.rounds):
-            if rnd.state is not RoundState.DRAFT:
-                return rnd
+        for played in reversed(state.rounds):
+            if played.state is not RoundState.DRAFT:
+                return played
         raise RoundStateError("no round has been published yet")
     rnd = state.round(round_number)
     if rnd is None:

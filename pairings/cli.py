@@ -16,6 +16,7 @@ from typing import Any, Callable, NoReturn, Sequence
 
 from pairings import actions
 from pairings.errors import InputError, PairingsError
+from pairings.events import Undone
 from pairings.state import ByeKind, EventState, RoundState
 from pairings.store import EventStore
 
@@ -261,7 +262,7 @@ def cmd_log(a: argparse.Namespace) -> None:
 
     with _open(a.event) as store:
         log = store.log
-    undone = {s.event.target for s in log if s.event.type == "undone"}  # type: ignore[union-attr]
+    undone = {s.event.target for s in log if isinstance(s.event, Undone)}
     for s in log:
         mark = "  (undone)" if s.seq in undone else ""
         _say(f"{s.seq:>5}  {s.recorded_at[:19].replace('T', ' ')}  {describe(s.event)}{mark}")
