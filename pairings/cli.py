@@ -146,13 +146,14 @@ def print_round(state: EventState, number: int) -> None:
     rnd = state.rounds[number - 1]
     sides = state.settings.sides or ("", "")
     _say(f"{state.settings.name} — round {rnd.number} ({rnd.state.value})")
+    before = {pid: rec.score_before(rnd.number) for pid, rec in state.records.items()}
     for g in rnd.games:
         first, second = state.players[g.first], state.players[g.second]
         res = g.result.value if g.result else ""
         flags = " ".join(g.flags)
         _say(
-            f"{g.board:>4}  {first.name[:28]:<28} {state.score(g.first):>4g}  -  "
-            f"{second.name[:28]:<28} {state.score(g.second):>4g}  {res:<7} {flags}"
+            f"{g.board:>4}  {first.name[:28]:<28} {before[g.first]:>4g}  -  "
+            f"{second.name[:28]:<28} {before[g.second]:>4g}  {res:<7} {flags}"
         )
     for y in rnd.byes:
         _say(f"  bye  {state.players[y.player].name} ({y.kind.value}, {y.points:g})")

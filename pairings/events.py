@@ -115,7 +115,7 @@ class BoardModel(_Event):
     second: str
     result: Result | None = None
     flags: tuple[str, ...] = ()
-    cost: dict[str, float] = {}
+    cost: dict[str, int] = {}
 
 
 class ByeModel(_Event):
@@ -131,7 +131,7 @@ class RoundDrafted(_Event):
     round: int = Field(ge=1)
     boards: tuple[BoardModel, ...]
     byes: tuple[ByeModel, ...] = ()
-    cost: dict[str, float] = {}
+    cost: dict[str, int] = {}
     engine_version: str | None = None
     source: Literal["engine", "override", "restored"] = "engine"
     reason: str = ""
