@@ -1,0 +1,110 @@
+"""Build event states for the engine tests straight from events (invented names only)."""
+
+from __future__ import annotations
+
+import random
+from typing import Sequence
+
+from pairings import events as ev
+from pairings.engine import Draft, draft_round
+from pairings.errors import NoPairingError
+from pairings.fold import fold
+from pairings.state import EventState, Result
+
+
+def new_event(ratings: Sequence[int | None], rounds: int = 9, **settings: object) -> list[ev.Event]:
+    log: list[ev.Event] = [ev.EventCreated(name="Test Open", rounds=rounds, **settings)]  # type: ignore[arg-type]
+    for i, rating in enumerate(ratings):
+        log.append(ev.PlayerRegistered(id=f"p{i + 1:05d}", name=f"Player {i + 1:05d}", rating=rating))
+    return log
+
+
+def state_of(log: Sequence[ev.Event]) -> EventState:
+    return fold(enumerate(log, 1))
+
+
+def draft_events(draft: Draft, source: str = "engine") -> ev.RoundDrafted:
+    return ev.RoundDrafted(
+        round=draft.round,
+        boards=tuple(ev.BoardModel(board=b.board, first=b.first, second=b.second, flags=b.flags,
+                                   cost=dict(b.cost)) for b in draft.boards),
+        byes=tuple(ev.ByeModel(player=y.player, kind=y.kind, points=y.points) for y in draft.byes),
+        cost=dict(draft.cost), engine_version=draft.engine_version, source=source,  # type: ignore[arg-type]
+    )
+
+
+def random_result(rng: random.Random, forfeits: bool = True) -> Result:
+    x = rng.random()
+    if forfeits and x < 0.03:
+        return rng.choice([Result.FIRST_WINS_BY_FORFEIT, Result.SECOND_WINS_BY_FORFEIT])
+    return Result.FIRST_WINS if x < 0.4 else Result.SECOND_WINS if x < 0.75 else Result.DRAW
+
+
+def play(log: list[ev.Event], draft: Draft, rng: random.Random, forfeits: bool = True) -> None:
+    """Append the draft, its publication and random results to ``log``."""
+    log.append(draft_events(draft))
+    log.append(ev.RoundPublished(round=draft.round))
+    for b in draft.boards:
+        log.append(ev.ResultRecorded(round=draft.round, board=b.board, result=random_result(rng, forfeits)))
+
+
+def simulate(n: int, rounds_played: int, seed: int = 1, withdraw: float = 0.0, byes: float = 0.0,
+             **settings: object) -> list[ev.Event]:
+    """A log of ``rounds_played`` engine-paired rounds with random results."""
+    rng = random.Random(seed)
+    log = new_event([rng.randint(1000, 2600) for _ in range(n)], **settings)
+    for r in range(1, rounds_played + 1):
+        state = state_of(log)
+        for pid in state.available(r):
+            x = rng.random()
+            if x < withdraw:
+                log.append(ev.PlayerWithdrawn(player=pid, from_round=r))
+            elif x < withdraw + byes:
+                log.append(ev.ByeRequested(player=pid, round=r, kind="requested"))  # type: ignore[arg-type]
+        play(log, draft_round(state_of(log)), rng)
+    return log
+
+
+def random_history(n: int, rounds_played: int, seed: int, withdraw: float = 0.0, byes: float = 0.0,
+                   engine_rounds: bool = False, **settings: object) -> list[ev.Event]:
+    """A log whose rounds are random pairings with random sides (or engine drafts).
+
+    Random pairings make rematches, side imbalances and repeated byes likely, so
+    later rounds exercise every hard-rule relaxation.
+    """
+    rng = random.Random(seed)
+    log = new_event([rng.choice([None, rng.randint(1000, 2600)]) for _ in range(n)],
+                    rounds=max(rounds_played + 1, 1), **settings)
+    for r in range(1, rounds_played + 1):
+        state = state_of(log)
+        for pid in state.available(r):
+            x = rng.random()
+            if x < withdraw:
+                log.append(ev.PlayerWithdrawn(player=pid, from_round=r))
+            elif x < withdraw + byes:
+                kind = rng.choice(["requested", "absence"])
+                log.append(ev.ByeRequested(player=pid, round=r, kind=kind))  # type: ignore[arg-type]
+        state = state_of(log)
+        here = list(state.available(r))
+        if len(here) < 2:
+            break
+        if engine_rounds:
+            try:
+                play(log, draft_round(state), rng)
+                continue
+            except NoPairingError:
+                pass  # fall back to a random pairing (a forced full rematch round)
+        rng.shuffle(here)
+        byes_out = []
+        if len(here) % 2:
+            byes_out.append(ev.ByeModel(player=here.pop(), kind="pairing", points=1.0))  # type: ignore[arg-type]
+        boards = tuple(ev.BoardModel(board=k + 1, first=here[2 * k], second=here[2 * k + 1])
+                       for k in range(len(here) // 2))
+        asked = state.requests.get(r, {})
+        byes_out += [ev.ByeModel(player=p, kind=k, points=0.5 if k == "requested" else 0.0)  # type: ignore[arg-type]
+                     for p, k in asked.items()]
+        log.append(ev.RoundDrafted(round=r, boards=boards, byes=tuple(byes_out), source="override"))
+        log.append(ev.RoundPublished(round=r))
+        for b in boards:
+            log.append(ev.ResultRecorded(round=r, board=b.board, result=random_result(rng)))
+    return log
