@@ -5,9 +5,11 @@ arbiters in ``docs/engine.md``; the rules are ``shared/rules.md``.
 """
 
 from pairings.engine.draft import draft_round, rebuild, swap
+from pairings.engine.explain import CostDelta, Explanation, compare, explain
 from pairings.engine.types import CRITERIA, ENGINE_VERSION, Draft, DraftBoard, Overrides
+from pairings.engine.verify import RoundCheck, verify_round
 
 __all__ = [
-    "CRITERIA", "ENGINE_VERSION", "Draft", "DraftBoard", "Overrides",
-    "draft_round", "rebuild", "swap",
+    "CRITERIA", "ENGINE_VERSION", "CostDelta", "Draft", "DraftBoard", "Explanation", "Overrides",
+    "RoundCheck", "compare", "draft_round", "explain", "rebuild", "swap", "verify_round",
 ]

@@ -116,8 +116,11 @@ def _check_overrides(state: EventState, round_number: int, players: list[PlayerI
         raise NoPairingError(f"the forced bye player {ov.bye!r} is not available in round {round_number}")
 
 
-def draft_round(state: EventState, overrides: Overrides = Overrides()) -> Draft:
+def draft_round(state: EventState, overrides: Overrides = Overrides(), *, reference: bool = False) -> Draft:
     """Draft round ``state.next_round_number`` (a DRAFT last round is re-drafted).
+
+    ``reference`` solves the full candidate graph with networkx instead of the
+    engine's pruned graph and fastest solver (same optimum; for checks).
 
     Raises
     ------
@@ -144,7 +147,7 @@ def draft_round(state: EventState, overrides: Overrides = Overrides()) -> Draft:
             f"round {rnd}: forcing {state.players[overrides.bye].name} onto the bye leaves "
             f"an odd number of players ({len(free)}) for the boards"
         )
-    pairs, bye = candidates.optimal_pairs(fld, free, overrides.no_bye)
+    pairs, bye = candidates.optimal_pairs(fld, free, overrides.no_bye, reference)
     bye = overrides.bye if overrides.bye is not None else bye
     return assemble(state, fld, pinned + pairs, bye, pinned=overrides.pinned, absent=overrides.absent)
 

@@ -1,0 +1,151 @@
+"""Re-check a stored round: hard-rule breaches, the optimum, and Berge's certificate.
+
+Notes
+-----
+Each round is checked against the history *before* it (the state is cut back
+to the earlier rounds), so later rounds never change the verdict.
+
+- H1-H5 are checked board by board on the stored pairs and sides.
+- For a round the engine drafted (``source == "engine"``), the optimum is
+  recomputed with the reference solver (networkx on the full candidate graph)
+  under the pins and absences the round shows, and its cost vector must equal
+  the stored pairing's recomputed cost vector.
+- Berge's theorem (a matching is maximum if and only if no augmenting path
+  exists) certifies that the round pairs as many players as the *allowed*
+  graph (edges breaking none of H1, H2, H3, H5) permits: a maximum matching of
+  that graph is computed independently; when its size equals the number of the
+  round's legal boards (the pairing bye counted as an edge to a bye vertex),
+  no augmenting path exists, so no pairing with more legal boards exists.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass, replace
+from types import MappingProxyType
+
+from pairings.engine.criteria import Field
+from pairings.engine.draft import draft_round, rebuild
+from pairings.engine.explain import _overrides_of, compare
+from pairings.engine.solver import maximum_cardinality
+from pairings.engine.types import Draft, DraftBoard, Overrides
+from pairings.errors import InputError, NoPairingError
+from pairings.state import ByeKind, EventState, PlayerId, PlayerRecord, Round, System
+
+
+@dataclass(frozen=True)
+class RoundCheck:
+    round: int
+    breaches: tuple[str, ...]
+    notes: tuple[str, ...]
+    optimal: bool | None
+    """Engine rounds: True when the reference optimum has the same cost; None otherwise."""
+    certified: bool
+    """Berge: no augmenting path in the allowed graph."""
+
+    @property
+    def ok(self) -> bool:
+        return not self.breaches and self.optimal is not False
+
+    def lines(self) -> list[str]:
+        head = f"round {self.round}: " + ("ok" if self.ok else f"{len(self.breaches)} breach(es)")
+        return [head, *(f"  breach: {b}" for b in self.breaches), *(f"  {n}" for n in self.notes)]
+
+
+def state_before(state: EventState, round_number: int) -> EventState:
+    """The state as it was when ``round_number`` was drafted (earlier rounds only)."""
+    records = {
+        pid: PlayerRecord(pid, tuple(e for e in rec.entries if e.round < round_number),
+                          rec.score_before(round_number))
+        for pid, rec in state.records.items()
+    }
+    return replace(state, rounds=state.rounds[:round_number - 1], records=MappingProxyType(records))
+
+
+def verify_round(state: EventState, round_number: int) -> RoundCheck:
+    """H1-H5 breaches of stored round ``round_number``; for engine rounds, the optimum too."""
+    stored = state.round(round_number)
+    if stored is None:
+        raise InputError(f"there is no round {round_number} to verify")
+    before = state_before(state, round_number)
+    pairs = [(g.first, g.second) for g in stored.games]
+    pairing_bye = next((y.player for y in stored.byes if y.kind is ByeKind.PAIRING), None)
+    breaches: list[str] = []
+    available = set(before.available(round_number))
+    seen: set[PlayerId] = set()
+    for pid in [p for pair in pairs for p in pair] + ([pairing_bye] if pairing_bye else []):
+        if pid not in available:
+            breaches.append(f"H4: {pid} is paired but not available in round {round_number}")
+        if pid in seen:
+            breaches.append(f"H4: {pid} is paired twice")
+        seen.add(pid)
+    if breaches:
+        return RoundCheck(round_number, tuple(breaches), (), None, False)
+    fld = Field(before, round_number, list(seen))
+    for g in stored.games:
+        cost = fld.pair(g.first, g.second, (g.first, g.second))[1]
+        if fld.forbidden(g.first, g.second):
+            breaches.append(f"H5: board {g.board} pairs {g.first} and {g.second}, on the do-not-pair list")
+        if cost[0]:
+            breaches.append(f"H1: board {g.board}: {g.first} and {g.second} have met before")
+        if cost[1]:
+            breaches.append(f"H3: board {g.board}: a side rule is broken ({g.first} - {g.second})")
+    if pairing_bye is not None and fld.bye(pairing_bye)[2]:
+        breaches.append(f"H2: {pairing_bye} gets a second pairing bye or one after an unplayed point")
+    notes: list[str] = []
+    certified = _berge(fld, pairs, pairing_bye, notes)
+    optimal = None
+    if stored.source == "engine":
+        optimal = _optimum_confirmed(state, before, round_number, notes)
+    return RoundCheck(round_number, tuple(breaches), tuple(notes), optimal, certified)
+
+
+def _berge(fld: Field, pairs: list[tuple[PlayerId, PlayerId]], bye: PlayerId | None,
+           notes: list[str]) -> bool:
+    players = list(fld.order)
+    where = {p: i for i, p in enumerate(players)}
+    bye_vertex = len(players)
+
+    def legal(a: PlayerId, b: PlayerId) -> bool:
+        cost = fld.pair(a, b)[1]
+        return not fld.forbidden(a, b) and not cost[0] and not cost[1]
+
+    allowed = [(i, j) for i in range(len(players)) for j in range(i + 1, len(players))
+               if legal(players[i], players[j])]
+    if len(players) % 2:
+        allowed += [(i, bye_vertex) for i, p in enumerate(players) if not fld.bye(p)[2]]
+    mine = sum(1 for a, b in pairs if legal(a, b)) + (1 if bye is not None and not fld.bye(bye)[2] else 0)
+    best = maximum_cardinality(len(players) + 1, allowed)
+    if mine == best:
+        notes.append(f"Berge certificate: {mine} legal boards, and no augmenting path exists in the "
+                     "allowed graph, so no pairing has more legal boards")
+        return True
+    notes.append(f"Berge: an augmenting path exists: {best} legal boards were possible, {mine} made")
+    return False
+
+
+def _optimum_confirmed(state: EventState, before: EventState, rnd: int, notes: list[str]) -> bool:
+    stored = state.round(rnd)
+    assert stored is not None
+    drafted = Draft(rnd, _as_boards(stored), stored.byes, MappingProxyType({}), "")
+    try:
+        ov = _overrides_of(before, drafted)
+        if before.settings.system is System.ROUND_ROBIN:
+            best = draft_round(before, Overrides(absent=ov.absent))
+        else:
+            best = draft_round(before, ov, reference=True)
+    except NoPairingError as e:
+        notes.append(f"reference solver: {e}")
+        return False
+    pairs = [(b.first, b.second) for b in drafted.boards]
+    bye = next((y.player for y in stored.byes if y.kind is ByeKind.PAIRING), None)
+    mine = rebuild(before, rnd, pairs, bye, base=drafted)
+    delta = compare(best, mine)
+    if mine.key() == best.key():
+        notes.append("reference solver (networkx, full graph) confirms the cost: optimal")
+        return True
+    notes.append(f"reference solver finds a cheaper pairing: stored round is {delta.describe()}")
+    return False
+
+
+def _as_boards(stored: Round) -> tuple[DraftBoard, ...]:
+    return tuple(DraftBoard(g.board, g.first, g.second, MappingProxyType({}), g.flags) for g in stored.games)
