@@ -1,0 +1,240 @@
+"""The desk application: five places over one event store.
+
+:class:`DeskApp` receives an open :class:`~pairings.store.EventStore` and never
+opens files itself except to write a printout. Every change is a pure action
+from :mod:`pairings.actions` applied through :meth:`DeskApp.apply`, which
+refuses (writes nothing) when the organiser's decision was made on a state
+that is no longer the file's. A timer polls the file for writes from other
+processes and reloads.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+from pathlib import Path
+from typing import Iterable
+
+from textual import on, work
+from textual.app import App, SystemCommand
+from textual.binding import Binding
+from textual.message import Message
+from textual.screen import Screen
+
+from pairings.errors import ConflictError, InputError, RosterError
+from pairings.state import EventState
+from pairings.store import EventStore
+from pairings.tui.base import Action, Place
+from pairings.tui.dialogs import Field, FormDialog, HelpDialog
+from pairings.tui.log import LogPlace
+from pairings.tui.results import ResultsPlace
+from pairings.tui.roster import RosterPlace
+from pairings.tui.round import RoundPlace
+from pairings.tui.standings import StandingsPlace
+
+PLACES: dict[str, type[Place]] = {
+    "roster": RosterPlace,
+    "round": RoundPlace,
+    "results": ResultsPlace,
+    "standings": StandingsPlace,
+    "log": LogPlace,
+}
+"""The places in their key order (F2 … F6)."""
+
+KINDS = ("pairings", "names", "slips", "standings", "crosstable")
+FORMATS = {"text": "txt", "csv": "csv", "json": "json", "html": "html", "pdf": "pdf"}
+
+
+def _key_label(key: str) -> str:
+    return ", ".join(k.upper() if k.startswith("f") and k[1:].isdigit() else k for k in key.split(","))
+
+
+def binding_rows(bindings: Iterable[object]) -> list[tuple[str, str]]:
+    """(keys, description) for every binding with a description."""
+    rows = []
+    for b in bindings:
+        if isinstance(b, Binding) and b.description:
+            rows.append((b.key_display or _key_label(b.key), b.description))
+    return rows
+
+
+class DeskApp(App[None]):
+    """The full-screen desk on one event file."""
+
+    CSS_PATH = "desk.tcss"
+    TITLE = "pairings desk"
+    BINDINGS = [
+        Binding("f1", "help", "Help"),
+        Binding("f2", "place('roster')", "Roster"),
+        Binding("f3", "place('round')", "Round"),
+        Binding("f4", "place('results')", "Results"),
+        Binding("f5", "place('standings')", "Standings"),
+        Binding("f6", "place('log')", "Log"),
+        Binding("f7", "output", "Print"),
+        Binding("ctrl+q", "quit", "Quit", priority=True),
+    ]
+
+    @dataclass
+    class Exported(Message):
+        """A printout was written (or could not be)."""
+
+        path: Path | None
+        problem: str = ""
+
+    def __init__(self, store: EventStore, *, poll_seconds: float = 1.0, start: str = "round") -> None:
+        super().__init__()
+        self.store = store
+        self.state: EventState = store.state
+        self._poll_seconds = poll_seconds
+        self._start = start
+        self.last_output: Path | None = None
+        """Where the latest printout went."""
+        for name, place in PLACES.items():
+            self.add_mode(name, place)
+
+    def on_mount(self) -> None:
+        self.switch_mode(self._start)
+        self.set_interval(self._poll_seconds, self.poll)
+
+    # -- state -----------------------------------------------------------------------------
+
+    def places_on_screen(self) -> list[Place]:
+        return [s for s in self.screen_stack if isinstance(s, Place)]
+
+    def refresh_places(self) -> None:
+        for place in self.places_on_screen():
+            place.refresh_place()
+
+    def poll(self) -> None:
+        """Reload when another process wrote to the event file."""
+        try:
+            changed = self.store.changed_elsewhere()
+        except InputError as exc:
+            self.notify(str(exc), severity="error")
+            return
+        if changed:
+            self.state = self.store.reload()
+            self.refresh_places()
+            self.notify("changed elsewhere, reloaded", severity="warning")
+
+    def apply(self, action: Action, done: str, base: int) -> bool:
+        """Append ``action(state)``; refused when the file's head is no longer ``base``.
+
+        Returns True when the events were written.
+        """
+        try:
+            events = action(self.store.state)
+            self.state = self.store.append(events, expected=base)
+        except ConflictError:
+            self.state = self.store.state
+            self.refresh_places()
+            self.notify("changed elsewhere, reloaded: nothing written; check and try again", severity="error")
+            return False
+        except RosterError as exc:
+            self.notify("\n".join([str(exc), *exc.problems[:8]]), severity="error", timeout=12)
+            return False
+        except InputError as exc:
+            self.notify(str(exc), severity="error")
+            return False
+        self.refresh_places()
+        if done:
+            self.notify(done)
+        return True
+
+    # -- places, help, palette -------------------------------------------------------------
+
+    def action_place(self, name: str) -> None:
+        self.switch_mode(name)
+
+    def help_sections(self) -> list[tuple[str, list[tuple[str, str]]]]:
+        sections = [("Everywhere", binding_rows(self.BINDINGS) + [("ctrl+p", "search every action")])]
+        sections += [(place.TITLE, binding_rows(place.BINDINGS)) for place in PLACES.values()]
+        return sections
+
+    def action_help(self) -> None:
+        self.push_screen(HelpDialog(self.help_sections()))
+
+    def get_system_commands(self, screen: Screen[object]) -> Iterable[SystemCommand]:
+        for b in self.BINDINGS:
+            if isinstance(b, Binding) and b.description:
+                yield SystemCommand(b.description, f"key {_key_label(b.key)}", self._runner(None, b.action))
+        for mode, place in PLACES.items():
+            for b in place.BINDINGS:
+                if isinstance(b, Binding) and b.description:
+                    yield SystemCommand(
+                        f"{place.TITLE}: {b.description}", f"key {b.key_display or _key_label(b.key)}",
+                        self._runner(mode, b.action),
+                    )
+        yield from super().get_system_commands(screen)
+
+    def _runner(self, mode: str | None, action: str):  # type: ignore[no-untyped-def]
+        async def run() -> None:
+            if mode is None:
+                await self.run_action(action)
+                return
+            await self.switch_mode(mode)
+            await self.screen.run_action(action)
+
+        return run
+
+    # -- printouts -------------------------------------------------------------------------
+
+    def default_output(self, kind: str, fmt: str) -> Path:
+        number = self.state.last_round.number if self.state.last_round else 0
+        stem = self.store.path.stem
+        tail = f"-round{number}" if kind in ("pairings", "names", "slips") and number else ""
+        return self.store.path.with_name(f"{stem}-{kind}{tail}.{FORMATS.get(fmt, 'txt')}")
+
+    def action_output(self) -> None:
+        def check(values: dict[str, str]) -> str | None:
+            if values["kind"] not in KINDS:
+                return f"kind must be one of {', '.join(KINDS)}"
+            if values["format"] not in FORMATS:
+                return f"format must be one of {', '.join(FORMATS)}"
+            if values["round"] and not values["round"].isdigit():
+                return "round must be a number (or empty for the latest)"
+            if not Path(values["file"] or ".").expanduser().parent.is_dir():
+                return f"folder {Path(values['file']).parent} does not exist"
+            return None
+
+        def chosen(values: dict[str, str] | None) -> None:
+            if values is None:
+                return
+            path = Path(values["file"]).expanduser() if values["file"] else self.default_output(
+                values["kind"], values["format"])
+            number = int(values["round"]) if values["round"] else None
+            self.notify(f"writing {values['kind']} ({values['format']}) …")
+            self.write_report(self.state, values["kind"], values["format"], number, path)
+
+        fields = [
+            Field("kind", f"What ({', '.join(KINDS)})", "pairings"),
+            Field("format", f"Format ({', '.join(FORMATS)})", "text"),
+            Field("round", "Round (empty: the latest)", ""),
+            Field("file", "File (empty: beside the event file)", "", str(self.default_output("pairings", "text"))),
+        ]
+        self.push_screen(FormDialog("Print / export", fields, check), chosen)
+
+    @work(thread=True, exclusive=True, group="output")
+    def write_report(self, state: EventState, kind: str, fmt: str, number: int | None, path: Path) -> None:
+        from pairings.reports import render
+
+        try:
+            out = render(state, kind, fmt, number)
+            path.write_bytes(out.encode("utf-8") if isinstance(out, str) else out)
+        except (InputError, OSError) as exc:
+            self.post_message(self.Exported(None, str(exc)))
+            return
+        self.post_message(self.Exported(path))
+
+    @on(Exported)
+    def exported(self, message: Exported) -> None:
+        if message.path is None:
+            self.notify(f"not written: {message.problem}", severity="error")
+        else:
+            self.last_output = message.path
+            self.notify(f"written to {message.path}", timeout=10)
+
+
+def run_desk(path: Path) -> None:
+    """Open the event file at ``path`` in the desk until the organiser quits."""
+    with EventStore.open(path) as store:
+        DeskApp(store).run()

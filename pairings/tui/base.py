@@ -1,0 +1,75 @@
+"""What every place of the desk shares: the screen base class and its link to the app.
+
+A place (Roster, Round, Results, Standings, Log) shows one
+:class:`~pairings.state.EventState` at a time through :meth:`Place.show`; the
+app calls it after every change and whenever the place comes back into view
+with a state it has not shown yet. Changes go through :meth:`Place.apply`,
+which hands the pure action to the app together with the head of the state
+the organiser was looking at, so a decision made on a stale screen is refused.
+"""
+
+from __future__ import annotations
+
+from typing import TYPE_CHECKING, Callable, Sequence
+
+from textual.app import ComposeResult
+from textual.screen import Screen
+from textual.widgets import Footer, Label
+
+from pairings.events import Event
+from pairings.state import EventState
+from pairings.tui.text import cell, round_status
+
+if TYPE_CHECKING:
+    from pairings.tui.app import DeskApp
+
+Action = Callable[[EventState], Sequence[Event]]
+
+
+class Place(Screen[None]):
+    """One place of the desk; subclasses set ``TITLE``, ``BINDINGS`` and :meth:`body`."""
+
+    TITLE = ""
+
+    def __init__(self) -> None:
+        super().__init__()
+        self.shown_head = -1
+        """Head of the state on screen (-1: nothing shown yet)."""
+
+    @property
+    def desk(self) -> "DeskApp":
+        from pairings.tui.app import DeskApp
+
+        assert isinstance(self.app, DeskApp)
+        return self.app
+
+    @property
+    def state(self) -> EventState:
+        return self.desk.state
+
+    def compose(self) -> ComposeResult:
+        yield Label("", id="topline", classes="topline")
+        yield from self.body()
+        yield Footer(compact=True)
+
+    def body(self) -> ComposeResult:
+        yield from ()
+
+    def on_screen_resume(self) -> None:
+        if self.shown_head != self.state.head:
+            self.refresh_place()
+
+    def refresh_place(self) -> None:
+        state = self.state
+        self.query_one("#topline", Label).update(
+            cell(f"{state.settings.name} · {self.TITLE} · {round_status(state)}")
+        )
+        self.show(state)
+        self.shown_head = state.head
+
+    def show(self, state: EventState) -> None:
+        """Bring the widgets up to ``state``."""
+
+    def apply(self, action: Action, done: str, base: int | None = None) -> bool:
+        """Append what ``action`` returns; ``base`` is the head the decision was made on."""
+        return self.desk.apply(action, done, self.shown_head if base is None else base)

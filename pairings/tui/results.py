@@ -1,0 +1,195 @@
+"""Results: fast entry by board for the published round.
+
+Type a board number (or stay on the board under the cursor), then one key
+for the result; the cursor moves on to the next open board. A board that
+already has a result asks before it is changed.
+"""
+
+from __future__ import annotations
+
+from textual.app import ComposeResult
+from textual.binding import Binding
+from textual.widgets import DataTable, Label
+
+from pairings import actions
+from pairings.errors import InputError
+from pairings.state import EventState, Result, Round, RoundState
+from pairings.tui.base import Place
+from pairings.tui.dialogs import ConfirmDialog
+from pairings.tui.text import RESULT_WORDS, cell, name, points
+
+RESULT_KEYS: dict[str, Result] = {
+    "f": Result.FIRST_WINS,
+    "d": Result.DRAW,
+    "s": Result.SECOND_WINS,
+    "plus": Result.FIRST_WINS_BY_FORFEIT,
+    "minus": Result.SECOND_WINS_BY_FORFEIT,
+    "x": Result.DOUBLE_FORFEIT,
+}
+"""The one-key results (the keymap is plain data; the help and the footer read it)."""
+
+_KEY_SHOWN = {"plus": "+", "minus": "-"}
+
+
+def result_text(result: Result | None) -> str:
+    return f"{result.value}  {RESULT_WORDS[result]}" if result is not None else "open"
+
+
+class ResultsPlace(Place):
+    TITLE = "Results"
+    BINDINGS = [
+        *(Binding(key, f"result('{code.value}')", RESULT_WORDS[code], key_display=_KEY_SHOWN.get(key, key))
+          for key, code in RESULT_KEYS.items()),
+        Binding("c", "clear", "Clear result"),
+        *(Binding(str(d), f"digit({d})", "Board number", show=False) for d in range(10)),
+        Binding("backspace", "backspace", "Erase a digit", show=False),
+        Binding("enter", "go", "Go to board", show=False),
+        Binding("escape", "forget", "Forget the number", show=False),
+    ]
+
+    def __init__(self) -> None:
+        super().__init__()
+        self.typed = ""
+        """The board number being typed."""
+        self._shown: tuple[int, tuple[tuple[int, str, str], ...]] | None = None
+        """Round number and boards (board, first, second) the table holds."""
+
+    def body(self) -> ComposeResult:
+        yield Label("", id="open-count", classes="status")
+        yield Label("", id="entry", classes="entry")
+        table: DataTable[object] = DataTable(id="games", cursor_type="row", zebra_stripes=True)
+        yield table
+
+    def on_mount(self) -> None:
+        self.query_one("#games", DataTable).focus()
+        self.show_entry()
+
+    def round(self) -> Round | None:
+        try:
+            return actions.results_round(self.state, None)
+        except InputError:
+            return None
+
+    def show(self, state: EventState) -> None:
+        rnd = self.round()
+        table = self.query_one("#games", DataTable)
+        count = self.query_one("#open-count", Label)
+        if rnd is None:
+            table.clear(columns=True)
+            self._shown = None
+            count.update("No round published yet: publish a draft in the Round place (F3).")
+            return
+        left = len(rnd.open_boards)
+        state_words = "complete" if rnd.state is RoundState.COMPLETE else "published"
+        count.update(cell(f"Round {rnd.number} ({state_words}): {left} of {len(rnd.games)} boards open"))
+        shape = (rnd.number, tuple((g.board, g.first, g.second) for g in rnd.games))
+        sides = state.settings.sides or ("First", "Second")
+        if shape != self._shown:
+            table.clear(columns=True)
+            for label, key in (("Bd", "board"), (sides[0], "first"), ("Pts", "p1"), (sides[1], "second"),
+                               ("Pts", "p2"), ("Result", "result")):
+                table.add_column(cell(label), key=key)
+            for g in rnd.games:
+                table.add_row(
+                    str(g.board), cell(name(state, g.first)), points(state.records[g.first].score_before(rnd.number)),
+                    cell(name(state, g.second)), points(state.records[g.second].score_before(rnd.number)),
+                    result_text(g.result), key=str(g.board),
+                )
+            self._shown = shape
+            self.move_to_open(0)
+        else:
+            for g in rnd.games:
+                text = result_text(g.result)
+                if table.get_cell(str(g.board), "result") != text:
+                    table.update_cell(str(g.board), "result", text)
+
+    def show_entry(self) -> None:
+        text = f"Board: {self.typed}_" if self.typed else "Board: (the one under the cursor)"
+        keys = "  then f first wins · d draw · s second wins · + / - forfeit · x double forfeit · c clear"
+        self.query_one("#entry", Label).update(text + keys)
+
+    def move_to_open(self, start_index: int) -> None:
+        """Put the cursor on the first open board at or after ``start_index`` (wrapping round)."""
+        rnd = self.round()
+        table = self.query_one("#games", DataTable)
+        if rnd is None or not rnd.games:
+            return
+        n = len(rnd.games)
+        for step in range(n):
+            i = (start_index + step) % n
+            if rnd.games[i].result is None:
+                table.move_cursor(row=i)
+                return
+
+    def target(self) -> int | None:
+        rnd = self.round()
+        table = self.query_one("#games", DataTable)
+        if rnd is None:
+            self.notify("no published round", severity="warning")
+            return None
+        if self.typed:
+            board = int(self.typed)
+            self.typed = ""
+            self.show_entry()
+            if rnd.game_on(board) is None:
+                self.notify(f"round {rnd.number} has no board {board} (boards 1-{len(rnd.games)})", severity="error")
+                return None
+            return board
+        if not table.row_count:
+            return None
+        return rnd.games[table.cursor_row].board
+
+    # -- keys ------------------------------------------------------------------------------
+
+    def action_digit(self, digit: int) -> None:
+        if len(self.typed) < 5:
+            self.typed += str(digit)
+        self.show_entry()
+
+    def action_backspace(self) -> None:
+        self.typed = self.typed[:-1]
+        self.show_entry()
+
+    def action_forget(self) -> None:
+        self.typed = ""
+        self.show_entry()
+
+    def action_go(self) -> None:
+        board = self.target()
+        if board is not None:
+            self.query_one("#games", DataTable).move_cursor(row=board - 1)
+
+    def action_result(self, code: str) -> None:
+        self.enter(self.target(), Result(code))
+
+    def action_clear(self) -> None:
+        self.enter(self.target(), None)
+
+    def enter(self, board: int | None, result: Result | None) -> None:
+        rnd = self.round()
+        if board is None or rnd is None:
+            return
+        game = rnd.game_on(board)
+        assert game is not None
+        number, base = rnd.number, self.shown_head
+        what = result.value if result is not None else "cleared"
+
+        def write(correct: bool) -> None:
+            if self.apply(lambda s: actions.record_result(s, board, result, number, correct),
+                          f"board {board}: {what}", base):
+                self.move_to_open(board)  # index ``board`` is the board after this one
+
+        if game.result is None:
+            write(False)
+            return
+        if game.result == result:
+            self.notify(f"board {board} already has {game.result.value}", severity="warning")
+            return
+
+        def confirmed(yes: bool | None) -> None:
+            if yes:
+                write(True)
+
+        question = f"Board {board} has {game.result.value}; change it to {what}?"
+        self.app.push_screen(ConfirmDialog(question, [
+            f"{name(self.state, game.first)} – {name(self.state, game.second)}"]), confirmed)

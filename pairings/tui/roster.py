@@ -1,0 +1,212 @@
+"""The Roster: players with rating, club, score and status; add, edit, byes, import, filter."""
+
+from __future__ import annotations
+
+from pathlib import Path
+from typing import Callable, Sequence
+
+from textual import on
+from textual.app import ComposeResult
+from textual.binding import Binding
+from textual.widgets import DataTable, Input
+
+from pairings import actions
+from pairings.events import Event
+from pairings.errors import InputError, RosterError
+from pairings.roster import decode, import_roster
+from pairings.state import ByeKind, EventState, Player, PlayerId, Status
+from pairings.tui.base import Action, Place
+from pairings.tui.dialogs import Field, FormDialog
+from pairings.tui.text import cell, points, safe
+
+
+PlayerAction = Callable[[EventState, str, int | None, str | None], Sequence[Event]]
+QuickAction = Callable[[EventState, PlayerId], Sequence[Event]]
+
+
+def status_words(state: EventState, player: Player) -> str:
+    """The player's status for the round to come, in words."""
+    if player.status is Status.WITHDRAWN:
+        return f"withdrawn from round {player.withdrawn_from}"
+    coming = actions.entry_round(state)
+    asked = state.requests.get(coming, {}).get(player.id)
+    if asked is ByeKind.REQUESTED:
+        return f"bye requested, round {coming}"
+    if asked is ByeKind.ABSENCE:
+        return f"absent, round {coming}"
+    if player.entry_round > coming:
+        return f"joins in round {player.entry_round}"
+    return "active"
+
+
+def _rating(text: str) -> int | None:
+    text = text.strip()
+    if not text:
+        return None
+    try:
+        return int(text)
+    except ValueError:
+        raise InputError(f"rating {text!r} is not a whole number") from None
+
+
+class RosterPlace(Place):
+    TITLE = "Roster"
+    BINDINGS = [
+        Binding("a", "add", "Add player"),
+        Binding("e", "edit", "Edit"),
+        Binding("w", "withdraw", "Withdraw"),
+        Binding("r", "reinstate", "Reinstate"),
+        Binding("q", "bye", "Request bye"),
+        Binding("m", "absent", "Mark absent"),
+        Binding("c", "cancel_bye", "Cancel bye"),
+        Binding("i", "import_csv", "Import CSV"),
+        Binding("slash", "filter", "Filter", key_display="/"),
+    ]
+
+    def body(self) -> ComposeResult:
+        yield Input(placeholder="/ filter by name (Esc: back to the list)", id="filter", compact=True)
+        table: DataTable[object] = DataTable(id="players", cursor_type="row", zebra_stripes=True)
+        yield table
+
+    def on_mount(self) -> None:
+        table = self.query_one("#players", DataTable)
+        for label, key in (("Id", "id"), ("Name", "name"), ("Rating", "rating"), ("Club", "club"),
+                           ("Score", "score"), ("Status", "status")):
+            table.add_column(label, key=key)
+        table.focus()
+
+    def show(self, state: EventState) -> None:
+        table = self.query_one("#players", DataTable)
+        wanted = self.query_one("#filter", Input).value.strip().casefold()
+        keep = table.cursor_row
+        table.clear()
+        for p in state.players.values():
+            if wanted and wanted not in p.name.casefold():
+                continue
+            table.add_row(
+                cell(p.id), cell(p.name), points(p.rating) if p.rating is not None else "unrated",
+                cell(p.club or ""), points(state.score(p.id)), cell(status_words(state, p)), key=p.id,
+            )
+        if table.row_count:
+            table.move_cursor(row=min(keep, table.row_count - 1))
+
+    def selected(self) -> PlayerId | None:
+        table = self.query_one("#players", DataTable)
+        if not table.row_count:
+            self.notify("no player selected", severity="warning")
+            return None
+        row_key, _ = table.coordinate_to_cell_key(table.cursor_coordinate)
+        return PlayerId(str(row_key.value))
+
+    # -- filter ----------------------------------------------------------------------------
+
+    def action_filter(self) -> None:
+        self.query_one("#filter", Input).focus()
+
+    @on(Input.Changed, "#filter")
+    def filter_changed(self) -> None:
+        self.show(self.state)
+
+    @on(Input.Submitted, "#filter")
+    def filter_done(self) -> None:
+        self.query_one("#players", DataTable).focus()
+
+    def key_escape(self) -> None:
+        self.query_one("#players", DataTable).focus()
+
+    # -- forms -----------------------------------------------------------------------------
+
+    def _player_form(self, title: str, player: Player | None, make: PlayerAction) -> None:
+        base = self.shown_head
+
+        def action(values: dict[str, str]) -> Action:
+            rating = _rating(values["rating"])
+            return lambda s: make(s, values["name"], rating, values["club"] or None)
+
+        def check(values: dict[str, str]) -> str | None:
+            try:
+                action(values)(self.state)
+            except InputError as exc:
+                return str(exc)
+            return None
+
+        def done(values: dict[str, str] | None) -> None:
+            if values is not None:
+                self.apply(action(values), f"{title}: {safe(values['name'])}", base)
+
+        fields = [
+            Field("name", "Name", player.name if player else ""),
+            Field("rating", "Rating (empty: unrated)", str(player.rating) if player and player.rating is not None else ""),
+            Field("club", "Club", (player.club or "") if player else ""),
+        ]
+        self.app.push_screen(FormDialog(title, fields, check), done)
+
+    def action_add(self) -> None:
+        self._player_form("Add player", None, lambda s, n, r, c: actions.add_player(s, n, r, c))
+
+    def action_edit(self) -> None:
+        pid = self.selected()
+        if pid is not None:
+            player = self.state.players[pid]
+            self._player_form("Edit player", player, lambda s, n, r, c: actions.edit_player(s, pid, n, r, c))
+
+    def _quick(self, verb: str, make: QuickAction) -> None:
+        pid = self.selected()
+        if pid is not None:
+            self.apply(lambda s: make(s, pid), f"{safe(self.state.players[pid].name)}: {verb}")
+
+    def action_withdraw(self) -> None:
+        pid = self.selected()
+        if pid is None:
+            return
+        base = self.shown_head
+        who = safe(self.state.players[pid].name)
+
+        def done(values: dict[str, str] | None) -> None:
+            if values is not None:
+                self.apply(lambda s: actions.withdraw(s, pid, None, values["reason"]), f"{who}: withdrawn", base)
+
+        self.app.push_screen(FormDialog(f"Withdraw {who}", [Field("reason", "Reason (optional)")]), done)
+
+    def action_reinstate(self) -> None:
+        self._quick("back in", actions.reinstate)
+
+    def action_bye(self) -> None:
+        self._quick("bye requested", lambda s, p: actions.announce_bye(s, p, ByeKind.REQUESTED))
+
+    def action_absent(self) -> None:
+        self._quick("marked absent", lambda s, p: actions.announce_bye(s, p, ByeKind.ABSENCE))
+
+    def action_cancel_bye(self) -> None:
+        self._quick("bye cancelled", actions.cancel_bye)
+
+    def action_import_csv(self) -> None:
+        base = self.shown_head
+        loaded: dict[str, str] = {}
+
+        def read(path_text: str) -> str:
+            path = Path(path_text.strip()).expanduser()
+            try:
+                return decode(path.read_bytes())
+            except OSError as exc:
+                raise InputError(f"{path}: cannot read ({exc.strerror})") from None
+
+        def check(values: dict[str, str]) -> str | None:
+            try:
+                text = read(values["path"])
+                import_roster(self.state, text)
+            except RosterError as exc:
+                return "; ".join(exc.problems[:3]) + (f" (and {len(exc.problems) - 3} more)" if len(exc.problems) > 3 else "") + " — nothing imported"
+            except InputError as exc:
+                return str(exc)
+            loaded["text"] = text
+            return None
+
+        def done(values: dict[str, str] | None) -> None:
+            if values is not None:
+                before = len(self.state.players)
+                if self.apply(lambda s: import_roster(s, loaded["text"]), "", base):
+                    self.notify(f"imported {len(self.state.players) - before} players")
+
+        intro = ["A CSV file with a header row: name (required), rating, club, id."]
+        self.app.push_screen(FormDialog("Import a roster", [Field("path", "CSV file")], check, intro), done)

@@ -1,0 +1,376 @@
+"""The Round: draft, look at the boards and the Why panel, override with a reason, publish.
+
+The engine runs only in worker threads (drafting, previews, explanations);
+the workers return events or text through messages and the handlers write
+them, so the keys keep answering while a big field is paired.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass, field
+from time import perf_counter
+from typing import Callable, Sequence
+
+from textual import on, work
+from textual.app import ComposeResult
+from textual.binding import Binding
+from textual.containers import Horizontal, VerticalScroll
+from textual.message import Message
+from textual.widgets import DataTable, Label, LoadingIndicator, Static
+from textual.worker import get_current_worker
+
+from pairings import actions
+from pairings.errors import InputError
+from pairings.events import Event
+from pairings.state import EventState, PlayerId, Round, RoundState
+from pairings.tui import overrides as ov
+from pairings.tui.base import Place
+from pairings.tui.dialogs import ConfirmDialog, Field, FormDialog
+from pairings.tui.text import cell, describe_round, flag_words, name, open_flags, points, safe
+from pairings.tui.why import why_lines
+
+BoardPlan = Callable[[EventState, Round, int], ov.Plan]
+PlayersThen = Callable[[EventState, Round, list[PlayerId]], ov.Plan]
+
+
+class RoundPlace(Place):
+    TITLE = "Round"
+    BINDINGS = [
+        Binding("n", "draft", "Draft next"),
+        Binding("s", "swap", "Swap"),
+        Binding("k", "pin", "Pin board"),
+        Binding("f", "forbid", "Forbid pair"),
+        Binding("b", "bye", "To/from bye"),
+        Binding("x", "discard", "Discard draft"),
+        Binding("p", "publish", "Publish"),
+        Binding("comma", "browse(-1)", "Earlier round", key_display=","),
+        Binding("full_stop", "browse(1)", "Later round", key_display="."),
+    ]
+
+    @dataclass
+    class Drafted(Message):
+        events: Sequence[Event]
+        base: int
+        seconds: float
+
+    @dataclass
+    class Previewed(Message):
+        plan: ov.Plan
+        difference: str
+        base: int
+
+    @dataclass
+    class Explained(Message):
+        round: int
+        board: int
+        head: int
+        lines: list[str] = field(default_factory=list)
+
+    @dataclass
+    class EngineFailed(Message):
+        problem: str
+
+    def __init__(self) -> None:
+        super().__init__()
+        self.number: int | None = None
+        """The round on screen; None follows the latest."""
+        self.cache = ov.OptimumCache()
+        self._boards: object = ()
+        """What the boards table holds now (rebuilt only when it changes)."""
+
+    def body(self) -> ComposeResult:
+        yield Label("", id="round-status", classes="status")
+        with Horizontal(id="busy", classes="busy"):
+            yield LoadingIndicator()
+            yield Label("", id="busy-text")
+        with Horizontal(id="round-main"):
+            table: DataTable[object] = DataTable(id="boards", cursor_type="row", zebra_stripes=True)
+            yield table
+            with VerticalScroll(id="why"):
+                yield Static("", id="why-text", markup=False)
+        yield Label("", id="byes", classes="byes")
+
+    def on_mount(self) -> None:
+        self.query_one("#busy").display = False
+        self.query_one("#boards", DataTable).focus()
+
+    # -- showing ---------------------------------------------------------------------------
+
+    def round(self) -> Round | None:
+        state = self.state
+        if self.number is not None and state.round(self.number) is not None:
+            return state.round(self.number)
+        return state.last_round
+
+    def show(self, state: EventState) -> None:
+        rnd = self.round()
+        table = self.query_one("#boards", DataTable)
+        status = self.query_one("#round-status", Label)
+        byes = self.query_one("#byes", Label)
+        if rnd is None:
+            table.clear(columns=True)
+            status.update(cell(f"No round drafted yet: press n to draft round 1 ({len(state.players)} players)."))
+            byes.update("")
+            self.query_one("#why-text", Static).update("")
+            self._boards = ()
+            return
+        sides = state.settings.sides or ("First", "Second")
+        what = f"Round {rnd.number}: {describe_round(rnd)}"
+        if rnd.state is RoundState.DRAFT:
+            what += " · s swap, k pin, f forbid, b bye, p publish"
+        status.update(cell(what))
+        shape = (rnd.number, tuple((g.board, g.first, g.second, g.flags, g.result) for g in rnd.games))
+        if shape != self._boards:
+            keep = table.cursor_row
+            table.clear(columns=True)
+            table.add_column("Bd", key="board")
+            table.add_column(cell(sides[0]), key="first")
+            table.add_column("Pts", key="p1")
+            table.add_column(cell(sides[1]), key="second")
+            table.add_column("Pts", key="p2")
+            table.add_column("Result", key="result")
+            table.add_column("Flags", key="flags")
+            for g in rnd.games:
+                rec1, rec2 = state.records[g.first], state.records[g.second]
+                table.add_row(
+                    str(g.board), cell(name(state, g.first)), points(rec1.score_before(rnd.number)),
+                    cell(name(state, g.second)), points(rec2.score_before(rnd.number)),
+                    g.result.value if g.result else "", cell(" ".join(g.flags) or "-"), key=str(g.board),
+                )
+            self._boards = shape
+            if table.row_count:
+                table.move_cursor(row=min(keep, table.row_count - 1))
+        byes.update(cell("Byes: " + ("; ".join(
+            f"{name(state, y.player)} ({y.kind.value}, {points(y.points)})" for y in rnd.byes) or "none")))
+        self.explain_selected()
+
+    def selected_board(self) -> int | None:
+        table = self.query_one("#boards", DataTable)
+        if not table.row_count:
+            return None
+        row_key, _ = table.coordinate_to_cell_key(table.cursor_coordinate)
+        return int(str(row_key.value))
+
+    @on(DataTable.RowHighlighted, "#boards")
+    def board_highlighted(self) -> None:
+        self.explain_selected()
+
+    def explain_selected(self) -> None:
+        rnd, board = self.round(), self.selected_board()
+        if rnd is None or board is None:
+            return
+        game = rnd.game_on(board)
+        if game is None:
+            return
+        state = self.state
+        sides = state.settings.sides or ("first", "second")
+        lines = [
+            f"Board {board} of round {rnd.number}",
+            f"{sides[0]}: {name(state, game.first)}",
+            f"{sides[1]}: {name(state, game.second)}",
+            "",
+            "Flags: " + ("none" if not game.flags else ""),
+            *(f"  {flag_words(f)}" for f in game.flags),
+            "",
+            "Cost by criterion:",
+        ]
+        costs = [(k, v) for k, v in game.cost.items() if v]
+        lines += [f"  {k:<15}{points(v)}" for k, v in costs] or ["  nothing: every criterion met"]
+        self.query_one("#why-text", Static).update("\n".join(safe(x) for x in lines))
+        if rnd.state is RoundState.DRAFT:
+            self.explain(state, rnd.number, board)
+
+    @work(thread=True, exclusive=True, group="why")
+    def explain(self, state: EventState, number: int, board: int) -> None:
+        try:
+            lines = why_lines(state, board)
+        except InputError as exc:
+            lines = [f"alternatives not available: {exc}"]
+        if not get_current_worker().is_cancelled:
+            self.post_message(self.Explained(number, board, state.head, lines))
+
+    @on(Explained)
+    def explained(self, message: Explained) -> None:
+        rnd = self.round()
+        if rnd is None or rnd.number != message.round or self.selected_board() != message.board:
+            return
+        if message.head != self.state.head:
+            return
+        text = self.query_one("#why-text", Static)
+        base = str(text.content)
+        text.update(base + "\n\nWhy:\n" + "\n".join(safe(x) for x in message.lines))
+
+    def action_browse(self, step: int) -> None:
+        last = self.state.last_round
+        if last is None:
+            return
+        current = self.round()
+        number = (current.number if current else last.number) + step
+        if not 1 <= number <= last.number:
+            self.notify(f"no round {number}", severity="warning")
+            return
+        self.number = None if number == last.number else number
+        self.refresh_place()
+
+    # -- drafting --------------------------------------------------------------------------
+
+    def busy(self, text: str | None) -> None:
+        self.query_one("#busy").display = text is not None
+        self.query_one("#busy-text", Label).update(cell(text or ""))
+
+    def action_draft(self) -> None:
+        if self.query_one("#busy").display:
+            self.notify("the engine is still working; keys keep working meanwhile", severity="warning")
+            return
+        state, base = self.state, self.shown_head
+        last = state.last_round
+
+        def go(yes: bool | None = True) -> None:
+            if yes:
+                self.number = None
+                self.busy(f"drafting round {state.next_round_number} of {len(state.players)} players …")
+                self.draft(state, base)
+
+        if last is not None and last.state is RoundState.DRAFT and last.source != "engine":
+            notes = [f"override: {n}" for n in last.notes]
+            self.app.push_screen(ConfirmDialog(f"Draft round {last.number} again from scratch?", notes), go)
+        else:
+            go()
+
+    @work(thread=True, exclusive=True, group="engine")
+    def draft(self, state: EventState, base: int) -> None:
+        start = perf_counter()
+        try:
+            events = actions.pair(state)
+        except InputError as exc:
+            self.post_message(self.EngineFailed(str(exc)))
+            return
+        if not get_current_worker().is_cancelled:
+            self.post_message(self.Drafted(events, base, perf_counter() - start))
+
+    @on(Drafted)
+    def drafted(self, message: Drafted) -> None:
+        self.busy(None)
+        self.apply(lambda s: message.events, f"drafted in {message.seconds:.1f} s", message.base)
+
+    @on(EngineFailed)
+    def engine_failed(self, message: EngineFailed) -> None:
+        self.busy(None)
+        self.notify(message.problem, severity="error", timeout=10)
+
+    # -- overrides -------------------------------------------------------------------------
+
+    def draft_round(self) -> Round | None:
+        rnd = self.state.last_round
+        if rnd is None or rnd.state is not RoundState.DRAFT:
+            self.notify("no open draft: press n to draft the next round", severity="warning")
+            return None
+        return rnd
+
+    def start_preview(self, plan: ov.Plan, base: int) -> None:
+        self.busy(f"{plan.title}: working out the cost …")
+        self.preview(self.state, plan, base)
+
+    @work(thread=True, exclusive=True, group="engine")
+    def preview(self, state: EventState, plan: ov.Plan, base: int) -> None:
+        try:
+            _, difference = ov.preview(state, plan, self.cache)
+        except InputError as exc:
+            self.post_message(self.EngineFailed(f"{plan.title}: {exc}"))
+            return
+        if not get_current_worker().is_cancelled:
+            self.post_message(self.Previewed(plan, difference, base))
+
+    @on(Previewed)
+    def previewed(self, message: Previewed) -> None:
+        self.busy(None)
+        plan, base = message.plan, message.base
+
+        def check(values: dict[str, str]) -> str | None:
+            return None if values["reason"].strip() else "an override needs a short reason for the log"
+
+        def done(values: dict[str, str] | None) -> None:
+            if values is not None:
+                self.apply(lambda s: plan.record(s, values["reason"]), f"{plan.title}: done", base)
+
+        intro = [plan.title, f"Against the optimum: {message.difference}"]
+        self.app.push_screen(FormDialog("Override", [Field("reason", "Reason (goes into the log)")], check, intro),
+                             done)
+
+    def _board_plan(self, make: BoardPlan) -> None:
+        rnd, board = self.draft_round(), self.selected_board()
+        if rnd is None or board is None:
+            return
+        self.start_preview(make(self.state, rnd, board), self.shown_head)
+
+    def action_pin(self) -> None:
+        self._board_plan(ov.pin_plan)
+
+    def action_forbid(self) -> None:
+        self._board_plan(ov.forbid_plan)
+
+    def _ask_players(self, title: str, labels: Sequence[str], then: PlayersThen) -> None:
+        rnd, board = self.draft_round(), self.selected_board()
+        if rnd is None:
+            return
+        game = rnd.game_on(board) if board is not None else None
+        base = self.shown_head
+        found: list[PlayerId] = []
+
+        def check(values: dict[str, str]) -> str | None:
+            found.clear()
+            try:
+                found.extend(actions.find_player(self.state, values[f"p{i}"]) for i in range(len(labels)))
+            except InputError as exc:
+                return str(exc)
+            if len(set(found)) != len(found):
+                return "give two different players"
+            return None
+
+        def done(values: dict[str, str] | None) -> None:
+            if values is not None:
+                self.start_preview(then(self.state, rnd, found), base)
+
+        first = game.first if game is not None else ""
+        fields = [Field(f"p{i}", label, first if i == 0 else "", "id or name") for i, label in enumerate(labels)]
+        self.app.push_screen(FormDialog(title, fields, check), done)
+
+    def action_swap(self) -> None:
+        self._ask_players("Swap two players", ["Player", "Swap with"],
+                          lambda s, rnd, p: ov.swap_plan(s, p[0], p[1]))
+
+    def action_bye(self) -> None:
+        self._ask_players("Move a player to or from the bye", ["Player"],
+                          lambda s, rnd, p: ov.bye_plan(s, rnd, p[0]))
+
+    def action_discard(self) -> None:
+        rnd = self.draft_round()
+        if rnd is None:
+            return
+        base = self.shown_head
+
+        def done(values: dict[str, str] | None) -> None:
+            if values is not None:
+                self.apply(lambda s: actions.discard(s, values["reason"]), f"draft of round {rnd.number} discarded",
+                           base)
+
+        self.app.push_screen(FormDialog(f"Discard the draft of round {rnd.number}",
+                                        [Field("reason", "Reason (optional)")]), done)
+
+    def action_publish(self) -> None:
+        rnd = self.draft_round()
+        if rnd is None:
+            return
+        state, base = self.state, self.shown_head
+        lines = [
+            f"board {g.board}: {', '.join(open_flags(g.flags))} ({name(state, g.first)} – {name(state, g.second)})"
+            for g in rnd.games if open_flags(g.flags)
+        ]
+        lines = [f"Flags still open: {len(lines)}"] + lines if lines else ["No flags open."]
+        lines += [f"bye: {name(state, y.player)} ({y.kind.value})" for y in rnd.byes]
+
+        def done(yes: bool | None) -> None:
+            if yes:
+                self.apply(actions.publish, f"round {rnd.number} published", base)
+
+        self.app.push_screen(ConfirmDialog(f"Publish round {rnd.number} ({len(rnd.games)} boards)?", lines), done)

@@ -1,0 +1,82 @@
+"""Standings: ranks, points and the event's tiebreaks (computed by pairings.standings in a worker)."""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+from typing import TYPE_CHECKING
+
+from textual import on, work
+from textual.app import ComposeResult
+from textual.message import Message
+from textual.widgets import DataTable, Label
+from textual.worker import get_current_worker
+
+from pairings.errors import InputError
+from pairings.state import EventState
+from pairings.tui.base import Place
+from pairings.tui.text import cell, points
+
+if TYPE_CHECKING:  # standings loads in the worker
+    from pairings.standings import Standings
+
+
+class StandingsPlace(Place):
+    TITLE = "Standings"
+    BINDINGS: list[object] = []
+
+    @dataclass
+    class Computed(Message):
+        head: int
+        table: "Standings | None"
+        problem: str = ""
+
+    def body(self) -> ComposeResult:
+        yield Label("", id="standings-status", classes="status")
+        table: DataTable[object] = DataTable(id="standings", cursor_type="row", zebra_stripes=True)
+        yield table
+
+    def on_mount(self) -> None:
+        self.query_one("#standings", DataTable).focus()
+
+    def show(self, state: EventState) -> None:
+        self.query_one("#standings-status", Label).update("working out the standings …")
+        self.compute(state)
+
+    @work(thread=True, exclusive=True, group="standings")
+    def compute(self, state: EventState) -> None:
+        from pairings.standings import standings
+
+        try:
+            table, problem = standings(state), ""
+        except InputError as exc:
+            table, problem = None, str(exc)
+        if not get_current_worker().is_cancelled:
+            self.post_message(self.Computed(state.head, table, problem))
+
+    @on(Computed)
+    def computed(self, message: Computed) -> None:
+        if message.head != self.state.head:
+            return
+        from pairings.standings import TIEBREAKS, UNPLAYED_LABELS
+
+        status = self.query_one("#standings-status", Label)
+        table = self.query_one("#standings", DataTable)
+        table.clear(columns=True)
+        st = message.table
+        if st is None:
+            status.update(cell(message.problem))
+            return
+        note = "provisional: results still open" if st.provisional else "final for this round"
+        status.update(cell(f"After round {st.after_round} ({note}); {UNPLAYED_LABELS[st.unplayed]}"))
+        table.add_column("Rank", key="rank")
+        table.add_column("Name", key="name")
+        table.add_column("Points", key="points")
+        for key in st.tiebreaks:
+            table.add_column(cell(TIEBREAKS[key].short), key=key)
+        table.add_column("Status", key="status")
+        for row in st.rows:
+            table.add_row(
+                str(row.rank), cell(row.name), points(row.points),
+                *(f"{row.tiebreaks[k]:g}" for k in st.tiebreaks),
+                "withdrawn" if row.withdrawn else "", key=row.player,
+            )

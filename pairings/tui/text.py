@@ -1,0 +1,99 @@
+"""Plain-text helpers for the desk: safe names, points, results and flags in words.
+
+Player names may hold anything (the roster comes from other people's
+spreadsheets), so every name shown on the terminal goes through :func:`safe`,
+which drops control and escape characters, and is wrapped in a rich ``Text``
+(never parsed as markup).
+"""
+
+from __future__ import annotations
+
+import re
+import unicodedata
+
+from rich.text import Text
+
+from pairings.state import EventState, PlayerId, Result, Round, RoundState
+
+_CONTROL = re.compile(r"\x1b\[[0-?]*[ -/]*[@-~]|\x1b\][^\x07\x1b]*(?:\x07|\x1b\\)?|\x1b.?")
+"""CSI and OSC escape sequences and lone escapes (ECMA-48), removed whole."""
+
+
+def safe(value: object) -> str:
+    """``value`` as one line of text with no escape sequence or control character left."""
+    text = _CONTROL.sub("", str(value))
+    return "".join(
+        " " if c in "\t\n\r" else c
+        for c in text
+        if c in "\t\n\r" or unicodedata.category(c) not in ("Cc", "Cf", "Cs", "Co")
+    )
+
+
+def cell(value: object) -> Text:
+    """A table cell or label that is never read as markup."""
+    return Text(safe(value), no_wrap=True, overflow="ellipsis")
+
+
+def points(value: float | None) -> str:
+    if value is None:
+        return "-"
+    return f"{value:g}"
+
+
+def name(state: EventState, pid: PlayerId | str) -> str:
+    player = state.players.get(PlayerId(pid))
+    return safe(player.name) if player is not None else safe(pid)
+
+
+RESULT_WORDS: dict[Result, str] = {
+    Result.FIRST_WINS: "first side wins",
+    Result.DRAW: "draw",
+    Result.SECOND_WINS: "second side wins",
+    Result.FIRST_WINS_BY_FORFEIT: "first side wins by forfeit",
+    Result.SECOND_WINS_BY_FORFEIT: "second side wins by forfeit",
+    Result.DOUBLE_FORFEIT: "double forfeit",
+}
+
+
+def round_status(state: EventState) -> str:
+    """One line on where the event stands, in words (read in any colour scheme)."""
+    last = state.last_round
+    total = state.settings.rounds
+    if last is None:
+        return f"no round yet (of {total}); {len(state.players)} players"
+    return f"round {last.number} of {total}: {describe_round(last)}"
+
+
+def describe_round(rnd: Round) -> str:
+    if rnd.state is RoundState.DRAFT:
+        flagged = sum(1 for g in rnd.games if g.flags)
+        return f"draft, {len(rnd.games)} boards, {flagged} flagged"
+    if rnd.state is RoundState.PUBLISHED:
+        return f"published, {len(rnd.open_boards)} of {len(rnd.games)} boards open"
+    return f"complete, {len(rnd.games)} boards"
+
+
+FLAG_WORDS: dict[str, str] = {
+    "rematch": "the two have met before",
+    "side": "a side rule could not be kept",
+    "gap": "score difference of the pair",
+    "float": "floats in the same direction as last round",
+    "pref": "a side preference was missed",
+    "pinned": "kept as the organiser pinned it",
+    "changed": "the organiser overrode the engine here",
+}
+"""What each board flag means (shared/naming.md), for the Why panel and the publish check."""
+
+
+def flag_words(flag: str) -> str:
+    head = flag.split()[0] if flag else flag
+    meaning = FLAG_WORDS.get(head)
+    return f"{flag}: {meaning}" if meaning else flag
+
+
+OPEN_FLAGS_IGNORED = ("pinned", "changed")
+"""Flags that record the organiser's own decision, not a question still open."""
+
+
+def open_flags(flags: tuple[str, ...]) -> tuple[str, ...]:
+    return tuple(f for f in flags if f.split()[0] not in OPEN_FLAGS_IGNORED)
