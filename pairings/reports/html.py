@@ -1,0 +1,100 @@
+"""HTML sheets (jinja2, autoescaped) and the static publish folder.
+
+Every value reaches the page through ``{{ }}`` with autoescaping on, names sit
+in ``<bdi>`` so right-to-left text cannot reorder the row around it, and the
+stylesheet carries print rules for A4 and Letter. The publish folder holds
+plain files with relative links only: it works from a USB stick or any static
+host, with no server and no script.
+"""
+
+from __future__ import annotations
+
+from dataclasses import replace
+from datetime import datetime
+from pathlib import Path
+
+from jinja2 import Environment, FileSystemLoader, StrictUndefined
+
+from pairings.errors import InputError
+from pairings.reports.clean import PREVAIL, plain, show, stamp
+from pairings.reports.sheets import Builder, Sheet, crosstable_sheet, name_sheet, pairing_sheet, standings_sheet
+from pairings.state import EventState, RoundState
+
+_TEMPLATES = Path(__file__).parent / "templates"
+_ENV = Environment(loader=FileSystemLoader(_TEMPLATES), autoescape=True, undefined=StrictUndefined,
+                   trim_blocks=True, lstrip_blocks=True)
+_NUMERIC = ("number", "points", "rank")
+
+
+def stylesheet() -> str:
+    return (_TEMPLATES / "style.css").read_text(encoding="utf-8")
+
+
+def _page(sheet: Sheet, nav: list[tuple[str, str]] | None = None, css_href: str | None = None) -> str:
+    first, second = sheet.sides or ("Player", "Player")
+    return _ENV.get_template("sheet.html").render(
+        sheet=sheet, show=show, clean=plain, numeric=_NUMERIC, prevail=PREVAIL,
+        first=plain(first), second=plain(second), nav=nav or [], css_href=css_href,
+        css="" if css_href else stylesheet(),
+    )
+
+
+def render_html(sheet: Sheet) -> str:
+    """One self-contained page (stylesheet inlined) for printing or mailing."""
+    return _page(sheet)
+
+
+NAV = [("index.html", "Event"), ("pairings.html", "Pairings"), ("standings.html", "Standings"),
+       ("crosstable.html", "Crosstable")]
+
+
+def _published(state: EventState) -> EventState:
+    """The state without draft rounds: nothing unpublished ever reaches the web."""
+    return replace(state, rounds=tuple(r for r in state.rounds if r.state is not RoundState.DRAFT))
+
+
+def _or_message(state: EventState, build: Builder, title: str, now: datetime) -> Sheet:
+    """The sheet, or an empty sheet carrying the reason there is none yet."""
+    try:
+        return build(state, None, now)
+    except InputError as error:
+        return Sheet(kind="message", title=title, event=state.settings.name, round_number=0,
+                     round_label="not yet", printed=stamp(now), notes=(str(error).capitalize() + ".",),
+                     tables=(), sides=state.settings.sides)
+
+
+def publish_web(state: EventState, directory: Path, now: datetime | None = None) -> list[Path]:
+    """Write index, pairings (boards and the by-name list), standings and crosstable pages.
+
+    Only published and complete rounds appear. Returns the files written, in order.
+    """
+    moment = now or datetime.now().astimezone()
+    public = _published(state)
+    directory.mkdir(parents=True, exist_ok=True)
+    pairings = _or_message(public, pairing_sheet, "Pairings", moment)
+    if pairings.kind == "pairings":
+        names = name_sheet(public, pairings.round_number, moment)
+        pairings = replace(pairings, tables=pairings.tables + names.tables)
+    pages = {
+        "pairings.html": pairings,
+        "standings.html": _or_message(public, standings_sheet, "Standings", moment),
+        "crosstable.html": _or_message(public, crosstable_sheet, "Crosstable", moment),
+    }
+    written: list[Path] = []
+
+    def write(name: str, text: str) -> None:
+        path = directory / name
+        path.write_text(text, encoding="utf-8")
+        written.append(path)
+
+    last = public.rounds[-1].number if public.rounds else 0
+    summary = f"Round {last} of {state.settings.rounds}" if last else f"{state.settings.rounds} rounds, none published yet"
+    index = _ENV.get_template("index.html").render(
+        event=plain(state.settings.name), summary=summary, printed=stamp(moment), prevail=PREVAIL,
+        pages=[(href, label, f"{pages[href].title} — {pages[href].round_label}") for href, label in NAV[1:]],
+    )
+    write("index.html", index)
+    for name, sheet in pages.items():
+        write(name, _page(sheet, nav=NAV, css_href="style.css"))
+    write("style.css", stylesheet())
+    return written

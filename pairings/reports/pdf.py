@@ -1,0 +1,154 @@
+"""PDF sheets with fpdf2 and the bundled DejaVu Sans (Unicode: "Zoë Ødegård", "Łucja Nowak").
+
+Every page repeats the event, the sheet, the round and the printing time at the
+top and the line that the regulations prevail at the bottom. Tables wrap long
+names inside their column; result slips come eight to an A4 page, to cut along
+the dashed lines. The creation date is the printing time, so the same state and
+time give the same file.
+"""
+
+from __future__ import annotations
+
+import unicodedata
+from datetime import datetime
+from functools import cache
+from pathlib import Path
+
+from fpdf import FPDF
+from fpdf.enums import WrapMode, XPos, YPos
+from fpdf.fonts import FontFace
+from fontTools.ttLib import TTFont  # type: ignore[import-untyped]
+
+from pairings.reports.clean import PREVAIL, plain, show
+from pairings.reports.sheets import Sheet, Table
+
+_FONTS = Path(__file__).parent / "fonts"
+_FAMILY = "DejaVu"
+_WEIGHT = {"name": 5.0, "points": 1.5, "number": 1.1, "rank": 1.4, "result": 2.2, "text": 2.0}
+_ALIGN = {"points": "RIGHT", "number": "RIGHT", "rank": "RIGHT"}
+_SLIP_NAME = 80
+"""Characters of a name kept on a result slip; longer names end in an ellipsis."""
+
+
+@cache
+def _covered() -> frozenset[int]:
+    """Code points the bundled font can draw (bold covers the same set)."""
+    with TTFont(str(_FONTS / "DejaVuSans.ttf"), lazy=True) as font:
+        return frozenset(font.getBestCmap())
+
+
+def printable(text: str) -> str:
+    """Clean ``text`` (see :func:`plain`) and mark each character the font lacks with "□".
+
+    Invisible marks the font lacks (joiners, variation selectors) are dropped.
+    """
+    covered = _covered()
+    out = []
+    for ch in plain(text):
+        if ord(ch) in covered:
+            out.append(ch)
+        elif unicodedata.category(ch) not in ("Mn", "Me", "Cf"):
+            out.append("□")
+    return "".join(out)
+
+
+class _Document(FPDF):
+    def __init__(self, sheet: Sheet, landscape: bool) -> None:
+        super().__init__(orientation="L" if landscape else "P", unit="mm", format="A4")
+        self.sheet = sheet
+        self.add_font(_FAMILY, "", str(_FONTS / "DejaVuSans.ttf"))
+        self.add_font(_FAMILY, "B", str(_FONTS / "DejaVuSans-Bold.ttf"))
+        self.set_margins(12, 12, 12)
+        self.set_auto_page_break(True, margin=16)
+        self.set_title(f"{plain(sheet.event)} — {sheet.title} — {sheet.round_label}")
+        self.set_creator("pairings")
+
+    def header(self) -> None:
+        s = self.sheet
+        self.set_font(_FAMILY, "B", 12)
+        self.multi_cell(0, 6, printable(s.event), new_x=XPos.LMARGIN, new_y=YPos.NEXT, wrapmode=WrapMode.CHAR)
+        self.set_font(_FAMILY, "", 9)
+        self.cell(0, 5, printable(f"{s.title} — {s.round_label} · printed {s.printed}"), new_x=XPos.LMARGIN, new_y=YPos.NEXT)
+        self.ln(2)
+
+    def footer(self) -> None:
+        self.set_y(-13)
+        self.set_font(_FAMILY, "", 7.5)
+        self.cell(0, 4, PREVAIL, new_x=XPos.LMARGIN, new_y=YPos.NEXT)
+        self.cell(0, 4, f"Page {self.page_no()}/{{nb}}", align="R")
+
+
+def _table(pdf: _Document, table: Table, size: float) -> None:
+    shown = table.printed_columns()
+    kinds = [table.columns[i].kind for i in shown]
+    cross = pdf.sheet.kind == "crosstable"
+    widths = [(_WEIGHT[k] if not (cross and k == "text") else 1.3) for k in kinds]
+    pdf.set_font(_FAMILY, "B", size + 1)
+    pdf.cell(0, 6, table.caption, new_x=XPos.LMARGIN, new_y=YPos.NEXT)
+    pdf.set_font(_FAMILY, "", size)
+    with pdf.table(col_widths=widths, text_align=[_ALIGN.get(k, "LEFT") for k in kinds],
+                   wrapmode=WrapMode.CHAR, line_height=size * 0.5, width=pdf.epw, repeat_headings=1,
+                   headings_style=FontFace(family=_FAMILY, emphasis="BOLD"), padding=0.8) as grid:
+        head = grid.row()
+        for i in shown:
+            head.cell(printable(table.columns[i].label))
+        for values in table.rows:
+            row = grid.row()
+            for i in shown:
+                row.cell(printable(show(values[i], table.columns[i].kind)))
+    pdf.ln(4)
+
+
+def _slip_name(name: object) -> str:
+    text = printable(show(name, "name"))
+    return text if len(text) <= _SLIP_NAME else text[: _SLIP_NAME - 1] + "…"
+
+
+def _slips(pdf: _Document) -> None:
+    sheet = pdf.sheet
+    first, second = (printable(x) for x in sheet.sides or ("Player", "Player"))
+    w, h = pdf.epw / 2, 60.0
+    top = pdf.get_y()
+    per_page = int((pdf.h - 16 - top) // h) * 2
+    pdf.set_dash_pattern(dash=1.5, gap=1.5)
+    for n, row in enumerate(sheet.tables[0].rows):
+        if n and n % per_page == 0:
+            pdf.add_page()
+        slot = n % per_page
+        x, y = pdf.l_margin + (slot % 2) * w, top + (slot // 2) * h
+        pdf.rect(x, y, w, h)
+        pdf.set_xy(x + 3, y + 3)
+        pdf.set_font(_FAMILY, "B", 10)
+        pdf.cell(w - 6, 5, f"Board {row[0]} · Round {sheet.round_number}", new_x=XPos.LEFT, new_y=YPos.NEXT)
+        pdf.set_font(_FAMILY, "", 7.5)
+        pdf.multi_cell(w - 6, 3.5, printable(sheet.event)[:120], new_x=XPos.LEFT, new_y=YPos.NEXT,
+                       wrapmode=WrapMode.CHAR)
+        pdf.set_font(_FAMILY, "", 9)
+        for label, name in ((first, row[2]), (second, row[4])):
+            pdf.multi_cell(w - 6, 4.5, f"{label}: {_slip_name(name)}", new_x=XPos.LEFT, new_y=YPos.NEXT,
+                           wrapmode=WrapMode.CHAR)
+        pdf.set_xy(x + 3, y + h - 17)
+        pdf.cell(w - 6, 5, "Result:   ☐ 1-0     ☐ ½-½     ☐ 0-1", new_x=XPos.LEFT, new_y=YPos.NEXT)
+        pdf.set_font(_FAMILY, "", 7.5)
+        pdf.cell(w - 6, 8, "Signatures: ______________________   ______________________")
+    pdf.set_dash_pattern()
+
+
+def render_pdf(sheet: Sheet, now: datetime) -> bytes:
+    """The sheet as PDF bytes."""
+    wide = sheet.kind == "crosstable" and sum(len(t.columns) for t in sheet.tables) > 12
+    pdf = _Document(sheet, landscape=wide)
+    pdf.set_creation_date(now)
+    pdf.alias_nb_pages()
+    pdf.add_page()
+    pdf.set_font(_FAMILY, "", 8.5)
+    for note in sheet.notes:
+        pdf.multi_cell(0, 4, printable(note), new_x=XPos.LMARGIN, new_y=YPos.NEXT, wrapmode=WrapMode.CHAR)
+    pdf.ln(2)
+    if sheet.kind == "slips":
+        _slips(pdf)
+    else:
+        size = 7.5 if sheet.kind == "crosstable" else 9.0
+        for table in sheet.tables:
+            _table(pdf, table, size)
+    return bytes(pdf.output())
