@@ -238,7 +238,7 @@ def crosstable_sheet(state: EventState, round_number: int | None, now: datetime)
                Column("points", "Points", "points"), *_tiebreak_columns(table))
     legend = "Cells: opponent's number, side, result (+ / − forfeit, ? to come); bye, req(uested), abs(ent), – not in the event."
     return _sheet(state, "crosstable", "Crosstable", table.after_round, f"After round {table.after_round}",
-                  now, (legend,) + _tiebreak_notes(table, state), (Table("Crosstable", tuple(columns), tuple(rows)),))
+                  now, _tiebreak_notes(table, state) + (legend,), (Table("Crosstable", tuple(columns), tuple(rows)),))
 
 
 Builder = Callable[[EventState, "int | None", datetime], Sheet]
