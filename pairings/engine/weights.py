@@ -61,7 +61,17 @@ class Encoder:
         return cost[:GAP_INDEX] + levels + cost[GAP_INDEX + 1:]
 
     def cost(self, cost: Cost) -> int:
-        return sum(c * m for c, m in zip(self.expand(cost), self.place))
+        """``sum_k c_k * M_k`` over the expanded components, without building them."""
+        place = self.place
+        gap = cost[GAP_INDEX]
+        total = cost[0] * place[0] + cost[1] * place[1] + cost[2] * place[2]
+        if gap:
+            total += place[GAP_INDEX + self.levels - gap]
+        k = GAP_INDEX + self.levels
+        for v in cost[GAP_INDEX + 1:]:
+            total += v * place[k]
+            k += 1
+        return total
 
     def weight(self, cost: Cost) -> int:
         return self.top - self.cost(cost)
@@ -69,18 +79,17 @@ class Encoder:
 
 def encoder(costs: Sequence[Cost], vertices: int) -> Encoder:
     """Build the place values for these candidate edge costs (see the module Notes)."""
-    levels = max((c[GAP_INDEX] for c in costs), default=0)
-    width = len(costs[0]) - 1 + levels if costs else 0
-    maxima = [0] * width
-    probe = Encoder(levels, (0,) * width, 0)
-    for c in costs:
-        for k, v in enumerate(probe.expand(c)):
-            if v > maxima[k]:
-                maxima[k] = v
+    if not costs:
+        return Encoder(0, (), 1)
+    columns = [max(col) for col in zip(*costs)]
+    levels = columns[GAP_INDEX]
+    gaps = {c[GAP_INDEX] for c in costs}
+    maxima = columns[:GAP_INDEX] + [1 if d in gaps else 0 for d in range(levels, 0, -1)] \
+        + columns[GAP_INDEX + 1:]
     pairs = vertices // 2
-    place = [1] * width
-    for k in range(width - 2, -1, -1):
+    place = [1] * len(maxima)
+    for k in range(len(maxima) - 2, -1, -1):
         place[k] = place[k + 1] * (pairs * maxima[k + 1] + 1)
     enc = Encoder(levels, tuple(place), 0)
-    top = 1 + max((enc.cost(c) for c in costs), default=0)
+    top = 1 + max(enc.cost(c) for c in costs)
     return Encoder(levels, tuple(place), top)

@@ -1,0 +1,79 @@
+"""Benchmark the pairing engine: ``python -m pairings.bench [--sizes 64,1000] [--reference-limit 512]``.
+
+For each field size it simulates a realistic event log
+(:func:`pairings.simulate.simulate_events`: Elo-based results, withdrawals,
+requested byes; the history rounds are made by the simulator's fast pairer),
+folds it, drafts the next round with the engine and, up to
+``--reference-limit`` players, with the reference solver (networkx on the full
+candidate graph) on the same weights. It prints one Markdown table row per
+size: draft time, peak memory (tracemalloc, a second run), the ratio
+reference/engine, and asserts that the two cost vectors are equal.
+"""
+
+from __future__ import annotations
+
+import argparse
+import time
+import tracemalloc
+from typing import Callable, TypeVar
+
+from pairings.engine import draft_round
+from pairings.engine.solver import fast_available
+from pairings.fold import fold
+from pairings.simulate import simulate_events
+from pairings.state import EventState
+
+T = TypeVar("T")
+
+
+def _timed(fn: Callable[[], T]) -> tuple[T, float]:
+    start = time.perf_counter()
+    out = fn()
+    return out, time.perf_counter() - start
+
+
+def _peak_mb(fn: Callable[[], object]) -> float:
+    tracemalloc.start()
+    fn()
+    _, peak = tracemalloc.get_traced_memory()
+    tracemalloc.stop()
+    return peak / 2**20
+
+
+def bench_one(n: int, rounds: int, played: int, seed: int, reference_limit: int) -> str:
+    """One table row for a field of ``n`` players drafting round ``played + 1`` of ``rounds``."""
+    log = simulate_events(n, rounds, played, seed)
+    state: EventState
+    state, fold_s = _timed(lambda: fold(enumerate(log, 1)))
+    draft, engine_s = _timed(lambda: draft_round(state))
+    peak = _peak_mb(lambda: draft_round(state))
+    ref_cell, ratio_cell = "-", "-"
+    if n <= reference_limit:
+        ref, ref_s = _timed(lambda: draft_round(state, reference=True))
+        assert ref.key() == draft.key(), f"{n} players: engine and reference cost vectors differ"
+        ref_cell, ratio_cell = f"{ref_s:.2f}", f"{ref_s / engine_s:.1f}"
+    cost = ", ".join(f"{k} {v}" for k, v in draft.cost.items() if v)
+    return (f"| {n:,} | {played + 1} of {rounds} | {fold_s:.2f} | {engine_s:.2f} | {peak:.0f} | "
+            f"{ref_cell} | {ratio_cell} | {cost} |")
+
+
+def main(argv: list[str] | None = None) -> None:
+    parser = argparse.ArgumentParser(prog="python -m pairings.bench", description=__doc__.splitlines()[0])
+    parser.add_argument("--sizes", default="64,128,256,512,1000,2000",
+                        help="comma-separated field sizes (default: %(default)s)")
+    parser.add_argument("--rounds", type=int, default=9)
+    parser.add_argument("--played", type=int, default=4, help="rounds already played (default 4: draft round 5)")
+    parser.add_argument("--seed", type=int, default=1)
+    parser.add_argument("--reference-limit", type=int, default=512,
+                        help="largest field also solved by networkx on the full graph (default %(default)s)")
+    args = parser.parse_args(argv)
+    print(f"solver: {'rustworkx (compiled)' if fast_available() else 'networkx'} on the pruned graph; "
+          "reference: networkx on the full graph")
+    print("| players | round | fold s | engine s | peak MB | reference s | ratio | round cost |")
+    print("| ---: | :---: | ---: | ---: | ---: | ---: | ---: | :--- |")
+    for n in (int(x) for x in args.sizes.split(",")):
+        print(bench_one(n, args.rounds, args.played, args.seed, args.reference_limit), flush=True)
+
+
+if __name__ == "__main__":
+    main()
