@@ -53,7 +53,7 @@ def _twin(text: str) -> str:
     return " ".join("".join(out).split())
 
 
-def build(names: tuple[str, ...], event_name: str) -> EventState:
+def build_events(names: tuple[str, ...], event_name: str) -> list[ev.Event]:
     """Round 1 complete, round 2 published with one result: every sheet has rows."""
     count = len(names)
     events: list[ev.Event] = [ev.EventCreated(name=event_name, rounds=3, seed=5)]
@@ -65,12 +65,16 @@ def build(names: tuple[str, ...], event_name: str) -> EventState:
         results = [Result.FIRST_WINS, Result.DRAW, Result.SECOND_WINS]
         last = len(boards) if rnd == 1 else 1
         events += [ev.ResultRecorded(round=rnd, board=b, result=results[b % 3]) for b in range(1, last + 1)]
-    return fold(enumerate(events, 1))
+    return events
+
+
+def hostile_events() -> list[ev.Event]:
+    return build_events(HOSTILE, EVENT_NAME)
 
 
 def hostile_state() -> EventState:
-    return build(HOSTILE, EVENT_NAME)
+    return fold(enumerate(hostile_events(), 1))
 
 
 def harmless_state() -> EventState:
-    return build(tuple(_twin(n) for n in HOSTILE), _twin(EVENT_NAME))
+    return fold(enumerate(build_events(tuple(_twin(n) for n in HOSTILE), _twin(EVENT_NAME)), 1))
