@@ -225,13 +225,20 @@ def open_draft(state: EventState) -> Round:
 
 
 def draft_of(state: EventState) -> Draft:
-    """The open draft as the engine's value (to explain or change it)."""
+    """The open draft as the engine's value (to explain or change it), boards and flags as stored."""
+    from dataclasses import replace
+
     from pairings import engine
+
     rnd = open_draft(state)
-    return engine.rebuild(
-        state, rnd.number, [(g.first, g.second) for g in rnd.games],
-        next((y.player for y in rnd.byes if y.kind is ByeKind.PAIRING), None),
+    stored = engine.Draft(
+        rnd.number,
+        tuple(engine.DraftBoard(g.board, g.first, g.second, g.cost, g.flags) for g in rnd.games),
+        rnd.byes, rnd.cost, rnd.engine_version or engine.ENGINE_VERSION,
     )
+    bye = next((y.player for y in rnd.byes if y.kind is ByeKind.PAIRING), None)
+    scored = engine.rebuild(state, rnd.number, [(g.first, g.second) for g in rnd.games], bye, base=stored)
+    return replace(scored, boards=stored.boards)
 
 
 def _need_reason(reason: str) -> str:
