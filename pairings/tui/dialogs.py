@@ -61,7 +61,7 @@ class ConfirmDialog(ModalScreen[bool]):
 
 
 class FormDialog(ModalScreen[dict[str, str] | None]):
-    """A few text fields; Enter submits (after ``check``), Esc cancels, Tab moves on."""
+    """A few text fields; Enter moves on and, in the last field, saves (after ``check``); Esc cancels."""
 
     BINDINGS = [Binding("escape", "cancel", "Cancel")]
 
@@ -83,7 +83,7 @@ class FormDialog(ModalScreen[dict[str, str] | None]):
                 yield Label(cell(f.label), classes="field-label")
                 yield Input(value=f.value, placeholder=f.placeholder, id=f"field-{f.key}", compact=True)
             yield Label("", id="problem", classes="problem")
-            yield Label("Enter: save    Tab: next field    Esc: cancel", classes="dialog-keys")
+            yield Label("Enter: next field, save after the last    Esc: cancel", classes="dialog-keys")
 
     def values(self) -> dict[str, str]:
         return {f.key: self.query_one(f"#field-{f.key}", Input).value for f in self._fields}
@@ -91,6 +91,10 @@ class FormDialog(ModalScreen[dict[str, str] | None]):
     @on(Input.Submitted)
     def submit(self, event: Input.Submitted) -> None:
         event.stop()
+        last = f"field-{self._fields[-1].key}"
+        if event.input.id != last:
+            self.focus_next()
+            return
         values = self.values()
         problem = self._check(values) if self._check is not None else None
         if problem:

@@ -1,0 +1,55 @@
+"""Helpers for driving the desk with textual's pilot: typing, waiting for workers, small events."""
+
+from __future__ import annotations
+
+from pathlib import Path
+from typing import Any
+
+from pairings import actions
+from pairings.store import EventStore
+from pairings.tui.app import DeskApp
+
+# Invented names (the demo's fixed lists): nobody real is meant.
+PLAYERS: list[tuple[str, str, str]] = [
+    ("Ansel Ash", "1910", "Old Mill"),
+    ("Brisa Bray", "1785", ""),
+    ("Corvin Cole", "1640", "Riverside"),
+    ("Della Dun", "", ""),
+    ("Eamon Esk", "1555", ""),
+]
+
+
+async def settle(app: DeskApp, pilot: Any) -> None:
+    """Let every worker finish and every message be handled (instead of sleeping)."""
+    for _ in range(3):
+        await app.workers.wait_for_complete()
+        await pilot.pause()
+
+
+async def type_text(pilot: Any, text: str) -> None:
+    await pilot.press(*text)
+
+
+class Notes:
+    """Records the desk's notifications (toasts are switched off in headless tests)."""
+
+    def __init__(self, app: DeskApp) -> None:
+        self.messages: list[str] = []
+        original = app.notify
+
+        def notify(message: str, **kw: Any) -> None:
+            self.messages.append(str(message))
+            original(message, **kw)
+
+        app.notify = notify  # type: ignore[method-assign]
+
+    def last(self) -> str:
+        return self.messages[-1] if self.messages else ""
+
+
+def new_event(path: Path, players: int = 0) -> EventStore:
+    """An event made as `pairings new E --name "Test Open" --rounds 3 --seed 7` makes it."""
+    store = EventStore.create(path, actions.new_event("Test Open", 3, seed=7))
+    for name, rating, club in PLAYERS[:players]:
+        store.apply(lambda s, n=name, r=rating, c=club: actions.add_player(s, n, int(r) if r else None, c or None))
+    return store
