@@ -8,7 +8,6 @@ text) but never textual.
 from __future__ import annotations
 
 from datetime import datetime
-from pathlib import Path
 
 from pairings.errors import InputError
 from pairings.reports.data import render_csv, render_json, standings_json

@@ -53,7 +53,8 @@ def _slips(sheet: Sheet, console: Console) -> None:
 def render_text(sheet: Sheet) -> str:
     """The sheet as plain terminal text: header, notes, tables, the line that rules prevail."""
     width = 100 + 7 * max((len(t.columns) for t in sheet.tables), default=0)
-    console = Console(file=io.StringIO(), width=width, color_system=None, force_terminal=False,
+    buffer = io.StringIO()
+    console = Console(file=buffer, width=width, color_system=None, force_terminal=False,
                       legacy_windows=False, emoji=False, highlight=False, markup=False)
     console.print(Text(plain(sheet.event)))
     console.print(Text(f"{sheet.title} — {sheet.round_label} · printed {sheet.printed}"))
@@ -66,5 +67,4 @@ def render_text(sheet: Sheet) -> str:
         for table in sheet.tables:
             console.print(_table(table))
     console.print(Text(PREVAIL))
-    output = console.file.getvalue()  # type: ignore[attr-defined]
-    return "\n".join(line.rstrip() for line in output.splitlines()) + "\n"
+    return "\n".join(line.rstrip() for line in buffer.getvalue().splitlines()) + "\n"
