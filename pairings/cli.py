@@ -196,11 +196,12 @@ def cmd_unpublish(a: argparse.Namespace) -> None:
 
 
 def cmd_result(a: argparse.Namespace) -> None:
-    result = None if a.result == "clear" else a.result
+    code = a.result.removeprefix(_CODE_MARK)
+    result = None if code == "clear" else code
     state = _run(a.event, lambda s: actions.record_result(s, a.board, result, a.round, a.correct))
     rnd = actions.results_round(state, a.round)
     left = len(rnd.open_boards)
-    _say(f"round {rnd.number} board {a.board}: {a.result}; " + (f"{left} boards open" if left else "round complete"))
+    _say(f"round {rnd.number} board {a.board}: {code}; " + (f"{left} boards open" if left else "round complete"))
 
 
 def cmd_standings(a: argparse.Namespace) -> None:
@@ -414,9 +415,23 @@ def build_parser() -> argparse.ArgumentParser:
     return p
 
 
+_CODE_MARK = "result:"
+
+
+def _protect_result_codes(argv: list[str]) -> list[str]:
+    """Keep ``-+`` and ``--`` after ``result`` as result codes, not as option syntax.
+
+    argparse reads ``--`` as "end of options" and ``-+`` as an unknown option;
+    both are the trade's forfeit codes, so they are marked before parsing.
+    """
+    if not argv or argv[0] != "result":
+        return argv
+    return [argv[0]] + [_CODE_MARK + a if a in ("-+", "--") else a for a in argv[1:]]
+
+
 def main(argv: Sequence[str] | None = None) -> int:
     try:
-        args = build_parser().parse_args(argv)
+        args = build_parser().parse_args(_protect_result_codes(list(sys.argv[1:] if argv is None else argv)))
         args.fn(args)
     except InputError as exc:
         print(f"pairings: {exc}", file=sys.stderr)

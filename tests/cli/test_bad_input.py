@@ -79,3 +79,11 @@ def test_roster_with_bad_rows_imports_nothing(event: Path, tmp_path: Path, cli) 
     assert "line 4: rating 'strong' is not a number" in ran.err
     assert "line 5: id 'f1' repeats line 2" in ran.err
     assert file_bytes(event) == before
+
+
+def test_forfeit_codes_are_not_options(event: Path, cli) -> None:  # type: ignore[no-untyped-def]
+    assert cli("pair", event).code == 0
+    assert cli("publish", event).code == 0
+    assert cli("result", event, "1", "-+").code == 0
+    ran = cli("result", event, "2", "--")
+    assert ran.code == 0 and "round complete" in ran.out, ran
