@@ -28,7 +28,7 @@ from pairings.tui.dialogs import Field, FormDialog, HelpDialog
 from pairings.tui.log import LogPlace
 from pairings.tui.results import ResultsPlace
 from pairings.tui.roster import RosterPlace
-from pairings.tui.round import RoundPlace
+from pairings.tui.round import WIDE, RoundPlace
 from pairings.tui.standings import StandingsPlace
 
 PLACES: dict[str, type[Place]] = {
@@ -61,6 +61,7 @@ class DeskApp(App[None]):
     """The full-screen desk on one event file."""
 
     CSS_PATH = "desk.tcss"
+    HORIZONTAL_BREAKPOINTS = [(0, "-narrow"), (WIDE, "-wide")]
     TITLE = "pairings desk"
     BINDINGS = [
         Binding("f1", "help", "Help"),

@@ -26,8 +26,16 @@ from pairings.state import EventState, PlayerId, Round, RoundState
 from pairings.tui import overrides as ov
 from pairings.tui.base import Place
 from pairings.tui.dialogs import ConfirmDialog, Field, FormDialog
-from pairings.tui.text import cell, describe_round, flag_words, name, open_flags, points, safe
+from pairings.tui.text import cell, describe_round, flag_words, name, open_flags, points, safe, short_result
 from pairings.tui.why import why_lines
+
+WIDE = 96
+"""From this terminal width on the screen has the ``-wide`` class (desk.tcss), below ``-narrow``."""
+WHY_WIDTH = 28
+WHY_NARROW = 22
+FLAGS_WIDTH = 10
+FIXED_COLUMNS = 3 + 4 + 4 + 3 + FLAGS_WIDTH + 7 * 2 + 1
+"""Board, two scores, result and flags columns, the cell padding and the scroll bar."""
 
 BoardPlan = Callable[[EventState, Round, int], ov.Plan]
 PlayersThen = Callable[[EventState, Round, list[PlayerId]], ov.Plan]
@@ -116,26 +124,27 @@ class RoundPlace(Place):
             return
         sides = state.settings.sides or ("First", "Second")
         what = f"Round {rnd.number}: {describe_round(rnd)}"
-        if rnd.state is RoundState.DRAFT:
-            what += " · s swap, k pin, f forbid, b bye, p publish"
+        costs = [f"{k} {points(v)}" for k, v in rnd.cost.items() if v]
+        what += " · cost: " + (", ".join(costs) if costs else "none")
         status.update(cell(what))
         shape = (rnd.number, tuple((g.board, g.first, g.second, g.flags, g.result) for g in rnd.games))
         if shape != self._boards:
             keep = table.cursor_row
             table.clear(columns=True)
-            table.add_column("Bd", key="board")
-            table.add_column(cell(sides[0]), key="first")
-            table.add_column("Pts", key="p1")
-            table.add_column(cell(sides[1]), key="second")
-            table.add_column("Pts", key="p2")
-            table.add_column("Result", key="result")
-            table.add_column("Flags", key="flags")
+            wide = self.name_width()
+            table.add_column("Bd", key="board", width=3)
+            table.add_column(cell(sides[0]), key="first", width=wide)
+            table.add_column("Pts", key="p1", width=4)
+            table.add_column(cell(sides[1]), key="second", width=wide)
+            table.add_column("Pts", key="p2", width=4)
+            table.add_column("Res", key="result", width=3)
+            table.add_column("Flags", key="flags", width=FLAGS_WIDTH)
             for g in rnd.games:
                 rec1, rec2 = state.records[g.first], state.records[g.second]
                 table.add_row(
                     str(g.board), cell(name(state, g.first)), points(rec1.score_before(rnd.number)),
                     cell(name(state, g.second)), points(rec2.score_before(rnd.number)),
-                    g.result.value if g.result else "", cell(" ".join(g.flags) or "-"), key=str(g.board),
+                    short_result(g.result), cell(" ".join(g.flags) or "-"), key=str(g.board),
                 )
             self._boards = shape
             if table.row_count:
@@ -143,6 +152,16 @@ class RoundPlace(Place):
         byes.update(cell("Byes: " + ("; ".join(
             f"{name(state, y.player)} ({y.kind.value}, {points(y.points)})" for y in rnd.byes) or "none")))
         self.explain_selected()
+
+    def name_width(self) -> int:
+        """Name columns share what the other columns and the Why panel leave of the width."""
+        why = WHY_WIDTH if self.size.width >= WIDE else WHY_NARROW
+        return max(8, (self.size.width - why - FIXED_COLUMNS) // 2)
+
+    def on_resize(self) -> None:
+        self._boards = ()
+        if self.shown_head >= 0:
+            self.show(self.state)
 
     def selected_board(self) -> int | None:
         table = self.query_one("#boards", DataTable)

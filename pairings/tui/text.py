@@ -55,6 +55,13 @@ RESULT_WORDS: dict[Result, str] = {
 }
 
 
+def short_result(result: Result | None) -> str:
+    """A result in three cells for narrow tables (``½-½`` for a draw)."""
+    if result is None:
+        return ""
+    return "½-½" if result is Result.DRAW else result.value
+
+
 def round_status(state: EventState) -> str:
     """One line on where the event stands, in words (read in any colour scheme)."""
     last = state.last_round
