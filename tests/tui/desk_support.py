@@ -5,6 +5,8 @@ from __future__ import annotations
 from pathlib import Path
 from typing import Any
 
+from textual.worker import WorkerCancelled
+
 from pairings import actions
 from pairings.store import EventStore
 from pairings.tui.app import DeskApp
@@ -22,7 +24,10 @@ PLAYERS: list[tuple[str, str, str]] = [
 async def settle(app: DeskApp, pilot: Any) -> None:
     """Let every worker finish and every message be handled (instead of sleeping)."""
     for _ in range(3):
-        await app.workers.wait_for_complete()
+        try:
+            await app.workers.wait_for_complete()
+        except WorkerCancelled:  # an exclusive worker superseded by a newer one: wait for that one
+            continue
         await pilot.pause()
 
 

@@ -60,7 +60,7 @@ async def drive(path: Path, sheet: Path) -> tuple[dict[str, object], list[list[o
         await pilot.press("escape")
         assert len(app.state.players) == len(PLAYERS)
 
-        plans = [["f", "d"], ["2", "d", "s"], ["-", "+"]]
+        plans = [["f", "d"], ["2", "d", "x"], ["-", "+"]]
         for number, keys in enumerate(plans, 1):
             await pilot.press("f3", "n")
             await settle(app, pilot)
@@ -96,8 +96,7 @@ async def drive(path: Path, sheet: Path) -> tuple[dict[str, object], list[list[o
                 await pilot.press(key)
             rnd = app.state.rounds[number - 1]
             assert rnd.state is RoundState.COMPLETE, (rnd, notes.messages)
-            # "--" ends the options: results such as -+ would read as one otherwise.
-            commands += [["result", "E", g.board, "--", g.result.value] for g in rnd.games if g.result]
+            commands += [["result", "E", g.board, g.result.value] for g in rnd.games if g.result]
             assert "0 of" in str(app.screen.query_one("#open-count").content)
 
         # A correction asks first; board 1 of round 3 becomes a second-side win.
@@ -105,7 +104,7 @@ async def drive(path: Path, sheet: Path) -> tuple[dict[str, object], list[list[o
         assert isinstance(app.screen, ConfirmDialog)
         await pilot.press("y")
         assert app.state.rounds[2].game_on(1).result.value == "1/2-1/2"
-        commands.append(["result", "E", "--correct", 1, "--", "1/2-1/2"])
+        commands.append(["result", "E", 1, "1/2-1/2", "--correct"])
 
         await pilot.press("f5")
         await settle(app, pilot)
