@@ -17,6 +17,7 @@ from textual.binding import Binding
 from textual.containers import Horizontal, VerticalScroll
 from textual.message import Message
 from textual.widgets import DataTable, Label, LoadingIndicator, Static
+from textual.timer import Timer
 from textual.worker import get_current_worker
 
 from pairings import actions
@@ -29,6 +30,8 @@ from pairings.tui.dialogs import ConfirmDialog, Field, FormDialog
 from pairings.tui.text import cell, describe_round, flag_words, name, open_flags, points, safe, short_result
 from pairings.tui.why import why_lines
 
+WHY_DELAY = 0.25
+"""Seconds the cursor rests on a board before the engine is asked why."""
 WIDE = 96
 """From this terminal width on the screen has the ``-wide`` class (desk.tcss), below ``-narrow``."""
 WHY_WIDTH = 28
@@ -83,6 +86,10 @@ class RoundPlace(Place):
         self.number: int | None = None
         """The round on screen; None follows the latest."""
         self.cache = ov.OptimumCache()
+        self._wanted: tuple[int, int, int] | None = None
+        """(head, round, board) the Why panel should explain next."""
+        self._explaining = False
+        self._why_timer: Timer | None = None
         self._boards: object = ()
         """What the boards table holds now (rebuilt only when it changes)."""
 
@@ -195,11 +202,23 @@ class RoundPlace(Place):
         ]
         costs = [(k, v) for k, v in game.cost.items() if v]
         lines += [f"  {k:<15}{points(v)}" for k, v in costs] or ["  nothing: every criterion met"]
-        self.query_one("#why-text", Static).update("\n".join(safe(x) for x in lines))
         if rnd.state is RoundState.DRAFT:
-            self.explain(state, rnd.number, board)
+            lines += ["", "Why: working it out …"]
+            self._wanted = (state.head, rnd.number, board)
+            if self._why_timer is not None:
+                self._why_timer.stop()
+            self._why_timer = self.set_timer(WHY_DELAY, self.start_explain)
+        self.query_one("#why-text", Static).update("\n".join(safe(x) for x in lines))
 
-    @work(thread=True, exclusive=True, group="why")
+    def start_explain(self) -> None:
+        """One explanation at a time (each is a full re-draft), for the board the cursor rests on."""
+        if self._explaining or self._wanted is None or self._wanted[0] != self.state.head:
+            return
+        self._explaining = True
+        _, number, board = self._wanted
+        self.explain(self.state, number, board)
+
+    @work(thread=True, group="why")
     def explain(self, state: EventState, number: int, board: int) -> None:
         try:
             lines = why_lines(state, board)
@@ -210,14 +229,13 @@ class RoundPlace(Place):
 
     @on(Explained)
     def explained(self, message: Explained) -> None:
-        rnd = self.round()
-        if rnd is None or rnd.number != message.round or self.selected_board() != message.board:
-            return
-        if message.head != self.state.head:
+        self._explaining = False
+        if self._wanted != (message.head, message.round, message.board):
+            self.start_explain()
             return
         text = self.query_one("#why-text", Static)
-        base = str(text.content)
-        text.update(base + "\n\nWhy:\n" + "\n".join(safe(x) for x in message.lines))
+        base = str(text.content).removesuffix("Why: working it out …")
+        text.update(base + "Why:\n" + "\n".join(safe(x) for x in message.lines))
 
     def action_browse(self, step: int) -> None:
         last = self.state.last_round

@@ -1,0 +1,173 @@
+"""Key-latency benchmark of the desk on a big event: ``python -m pairings.tui.bench [--players 2000]``.
+
+The event is simulated (:func:`pairings.simulate.simulate_events`): five
+rounds played and a sixth published with half of its results in. The desk
+runs headless; each key is posted to the app as the terminal driver would,
+and its *answer time* runs until every message it caused has been handled
+and the screen has been redrawn once after that (``call_after_refresh``).
+Work that runs in worker threads (drafting, standings, explanations) is not
+waited for: the point is that the keys keep answering meanwhile, which the
+last rows measure while the engine drafts the next round.
+"""
+
+from __future__ import annotations
+
+import argparse
+import asyncio
+import statistics
+import tempfile
+from pathlib import Path
+from time import perf_counter
+from typing import Sequence
+
+from textual import events
+
+from pairings import events as ev
+from pairings.simulate import simulate_events
+from pairings.state import Result
+from pairings.store import EventStore
+from pairings.tui.app import DeskApp
+
+TARGET_MS = 100.0
+
+_CHARS = {"slash": "/", "space": " ", "comma": ",", "full_stop": ".", "plus": "+", "minus": "-"}
+
+
+def big_event(players: int, seed: int) -> list[ev.Event]:
+    """Five rounds complete, round 6 published with every second board still open."""
+    log = simulate_events(players, 9, 6, seed=seed)
+    last = max(e.round for e in log if isinstance(e, ev.ResultRecorded))
+    return [e for e in log if not (isinstance(e, ev.ResultRecorded) and e.round == last and e.board % 2 == 0)]
+
+
+async def drained(app: DeskApp) -> None:
+    """Wait until the app and every widget on screen have handled what is queued, then one redraw."""
+    for _ in range(2):
+        nodes = [app, *app.screen.walk_children(with_self=True)]
+        done = asyncio.Event()
+        left = 0
+
+        def one() -> None:
+            nonlocal left
+            left -= 1
+            if left == 0:
+                done.set()
+
+        for node in nodes:
+            if node.call_later(one):
+                left += 1
+        if left:
+            await done.wait()
+    redrawn = asyncio.Event()
+    app.screen.call_after_refresh(redrawn.set)
+    await redrawn.wait()
+
+
+async def finished(app: DeskApp) -> None:
+    """Wait for the workers still meant to finish (superseded ones are cancelled)."""
+    await app.workers.wait_for_complete([w for w in app.workers if not w.is_cancelled])
+    await drained(app)
+
+
+async def answer(app: DeskApp, key: str) -> float:
+    """Milliseconds from the key to its answer on screen."""
+    char = _CHARS.get(key, key if len(key) == 1 else None)
+    start = perf_counter()
+    app.post_message(events.Key(key, char))
+    await drained(app)
+    return (perf_counter() - start) * 1000
+
+
+Row = tuple[str, list[float]]
+
+
+async def measure(path: Path, repeat: int) -> tuple[list[Row], float]:
+    store = EventStore.open(path)
+    app = DeskApp(store, poll_seconds=1.0, start="round")
+    rows: list[Row] = []
+    async with app.run_test(size=(120, 40)) as pilot:
+        await pilot.pause()
+
+        async def keys(label: str, sequence: Sequence[str], times: int = 1, settle: bool = False) -> None:
+            found: list[float] = []
+            for _ in range(times):
+                for key in sequence:
+                    found.append(await answer(app, key))
+                if settle:
+                    await finished(app)
+            rows.append((label, found))
+
+        await keys("Round: cursor down (Why panel refresh)", ["down"], repeat)
+        await keys("Round: earlier / later round", ["comma", "full_stop"], 2)
+        await keys("Roster: open (2,000 rows)", ["f2"], 1)
+        await keys("Roster: cursor down", ["down"], repeat)
+        await keys("Roster: filter, per typed letter", ["slash", "k", "a", "escape"], 1)
+        await keys("Results: open (1,000 boards)", ["f4"], 1)
+        await keys("Results: type a board number", ["1", "2"], 2)
+        await keys("Results: enter a result (writes the file)", ["f", "d", "s"], max(1, repeat // 3))
+        await keys("Results: correct (confirm dialog)", ["up", "f", "n"], 1)
+        await keys("Standings: open (computed in a worker)", ["f5"], 1, settle=True)
+        await keys("Log: open (≈14,000 events)", ["f6"], 1)
+        await keys("Help: open and close", ["f1", "escape"], 2)
+        await keys("Print dialog: open and close", ["f7", "escape"], 2)
+        poll = []
+        for _ in range(repeat):
+            start = perf_counter()
+            app.poll()
+            poll.append((perf_counter() - start) * 1000)
+        rows.append(("Change check (1 s timer), nothing changed", poll))
+
+        # Another process finishes round 6; the desk reloads, then drafts round 7 while keys are pressed.
+        with EventStore.open(path) as other:
+            rnd = other.state.last_round
+            assert rnd is not None
+            other.append([ev.ResultRecorded(round=rnd.number, board=b, result=Result.FIRST_WINS)
+                          for b in rnd.open_boards])
+        start = perf_counter()
+        app.poll()
+        await drained(app)
+        rows.append(("Reload after a write elsewhere (timer, not a key)", [(perf_counter() - start) * 1000]))
+        await keys("Round: open", ["f3"], 1)
+        start = perf_counter()
+        during: list[float] = []
+        await answer(app, "n")
+        while app.workers and any(w.group == "engine" and w.is_running for w in app.workers):
+            during.append(await answer(app, "down" if len(during) % 4 < 2 else "up"))
+            await asyncio.sleep(0.05)
+        await finished(app)
+        drafting = perf_counter() - start
+        rows.append(("Round: cursor keys while the engine drafts", during))
+    store.close()
+    return rows, drafting
+
+
+def report(rows: list[Row], drafting: float, players: int) -> str:
+    out = [f"Desk key latency, {players} players (answer time in ms; target < {TARGET_MS:g} ms)", ""]
+    out.append(f"| {'key action':<46} | {'n':>4} | {'median':>7} | {'max':>7} | {'ok':<3} |")
+    out.append(f"| {'-' * 46} | {'-' * 4}:| {'-' * 6}:| {'-' * 6}:| {'-' * 3} |")
+    for label, values in rows:
+        if not values:
+            continue
+        med, top = statistics.median(values), max(values)
+        out.append(f"| {label:<46} | {len(values):>4} | {med:>7.1f} | {top:>7.1f} | "
+                   f"{'yes' if top < TARGET_MS else 'NO':<3} |")
+    out.append("")
+    out.append(f"Drafting the next round in the worker took {drafting:.1f} s; the keys above kept answering.")
+    return "\n".join(out)
+
+
+def main(argv: Sequence[str] | None = None) -> None:
+    parser = argparse.ArgumentParser(prog="python -m pairings.tui.bench", description=__doc__.splitlines()[0])
+    parser.add_argument("--players", type=int, default=2000)
+    parser.add_argument("--repeat", type=int, default=20)
+    parser.add_argument("--seed", type=int, default=1)
+    a = parser.parse_args(argv)
+    with tempfile.TemporaryDirectory() as folder:
+        path = Path(folder) / "bench.pairings"
+        EventStore.create_from(path, big_event(a.players, a.seed)).close()
+        rows, drafting = asyncio.run(measure(path, a.repeat))
+    print(report(rows, drafting, a.players))
+
+
+if __name__ == "__main__":
+    main()
