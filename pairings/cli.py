@@ -17,15 +17,17 @@ from typing import Any, Callable, NoReturn, Sequence
 from pairings import actions
 from pairings.errors import InputError, PairingsError
 from pairings.events import Undone
-from pairings.state import ByeKind, EventState, RoundState
+from pairings.state import ByeKind, EventState
 from pairings.store import EventStore
+from pairings.text import one_line, plain
 
 PREVAIL = "The event's regulations and the chief arbiter's decision prevail over this tool."
 
 
 class _Parser(argparse.ArgumentParser):
     def error(self, message: str) -> NoReturn:
-        raise InputError(f"{self.prog}: {message}")
+        command = self.prog.removeprefix("pairings").strip()
+        raise InputError(f"{command}: {message}" if command else message)
 
 
 def _open(path: str) -> EventStore:
@@ -45,10 +47,6 @@ def _json(data: object) -> None:
     print(json.dumps(data, indent=2, ensure_ascii=False))
 
 
-def _name(state: EventState, pid: str) -> str:
-    return state.players[pid].name  # type: ignore[index]
-
-
 # -- commands ----------------------------------------------------------------------------
 
 
@@ -61,7 +59,7 @@ def cmd_new(a: argparse.Namespace) -> None:
 def cmd_player_add(a: argparse.Namespace) -> None:
     state = _run(a.event, lambda s: actions.add_player(s, a.name, a.rating, a.club, a.id))
     p = list(state.players.values())[-1]
-    _say(f"registered {p.id}: {p.name}")
+    _say(f"registered {p.id}: {plain(p.name)}")
 
 
 def cmd_player_edit(a: argparse.Namespace) -> None:
@@ -84,14 +82,7 @@ def cmd_player_import(a: argparse.Namespace) -> None:
     except OSError as exc:
         raise InputError(f"{a.roster}: cannot read ({exc.strerror})") from None
     text = decode(data)
-    from pairings.errors import RosterError
-
-    try:
-        state = _run(a.event, lambda s: import_roster(s, text))
-    except RosterError as exc:
-        for problem in exc.problems:
-            print(problem, file=sys.stderr)
-        raise
+    state = _run(a.event, lambda s: import_roster(s, text))
     _say(f"imported; {len(state.players)} players registered")
 
 
@@ -127,7 +118,8 @@ def cmd_player_list(a: argparse.Namespace) -> None:
         return
     for p in s.players.values():
         rating = str(p.rating) if p.rating is not None else "-"
-        _say(f"{p.id:>6}  {p.name[:40]:<40} {rating:>5}  {(p.club or '')[:20]:<20} {s.score(p.id):>4g}  {p.status.value}")
+        name, club = plain(p.name)[:40], plain(p.club or "")[:20]
+        _say(f"{plain(p.id):>6}  {name:<40} {rating:>5}  {club:<20} {s.score(p.id):>4g}  {p.status.value}")
 
 
 def _draft_json(state: EventState, rnd_number: int) -> dict[str, Any]:
@@ -145,18 +137,18 @@ def _draft_json(state: EventState, rnd_number: int) -> dict[str, Any]:
 def print_round(state: EventState, number: int) -> None:
     rnd = state.rounds[number - 1]
     sides = state.settings.sides or ("", "")
-    _say(f"{state.settings.name} — round {rnd.number} ({rnd.state.value})")
+    _say(f"{plain(state.settings.name)} — round {rnd.number} ({rnd.state.value})")
     before = {pid: rec.score_before(rnd.number) for pid, rec in state.records.items()}
     for g in rnd.games:
-        first, second = state.players[g.first], state.players[g.second]
+        first, second = plain(state.players[g.first].name), plain(state.players[g.second].name)
         res = g.result.value if g.result else ""
         flags = " ".join(g.flags)
         _say(
-            f"{g.board:>4}  {first.name[:28]:<28} {before[g.first]:>4g}  -  "
-            f"{second.name[:28]:<28} {before[g.second]:>4g}  {res:<7} {flags}"
+            f"{g.board:>4}  {first[:28]:<28} {before[g.first]:>4g}  -  "
+            f"{second[:28]:<28} {before[g.second]:>4g}  {res:<7} {flags}"
         )
     for y in rnd.byes:
-        _say(f"  bye  {state.players[y.player].name} ({y.kind.value}, {y.points:g})")
+        _say(f"  bye  {plain(state.players[y.player].name)} ({y.kind.value}, {y.points:g})")
     if sides[0]:
         _say(f"(first named plays {sides[0]})")
 
@@ -433,11 +425,8 @@ def main(argv: Sequence[str] | None = None) -> int:
     try:
         args = build_parser().parse_args(_protect_result_codes(list(sys.argv[1:] if argv is None else argv)))
         args.fn(args)
-    except InputError as exc:
-        print(f"pairings: {exc}", file=sys.stderr)
-        return 2
     except PairingsError as exc:
-        print(f"pairings: {exc}", file=sys.stderr)
+        print(f"pairings: {one_line(str(exc))}", file=sys.stderr)
         return 2
     except KeyboardInterrupt:
         print("pairings: interrupted; nothing half-written is kept", file=sys.stderr)

@@ -37,9 +37,8 @@ class RosterError(InputError):
 
     def __init__(self, problems: list[str]) -> None:
         self.problems = problems
-        first = problems[0] if problems else "no rows"
-        more = f" (and {len(problems) - 1} more)" if len(problems) > 1 else ""
-        super().__init__(f"roster not imported: {first}{more}")
+        count = f"{len(problems)} bad row{'s' if len(problems) != 1 else ''}"
+        super().__init__(f"roster not imported, {count}: {'; '.join(problems)}")
 
 
 class NoPairingError(InputError):

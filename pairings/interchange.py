@@ -12,6 +12,7 @@ from typing import Any, Literal
 from pydantic import BaseModel, ConfigDict, Field, ValidationError
 
 from pairings import events as ev
+from pairings.actions import clean_text
 from pairings.errors import InputError
 from pairings.state import ByeKind, EventState, Result, RoundState, Status
 
@@ -110,6 +111,15 @@ class _Document(_Strict):
 
 
 def _check(doc: _Document) -> None:
+    clean_text(doc.event.name, "event name")
+    for p in doc.players:
+        clean_text(p.id, f"player id {p.id!r}", limit=40)
+        clean_text(p.name, f"name of player {p.id!r}")
+        if p.club is not None:
+            clean_text(p.club, f"club of player {p.id!r}", required=False)
+    if doc.event.sides is not None:
+        for label in doc.event.sides:
+            clean_text(label, "side label", limit=40)
     ids = [p.id for p in doc.players]
     dup = next((i for i in ids if ids.count(i) > 1), None)
     if dup is not None:

@@ -5,27 +5,33 @@ from __future__ import annotations
 from functools import singledispatch
 
 from pairings import events as ev
+from pairings.text import plain
+
+
+def describe(event: ev.Event) -> str:
+    """One line for ``event``, safe to print on a terminal (names may hold anything)."""
+    return plain(_line(event))
 
 
 @singledispatch
-def describe(event: object) -> str:
+def _line(event: object) -> str:
     return type(event).__name__
 
 
-@describe.register
+@_line.register
 def _(e: ev.EventCreated) -> str:
     sides = f"sides {e.sides[0]}/{e.sides[1]}" if e.sides else "no sides"
     s = e.scoring
     return f"event {e.name!r} created: {e.rounds} rounds, scoring {s.win:g}/{s.draw:g}/{s.loss:g}, {sides}"
 
 
-@describe.register
+@_line.register
 def _(e: ev.SettingsChanged) -> str:
     changed = {k: v for k, v in e.model_dump(exclude={"type"}).items() if v is not None}
     return "settings changed: " + ", ".join(f"{k}={v}" for k, v in changed.items())
 
 
-@describe.register
+@_line.register
 def _(e: ev.PlayerRegistered) -> str:
     extra = [f"rating {e.rating}" if e.rating is not None else "unrated"]
     if e.club:
@@ -34,69 +40,69 @@ def _(e: ev.PlayerRegistered) -> str:
     return f"player {e.id} registered: {e.name} ({', '.join(extra)}){late}"
 
 
-@describe.register
+@_line.register
 def _(e: ev.PlayerEdited) -> str:
     return f"player {e.id} edited: {e.name}, rating {e.rating if e.rating is not None else '-'}, club {e.club or '-'}"
 
 
-@describe.register
+@_line.register
 def _(e: ev.PlayerWithdrawn) -> str:
     why = f" ({e.reason})" if e.reason else ""
     return f"player {e.player} withdrawn from round {e.from_round}{why}"
 
 
-@describe.register
+@_line.register
 def _(e: ev.PlayerReinstated) -> str:
     return f"player {e.player} back in from round {e.from_round}"
 
 
-@describe.register
+@_line.register
 def _(e: ev.ByeRequested) -> str:
     return f"player {e.player}: {e.kind.value} bye in round {e.round}"
 
 
-@describe.register
+@_line.register
 def _(e: ev.ByeCancelled) -> str:
     return f"player {e.player}: bye in round {e.round} cancelled"
 
 
-@describe.register
+@_line.register
 def _(e: ev.PairForbidden) -> str:
     until = f" until round {e.until_round}" if e.until_round else ""
     why = f" ({e.reason})" if e.reason else ""
     return f"do not pair {e.a} with {e.b}{until}{why}"
 
 
-@describe.register
+@_line.register
 def _(e: ev.RoundDrafted) -> str:
     what = {"engine": "drafted", "override": "changed by the organiser", "restored": "restored"}[e.source]
     why = f": {e.reason}" if e.reason else ""
     return f"round {e.round} {what} ({len(e.boards)} boards, {len(e.byes)} byes){why}"
 
 
-@describe.register
+@_line.register
 def _(e: ev.DraftDiscarded) -> str:
     why = f" ({e.reason})" if e.reason else ""
     return f"draft of round {e.round} discarded{why}"
 
 
-@describe.register
+@_line.register
 def _(e: ev.RoundPublished) -> str:
     return f"round {e.round} published"
 
 
-@describe.register
+@_line.register
 def _(e: ev.RoundUnpublished) -> str:
     return f"round {e.round} taken back to draft ({e.reason})"
 
 
-@describe.register
+@_line.register
 def _(e: ev.ResultRecorded) -> str:
     if e.result is None:
         return f"round {e.round} board {e.board}: result cleared"
     return f"round {e.round} board {e.board}: {e.result.value}"
 
 
-@describe.register
+@_line.register
 def _(e: ev.Undone) -> str:
     return f"undo of event {e.target}" + (f" ({e.summary})" if e.summary else "")

@@ -12,14 +12,9 @@ from __future__ import annotations
 import re
 from datetime import datetime
 
-_ESCAPES = re.compile(
-    r"\x1b\[[0-?]*[ -/]*[@-~]"          # CSI sequences (colours, cursor moves)
-    r"|\x1b\][^\x07\x1b]*(?:\x07|\x1b\\)?"  # OSC sequences (titles, hyperlinks)
-    r"|\x1b[@-_]?"                       # any other escape
-)
-_BIDI = "\u061c\u200e\u200f\u202a\u202b\u202c\u202d\u202e\u2066\u2067\u2068\u2069"
-_DROP = re.compile("[\x00-\x08\x0b-\x1f\x7f-\x9f" + _BIDI + "]")
-_SPACES = re.compile(r"[\t\n\r\u2028\u2029]+")
+from pairings.text import plain
+
+__all__ = ["plain", "csv_cell", "points", "shared_rank", "stamp", "show", "PREVAIL"]
 
 _FORMULA_START = ("=", "+", "-", "@", "\t", "\r")
 _NUMBER = re.compile(r"-?\d+(?:\.\d+)?(?:[eE][+-]?\d+)?")
@@ -30,11 +25,6 @@ PREVAIL = "The event's regulations and the chief arbiter's decisions prevail ove
 """Printed on every sheet."""
 
 
-def plain(text: str) -> str:
-    """``text`` without escape sequences, control characters or bidi overrides, on one line."""
-    return _DROP.sub("", _ESCAPES.sub("", _SPACES.sub(" ", text))).strip()
-
-
 def csv_cell(value: object) -> object:
     """A CSV cell a spreadsheet shows as text: formula starters get a leading apostrophe.
 
@@ -42,6 +32,7 @@ def csv_cell(value: object) -> object:
     """
     if not isinstance(value, str):
         return "" if value is None else value
+    value = plain(value)
     if value.startswith(_FORMULA_START) and not _NUMBER.fullmatch(value):
         return "'" + value
     return value

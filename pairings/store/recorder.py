@@ -53,7 +53,7 @@ def canonical_json(data: object) -> str:
 def row_hash(seq: int, type_: str, schema_version: int, recorded_at: str, payload: str, prev_hash: str) -> str:
     """SHA-256 over the row's stored text, so any changed byte of any column shows."""
     text = "\n".join((str(seq), type_, str(schema_version), recorded_at, prev_hash, payload))
-    return hashlib.sha256(text.encode("utf-8")).hexdigest()
+    return hashlib.sha256(text.encode("utf-8", "surrogateescape")).hexdigest()
 
 
 @dataclass(frozen=True, slots=True)
@@ -99,6 +99,8 @@ class Recorder:
                 f"file:{path.as_posix()}?mode={mode}", uri=True, timeout=10.0, isolation_level=None,
                 check_same_thread=False,
             )
+            # A stored byte changed into invalid UTF-8 must still read, so the chain check can name it.
+            conn.text_factory = lambda raw: raw.decode("utf-8", "surrogateescape")
             conn.execute("PRAGMA busy_timeout = 10000")
             conn.execute("PRAGMA synchronous = FULL")
         except sqlite3.Error as exc:

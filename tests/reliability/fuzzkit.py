@@ -2,9 +2,6 @@
 
 from __future__ import annotations
 
-import contextlib
-import io
-import re
 import shutil
 from dataclasses import dataclass
 from pathlib import Path
@@ -47,42 +44,12 @@ def run(capsys: pytest.CaptureFixture[str], argv: Sequence[str]) -> Ran:
     return Ran(code, captured.out, captured.err)
 
 
-_ROW_REPORT = re.compile(r"line \d+: .+")
-
-
-def echoes_line_breaks() -> bool:
-    """True while the command line prints a message holding a line break of the input as is.
-
-    That is a known bug (see test_one_line_errors.py, strict xfail); while it stands the fuzz
-    tests accept such a message as one error spread over lines and check everything else.
-    Once it is fixed this returns False and the fuzz tests demand one line again.
-    """
-    err = io.StringIO()
-    with contextlib.redirect_stderr(err), contextlib.redirect_stdout(io.StringIO()):
-        main(["player", "list", "missing.pairings", "--x\ny"])
-    return err.getvalue().count("\n") > 1
-
-
-LINE_BREAK_BUG = echoes_line_breaks()
-
-
-def assert_refused_cleanly(
-    ran: Ran, before: object, after: object, *, row_reports: bool = False, line_break_bug: bool = False
-) -> None:
-    """Exit 2 means: one ``pairings: ...`` line on stderr and nothing changed on disk.
-
-    ``row_reports`` allows the roster import's deliberate ``line N: ...`` lines before it;
-    ``line_break_bug`` accepts the known bug of :func:`echoes_line_breaks`.
-    """
+def assert_refused_cleanly(ran: Ran, before: object, after: object) -> None:
+    """Exit 2 means: one ``pairings: ...`` line on stderr and nothing changed on disk."""
     assert ran.code == 2, ran
     lines = ran.err.split("\n")
     assert lines[-1] == "", f"stderr does not end with a newline: {ran.err!r}"
     lines = lines[:-1]
-    if row_reports:
-        while len(lines) > 1 and _ROW_REPORT.fullmatch(lines[0]):
-            lines.pop(0)
-    if line_break_bug:
-        lines = ["\n".join(lines)]
     assert len(lines) == 1, f"not a one-line error: {ran.err!r}"
     assert lines[0].startswith("pairings: ")
     assert "Traceback" not in ran.err

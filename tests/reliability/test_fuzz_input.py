@@ -28,15 +28,15 @@ from pairings.interchange import export_event
 from pairings.store import EventStore
 
 from .conftest import snapshot
-from .fuzzkit import LINE_BREAK_BUG, NASTY, Ran, assert_refused_cleanly, base_events, fresh_copy, nasty_text, pristine, run, token_text
+from .fuzzkit import NASTY, Ran, assert_refused_cleanly, base_events, fresh_copy, nasty_text, pristine, run, token_text
 
 FUZZ = settings(max_examples=420, deadline=None, database=None, suppress_health_check=list(HealthCheck))
 
 
-def _check(ran: Ran, before: object, after: object, *, row_reports: bool = False) -> None:
+def _check(ran: Ran, before: object, after: object) -> None:
     if ran.code == 0:
         return
-    assert_refused_cleanly(ran, before, after, row_reports=row_reports, line_break_bug=LINE_BREAK_BUG)
+    assert_refused_cleanly(ran, before, after)
 
 
 # -- rosters (CSV) ----------------------------------------------------------------------------
@@ -80,7 +80,7 @@ def test_fuzzed_rosters(tmp_path: Path, capsys: pytest.CaptureFixture[str]) -> N
         roster = tmp_path / "roster.csv"
         roster.write_bytes(data)
         ran = run(capsys, ["player", "import", str(path), str(roster)])
-        _check(ran, before, snapshot(path), row_reports=True)
+        _check(ran, before, snapshot(path))
         if ran.code == 0:
             with EventStore.open(path) as store:
                 assert len(store.state.players) > 4 and store.check_chain().ok

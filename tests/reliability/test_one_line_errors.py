@@ -13,13 +13,6 @@ from pairings.interchange import export_event
 from .conftest import snapshot
 from .fuzzkit import assert_refused_cleanly, base_events, fresh_copy, pristine, run
 
-BUG = (
-    "cli.main prints str(exc) as is: a line break (or escape) quoted from the input splits the "
-    "one-line error (argparse 'unrecognized arguments', pydantic error locations, file names)"
-)
-
-
-@pytest.mark.xfail(strict=True, reason=BUG)
 @pytest.mark.parametrize("case", ["argument", "json-key", "path"])
 def test_quoted_line_break_stays_on_one_line(tmp_path: Path, capsys: pytest.CaptureFixture[str], case: str) -> None:
     event, before = fresh_copy(pristine(tmp_path), tmp_path)

@@ -121,10 +121,6 @@ def test_raw_file_byte_changes_in_a_payload(tmp_path: Path, xor: int) -> None:
             recorder.close()
 
 
-@pytest.mark.xfail(strict=True, reason=(
-    "recorder.Recorder._rows reads payload as TEXT: a byte change that leaves invalid UTF-8 raises "
-    "sqlite3 'Could not decode to UTF-8', reported as 'cannot read' (NotAnEventFileError) with no sequence number"
-))
 def test_raw_byte_change_to_invalid_utf8_still_names_the_event(tmp_path: Path, capsys: pytest.CaptureFixture[str]) -> None:
     source = pristine(tmp_path)
     start, _ = _payload_span(source, 3)
