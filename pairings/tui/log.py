@@ -4,7 +4,7 @@ from __future__ import annotations
 
 from textual.app import ComposeResult
 from textual.binding import Binding
-from textual.widgets import DataTable, Label
+from textual.widgets import Label
 
 from pairings import actions
 from pairings.events import Undone
@@ -13,6 +13,7 @@ from pairings.state import EventState
 from pairings.store import undo_target
 from pairings.tui.base import Place
 from pairings.tui.dialogs import ConfirmDialog
+from pairings.tui.grid import Column, Grid
 from pairings.tui.text import cell
 
 
@@ -20,40 +21,28 @@ class LogPlace(Place):
     TITLE = "Log"
     BINDINGS = [Binding("u", "undo", "Undo last action")]
 
-    def __init__(self) -> None:
-        super().__init__()
-        self._rows = 0
-        """Events in the table; new ones are appended, not redrawn."""
-
     def body(self) -> ComposeResult:
         yield Label("", id="log-status", classes="status")
-        table: DataTable[object] = DataTable(id="events", cursor_type="row", zebra_stripes=True)
-        yield table
+        yield Grid(id="events")
 
     def on_mount(self) -> None:
-        table = self.query_one("#events", DataTable)
-        for label, key in (("#", "seq"), ("When", "when"), ("What", "what"), ("", "undone")):
-            table.add_column(label, key=key)
-        table.focus()
+        grid = self.query_one("#events", Grid)
+        grid.set_columns([Column("seq", "#", limit=7), Column("when", "When", 19), Column("what", "What", flex=True,
+                          limit=200), Column("undone", "", 6)])
+        grid.focus()
 
     def show(self, state: EventState) -> None:
         log = self.desk.store.log
-        table = self.query_one("#events", DataTable)
+        grid = self.query_one("#events", Grid)
         undone = {s.event.target for s in log if isinstance(s.event, Undone)}
-        if len(log) < self._rows:
-            table.clear()
-            self._rows = 0
-        for s in log[self._rows:]:
-            table.add_row(str(s.seq), s.recorded_at[:19].replace("T", " "), cell(describe(s.event)), "",
-                          key=str(s.seq))
-        for seq in undone:
-            if table.get_cell(str(seq), "undone") != "undone":
-                table.update_cell(str(seq), "undone", "undone")
-        self._rows = len(log)
+        grid.set_rows([
+            (str(s.seq), (str(s.seq), s.recorded_at[:19].replace("T", " "), describe(s.event),
+                          "undone" if s.seq in undone else ""))
+            for s in log
+        ], cursor=len(log) - 1)
         target = undo_target(log)
         self.query_one("#log-status", Label).update(cell(
             f"{len(log)} events · u undoes: {describe(target.event)}" if target else f"{len(log)} events · nothing to undo"))
-        table.move_cursor(row=table.row_count - 1)
 
     def action_undo(self) -> None:
         log, base = self.desk.store.log, self.shown_head

@@ -9,13 +9,15 @@ from __future__ import annotations
 
 from textual.app import ComposeResult
 from textual.binding import Binding
-from textual.widgets import DataTable, Label
+from textual import on
+from textual.widgets import Label
 
 from pairings import actions
 from pairings.errors import InputError
 from pairings.state import EventState, Result, Round, RoundState
 from pairings.tui.base import Place
 from pairings.tui.dialogs import ConfirmDialog
+from pairings.tui.grid import Column, Grid
 from pairings.tui.text import RESULT_WORDS, cell, name, points
 
 RESULT_KEYS: dict[str, Result] = {
@@ -57,11 +59,10 @@ class ResultsPlace(Place):
     def body(self) -> ComposeResult:
         yield Label("", id="open-count", classes="status")
         yield Label("", id="entry", classes="entry")
-        table: DataTable[object] = DataTable(id="games", cursor_type="row", zebra_stripes=True)
-        yield table
+        yield Grid(id="games")
 
     def on_mount(self) -> None:
-        self.query_one("#games", DataTable).focus()
+        self.query_one("#games", Grid).focus()
         self.show_entry()
 
     def round(self) -> Round | None:
@@ -72,10 +73,10 @@ class ResultsPlace(Place):
 
     def show(self, state: EventState) -> None:
         rnd = self.round()
-        table = self.query_one("#games", DataTable)
+        grid = self.query_one("#games", Grid)
         count = self.query_one("#open-count", Label)
         if rnd is None:
-            table.clear(columns=True)
+            grid.set_rows([])
             self._shown = None
             count.update("No round published yet: publish a draft in the Round place (F3).")
             return
@@ -85,23 +86,25 @@ class ResultsPlace(Place):
         shape = (rnd.number, tuple((g.board, g.first, g.second) for g in rnd.games))
         sides = state.settings.sides or ("First", "Second")
         if shape != self._shown:
-            table.clear(columns=True)
-            for label, key in (("Bd", "board"), (sides[0], "first"), ("Pts", "p1"), (sides[1], "second"),
-                               ("Pts", "p2"), ("Result", "result")):
-                table.add_column(cell(label), key=key)
-            for g in rnd.games:
-                table.add_row(
-                    str(g.board), cell(name(state, g.first)), points(state.records[g.first].score_before(rnd.number)),
-                    cell(name(state, g.second)), points(state.records[g.second].score_before(rnd.number)),
-                    result_text(g.result), key=str(g.board),
-                )
+            grid.set_columns([
+                Column("board", "Bd", 4), Column("first", sides[0], flex=True), Column("p1", "Pts", 4),
+                Column("second", sides[1], flex=True), Column("p2", "Pts", 4), Column("result", "Result", 32),
+            ])
+            grid.set_rows([
+                (str(g.board), (
+                    str(g.board), name(state, g.first), points(state.records[g.first].score_before(rnd.number)),
+                    name(state, g.second), points(state.records[g.second].score_before(rnd.number)),
+                    result_text(g.result),
+                ))
+                for g in rnd.games
+            ])
             self._shown = shape
             self.move_to_open(0)
-        else:
-            for g in rnd.games:
-                text = result_text(g.result)
-                if table.get_cell(str(g.board), "result") != text:
-                    table.update_cell(str(g.board), "result", text)
+            return
+        for g in rnd.games:
+            text = result_text(g.result)
+            if grid.cell(str(g.board), "result") != text:
+                grid.update_cell(str(g.board), "result", text)
 
     def show_entry(self) -> None:
         text = f"Board: {self.typed}_" if self.typed else "Board: (the one under the cursor)"
@@ -111,19 +114,18 @@ class ResultsPlace(Place):
     def move_to_open(self, start_index: int) -> None:
         """Put the cursor on the first open board at or after ``start_index`` (wrapping round)."""
         rnd = self.round()
-        table = self.query_one("#games", DataTable)
         if rnd is None or not rnd.games:
             return
         n = len(rnd.games)
         for step in range(n):
             i = (start_index + step) % n
             if rnd.games[i].result is None:
-                table.move_cursor(row=i)
+                self.query_one("#games", Grid).move_to(i)
                 return
 
     def target(self) -> int | None:
         rnd = self.round()
-        table = self.query_one("#games", DataTable)
+        grid = self.query_one("#games", Grid)
         if rnd is None:
             self.notify("no published round", severity="warning")
             return None
@@ -135,9 +137,9 @@ class ResultsPlace(Place):
                 self.notify(f"round {rnd.number} has no board {board} (boards 1-{len(rnd.games)})", severity="error")
                 return None
             return board
-        if not table.row_count:
+        if not grid.row_count:
             return None
-        return rnd.games[table.cursor_row].board
+        return rnd.games[grid.cursor].board
 
     # -- keys ------------------------------------------------------------------------------
 
@@ -157,7 +159,11 @@ class ResultsPlace(Place):
     def action_go(self) -> None:
         board = self.target()
         if board is not None:
-            self.query_one("#games", DataTable).move_cursor(row=board - 1)
+            self.query_one("#games", Grid).move_to(board - 1)
+
+    @on(Grid.Selected, "#games")
+    def enter_pressed(self) -> None:
+        self.action_go()
 
     def action_result(self, code: str) -> None:
         self.enter(self.target(), Result(code))

@@ -8,7 +8,7 @@ from typing import Callable, Sequence
 from textual import on
 from textual.app import ComposeResult
 from textual.binding import Binding
-from textual.widgets import DataTable, Input
+from textual.widgets import Input
 
 from pairings import actions
 from pairings.events import Event
@@ -17,7 +17,8 @@ from pairings.roster import decode, import_roster
 from pairings.state import ByeKind, EventState, Player, PlayerId, Status
 from pairings.tui.base import Action, Place
 from pairings.tui.dialogs import Field, FormDialog
-from pairings.tui.text import cell, points, safe
+from pairings.tui.grid import Column, Grid
+from pairings.tui.text import points, safe
 
 
 PlayerAction = Callable[[EventState, str, int | None, str | None], Sequence[Event]]
@@ -65,38 +66,29 @@ class RosterPlace(Place):
 
     def body(self) -> ComposeResult:
         yield Input(placeholder="/ filter by name (Esc: back to the list)", id="filter", compact=True)
-        table: DataTable[object] = DataTable(id="players", cursor_type="row", zebra_stripes=True)
-        yield table
+        yield Grid(id="players")
 
     def on_mount(self) -> None:
-        table = self.query_one("#players", DataTable)
-        for label, key in (("Id", "id"), ("Name", "name"), ("Rating", "rating"), ("Club", "club"),
-                           ("Score", "score"), ("Status", "status")):
-            table.add_column(label, key=key)
-        table.focus()
+        grid = self.query_one("#players", Grid)
+        grid.set_columns([Column("id", "Id", limit=8), Column("name", "Name", flex=True),
+                          Column("rating", "Rating", 7), Column("club", "Club", limit=20),
+                          Column("score", "Score", 5), Column("status", "Status", limit=24)])
+        grid.focus()
 
     def show(self, state: EventState) -> None:
-        table = self.query_one("#players", DataTable)
         wanted = self.query_one("#filter", Input).value.strip().casefold()
-        keep = table.cursor_row
-        table.clear()
-        for p in state.players.values():
-            if wanted and wanted not in p.name.casefold():
-                continue
-            table.add_row(
-                cell(p.id), cell(p.name), points(p.rating) if p.rating is not None else "unrated",
-                cell(p.club or ""), points(state.score(p.id)), cell(status_words(state, p)), key=p.id,
-            )
-        if table.row_count:
-            table.move_cursor(row=min(keep, table.row_count - 1))
+        self.query_one("#players", Grid).set_rows([
+            (p.id, (p.id, p.name, str(p.rating) if p.rating is not None else "unrated", p.club or "",
+                    points(state.score(p.id)), status_words(state, p)))
+            for p in state.players.values() if not wanted or wanted in p.name.casefold()
+        ])
 
     def selected(self) -> PlayerId | None:
-        table = self.query_one("#players", DataTable)
-        if not table.row_count:
+        key = self.query_one("#players", Grid).cursor_key
+        if key is None:
             self.notify("no player selected", severity="warning")
             return None
-        row_key, _ = table.coordinate_to_cell_key(table.cursor_coordinate)
-        return PlayerId(str(row_key.value))
+        return PlayerId(key)
 
     # -- filter ----------------------------------------------------------------------------
 
@@ -109,10 +101,10 @@ class RosterPlace(Place):
 
     @on(Input.Submitted, "#filter")
     def filter_done(self) -> None:
-        self.query_one("#players", DataTable).focus()
+        self.query_one("#players", Grid).focus()
 
     def key_escape(self) -> None:
-        self.query_one("#players", DataTable).focus()
+        self.query_one("#players", Grid).focus()
 
     # -- forms -----------------------------------------------------------------------------
 

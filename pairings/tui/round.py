@@ -16,7 +16,7 @@ from textual.app import ComposeResult
 from textual.binding import Binding
 from textual.containers import Horizontal, VerticalScroll
 from textual.message import Message
-from textual.widgets import DataTable, Label, LoadingIndicator, Static
+from textual.widgets import Label, LoadingIndicator, Static
 from textual.timer import Timer
 from textual.worker import get_current_worker
 
@@ -27,6 +27,7 @@ from pairings.state import EventState, PlayerId, Round, RoundState
 from pairings.tui import overrides as ov
 from pairings.tui.base import Place
 from pairings.tui.dialogs import ConfirmDialog, Field, FormDialog
+from pairings.tui.grid import Column, Grid
 from pairings.tui.text import cell, describe_round, flag_words, name, open_flags, points, safe, short_result
 from pairings.tui.why import why_lines
 
@@ -34,11 +35,6 @@ WHY_DELAY = 0.25
 """Seconds the cursor rests on a board before the engine is asked why."""
 WIDE = 96
 """From this terminal width on the screen has the ``-wide`` class (desk.tcss), below ``-narrow``."""
-WHY_WIDTH = 28
-WHY_NARROW = 22
-FLAGS_WIDTH = 10
-FIXED_COLUMNS = 3 + 4 + 4 + 3 + FLAGS_WIDTH + 7 * 2 + 1
-"""Board, two scores, result and flags columns, the cell padding and the scroll bar."""
 
 BoardPlan = Callable[[EventState, Round, int], ov.Plan]
 PlayersThen = Callable[[EventState, Round, list[PlayerId]], ov.Plan]
@@ -99,15 +95,14 @@ class RoundPlace(Place):
             yield LoadingIndicator()
             yield Label("", id="busy-text")
         with Horizontal(id="round-main"):
-            table: DataTable[object] = DataTable(id="boards", cursor_type="row", zebra_stripes=True)
-            yield table
+            yield Grid(id="boards")
             with VerticalScroll(id="why"):
                 yield Static("", id="why-text", markup=False)
         yield Label("", id="byes", classes="byes")
 
     def on_mount(self) -> None:
         self.query_one("#busy").display = False
-        self.query_one("#boards", DataTable).focus()
+        self.query_one("#boards", Grid).focus()
 
     # -- showing ---------------------------------------------------------------------------
 
@@ -119,11 +114,11 @@ class RoundPlace(Place):
 
     def show(self, state: EventState) -> None:
         rnd = self.round()
-        table = self.query_one("#boards", DataTable)
+        grid = self.query_one("#boards", Grid)
         status = self.query_one("#round-status", Label)
         byes = self.query_one("#byes", Label)
         if rnd is None:
-            table.clear(columns=True)
+            grid.set_rows([])
             status.update(cell(f"No round drafted yet: press n to draft round 1 ({len(state.players)} players)."))
             byes.update("")
             self.query_one("#why-text", Static).update("")
@@ -136,48 +131,30 @@ class RoundPlace(Place):
         status.update(cell(what))
         shape = (rnd.number, tuple((g.board, g.first, g.second, g.flags, g.result) for g in rnd.games))
         if shape != self._boards:
-            keep = table.cursor_row
-            table.clear(columns=True)
-            wide = self.name_width()
-            table.add_column("Bd", key="board", width=3)
-            table.add_column(cell(sides[0]), key="first", width=wide)
-            table.add_column("Pts", key="p1", width=4)
-            table.add_column(cell(sides[1]), key="second", width=wide)
-            table.add_column("Pts", key="p2", width=4)
-            table.add_column("Res", key="result", width=3)
-            table.add_column("Flags", key="flags", width=FLAGS_WIDTH)
-            for g in rnd.games:
-                rec1, rec2 = state.records[g.first], state.records[g.second]
-                table.add_row(
-                    str(g.board), cell(name(state, g.first)), points(rec1.score_before(rnd.number)),
-                    cell(name(state, g.second)), points(rec2.score_before(rnd.number)),
-                    short_result(g.result), cell(" ".join(g.flags) or "-"), key=str(g.board),
-                )
+            if [c.label for c in grid.columns][1:2] != [sides[0]]:
+                grid.set_columns([
+                    Column("board", "Bd", 3), Column("first", sides[0], flex=True), Column("p1", "Pts", 4),
+                    Column("second", sides[1], flex=True), Column("p2", "Pts", 4), Column("result", "Res", 3),
+                    Column("flags", "Flags", limit=14),
+                ])
+            grid.set_rows([
+                (str(g.board), (
+                    str(g.board), name(state, g.first), points(state.records[g.first].score_before(rnd.number)),
+                    name(state, g.second), points(state.records[g.second].score_before(rnd.number)),
+                    short_result(g.result), " ".join(g.flags) or "-",
+                ))
+                for g in rnd.games
+            ])
             self._boards = shape
-            if table.row_count:
-                table.move_cursor(row=min(keep, table.row_count - 1))
         byes.update(cell("Byes: " + ("; ".join(
             f"{name(state, y.player)} ({y.kind.value}, {points(y.points)})" for y in rnd.byes) or "none")))
         self.explain_selected()
 
-    def name_width(self) -> int:
-        """Name columns share what the other columns and the Why panel leave of the width."""
-        why = WHY_WIDTH if self.size.width >= WIDE else WHY_NARROW
-        return max(8, (self.size.width - why - FIXED_COLUMNS) // 2)
-
-    def on_resize(self) -> None:
-        self._boards = ()
-        if self.shown_head >= 0:
-            self.show(self.state)
-
     def selected_board(self) -> int | None:
-        table = self.query_one("#boards", DataTable)
-        if not table.row_count:
-            return None
-        row_key, _ = table.coordinate_to_cell_key(table.cursor_coordinate)
-        return int(str(row_key.value))
+        key = self.query_one("#boards", Grid).cursor_key
+        return int(key) if key is not None else None
 
-    @on(DataTable.RowHighlighted, "#boards")
+    @on(Grid.Highlighted, "#boards")
     def board_highlighted(self) -> None:
         self.explain_selected()
 

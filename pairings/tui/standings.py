@@ -8,12 +8,13 @@ from typing import TYPE_CHECKING
 from textual import on, work
 from textual.app import ComposeResult
 from textual.message import Message
-from textual.widgets import DataTable, Label
+from textual.widgets import Label
 from textual.worker import get_current_worker
 
 from pairings.errors import InputError
 from pairings.state import EventState
 from pairings.tui.base import Place
+from pairings.tui.grid import Column, Grid
 from pairings.tui.text import cell, points
 
 if TYPE_CHECKING:  # standings loads in the worker
@@ -32,11 +33,10 @@ class StandingsPlace(Place):
 
     def body(self) -> ComposeResult:
         yield Label("", id="standings-status", classes="status")
-        table: DataTable[object] = DataTable(id="standings", cursor_type="row", zebra_stripes=True)
-        yield table
+        yield Grid(id="standings")
 
     def on_mount(self) -> None:
-        self.query_one("#standings", DataTable).focus()
+        self.query_one("#standings", Grid).focus()
 
     def show(self, state: EventState) -> None:
         self.query_one("#standings-status", Label).update("working out the standings …")
@@ -60,23 +60,20 @@ class StandingsPlace(Place):
         from pairings.standings import TIEBREAKS, UNPLAYED_LABELS
 
         status = self.query_one("#standings-status", Label)
-        table = self.query_one("#standings", DataTable)
-        table.clear(columns=True)
+        grid = self.query_one("#standings", Grid)
         st = message.table
         if st is None:
+            grid.set_rows([])
             status.update(cell(message.problem))
             return
         note = "provisional: results still open" if st.provisional else "final for this round"
         status.update(cell(f"After round {st.after_round} ({note}); {UNPLAYED_LABELS[st.unplayed]}"))
-        table.add_column("Rank", key="rank")
-        table.add_column("Name", key="name")
-        table.add_column("Points", key="points")
-        for key in st.tiebreaks:
-            table.add_column(cell(TIEBREAKS[key].short), key=key)
-        table.add_column("Status", key="status")
-        for row in st.rows:
-            table.add_row(
-                str(row.rank), cell(row.name), points(row.points),
-                *(f"{row.tiebreaks[k]:g}" for k in st.tiebreaks),
-                "withdrawn" if row.withdrawn else "", key=row.player,
-            )
+        grid.set_columns([Column("rank", "Rank", limit=9), Column("name", "Name", flex=True),
+                          Column("points", "Points", 6)]
+                         + [Column(key, TIEBREAKS[key].short, limit=8) for key in st.tiebreaks]
+                         + [Column("status", "Status", 9)])
+        grid.set_rows([
+            (row.player, (str(row.rank), row.name, points(row.points), *(f"{row.tiebreaks[k]:g}" for k in st.tiebreaks),
+                          "withdrawn" if row.withdrawn else ""))
+            for row in st.rows
+        ])

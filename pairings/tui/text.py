@@ -30,7 +30,7 @@ def safe(value: object) -> str:
 
 
 def cell(value: object) -> Text:
-    """A table cell or label that is never read as markup."""
+    """A label that is never read as markup."""
     return Text(safe(value), no_wrap=True, overflow="ellipsis")
 
 

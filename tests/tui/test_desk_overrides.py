@@ -161,7 +161,7 @@ def test_names_with_escape_sequences_are_shown_cleaned(tmp_path: Path) -> None:
         async with app.run_test(size=(100, 32)) as pilot:
             await settle(app, pilot)
             table = app.screen.query_one("#players")
-            shown = str(table.get_cell("p1", "name"))
+            shown = table.cell("p1", "name")
             assert shown == "Mallory Red"
             assert all(ord(c) >= 32 for c in shown)
 
