@@ -428,6 +428,10 @@ def main(argv: Sequence[str] | None = None) -> int:
     except PairingsError as exc:
         print(f"pairings: {one_line(str(exc))}", file=sys.stderr)
         return 2
+    except OSError as exc:  # a folder or output file the system refuses; the event file is untouched
+        where = f"{exc.filename}: " if exc.filename else ""
+        print(f"pairings: {one_line(where + (exc.strerror or str(exc)))}", file=sys.stderr)
+        return 2
     except KeyboardInterrupt:
         print("pairings: interrupted; nothing half-written is kept", file=sys.stderr)
         return 130

@@ -29,6 +29,7 @@ from pairings.state import (
     RoundEntry,
     RoundState,
     Scoring,
+    Side,
     Settings,
     Status,
 )
@@ -135,8 +136,16 @@ class _RoundBuilder:
     source: str
     notes: tuple[str, ...]
     published: bool
+    frozen: Round | None = None
+    """The last frozen form, kept until the round changes (so unchanged rounds are the same object)."""
+
+    def changed(self) -> "_RoundBuilder":
+        self.frozen = None
+        return self
 
     def freeze(self) -> Round:
+        if self.frozen is not None:
+            return self.frozen
         games = tuple(self.games[k] for k in sorted(self.games))
         if not self.published:
             state = RoundState.DRAFT
@@ -144,11 +153,12 @@ class _RoundBuilder:
             state = RoundState.COMPLETE
         else:
             state = RoundState.PUBLISHED
-        return Round(
+        self.frozen = Round(
             number=self.number, state=state, games=games, byes=self.byes,
-            cost=MappingProxyType(self.cost), engine_version=self.engine_version,
+            cost=MappingProxyType(dict(self.cost)), engine_version=self.engine_version,
             source=self.source, notes=self.notes,
         )
+        return self.frozen
 
 
 @_apply.register
@@ -183,80 +193,130 @@ def _(e: ev.DraftDiscarded, b: _Builder) -> None:
 
 @_apply.register
 def _(e: ev.RoundPublished, b: _Builder) -> None:
-    b.rounds[e.round - 1].published = True
+    b.rounds[e.round - 1].changed().published = True
 
 
 @_apply.register
 def _(e: ev.RoundUnpublished, b: _Builder) -> None:
-    r = b.rounds[e.round - 1]
+    r = b.rounds[e.round - 1].changed()
     r.published = False
     r.notes = r.notes + (e.reason,)
 
 
 @_apply.register
 def _(e: ev.ResultRecorded, b: _Builder) -> None:
-    games = b.rounds[e.round - 1].games
+    games = b.rounds[e.round - 1].changed().games
     games[e.board] = replace(games[e.board], result=e.result)
 
 
-def _records(settings: Settings, players: dict[PlayerId, Player], rounds: tuple[Round, ...]) -> dict[PlayerId, PlayerRecord]:
-    """Each player's round-by-round history over the published and complete rounds."""
-    entries: dict[PlayerId, list[RoundEntry]] = {pid: [] for pid in players}
-    score: dict[PlayerId, float] = {pid: 0.0 for pid in players}
-    scoring = settings.scoring
-    for rnd in rounds:
-        if rnd.state is RoundState.DRAFT:
-            continue
-        before = dict(score)
-        for g in rnd.games:
-            for pid, side in ((g.first, g.side_of(g.first)), (g.second, g.side_of(g.second))):
-                opp = g.opponent_of(pid)
-                mine, theirs = before.get(pid, 0.0), before.get(opp, 0.0)
-                fl = Float.DOWN if mine > theirs else Float.UP if mine < theirs else None
-                pts = scoring.points(g.result.outcome(side)) if g.result is not None else None
-                entries.setdefault(pid, []).append(
-                    RoundEntry(
-                        round=rnd.number, opponent=opp, side=side, result=g.result, bye=None,
-                        points=pts, played=g.result is not None and g.result.played,
-                        score_before=mine, float=fl,
-                    )
-                )
-                if pts is not None:
-                    score[pid] = score.get(pid, 0.0) + pts
-        for bye in rnd.byes:
-            entries.setdefault(bye.player, []).append(
-                RoundEntry(
-                    round=rnd.number, opponent=None, side=None, result=None, bye=bye.kind,
-                    points=bye.points, played=False, score_before=before.get(bye.player, 0.0),
-                    float=Float.DOWN if bye.kind is ByeKind.PAIRING else None,
-                )
+@dataclass(frozen=True)
+class _Played:
+    """One counted round's entries and the scores after it (reused while the rounds before it stay)."""
+
+    round: Round
+    entries: dict[PlayerId, RoundEntry]
+    score_after: dict[PlayerId, float]
+
+
+def _round_entries(scoring: Scoring, rnd: Round, before: dict[PlayerId, float]) -> _Played:
+    entries: dict[PlayerId, RoundEntry] = {}
+    score = dict(before)
+    for g in rnd.games:
+        for pid, opp, side in ((g.first, g.second, Side.FIRST), (g.second, g.first, Side.SECOND)):
+            mine, theirs = before.get(pid, 0.0), before.get(opp, 0.0)
+            fl = Float.DOWN if mine > theirs else Float.UP if mine < theirs else None
+            pts = scoring.points(g.result.outcome(side)) if g.result is not None else None
+            entries[pid] = RoundEntry(
+                round=rnd.number, opponent=opp, side=side, result=g.result, bye=None,
+                points=pts, played=g.result is not None and g.result.played, score_before=mine, float=fl,
             )
-            score[bye.player] = score.get(bye.player, 0.0) + bye.points
+            if pts is not None:
+                score[pid] = mine + pts
+    for bye in rnd.byes:
+        mine = before.get(bye.player, 0.0)
+        entries[bye.player] = RoundEntry(
+            round=rnd.number, opponent=None, side=None, result=None, bye=bye.kind, points=bye.points,
+            played=False, score_before=mine, float=Float.DOWN if bye.kind is ByeKind.PAIRING else None,
+        )
+        score[bye.player] = mine + bye.points
+    return _Played(rnd, entries, score)
+
+
+def _records(
+    settings: Settings, players: dict[PlayerId, Player], rounds: tuple[Round, ...], cache: list[_Played]
+) -> dict[PlayerId, PlayerRecord]:
+    """Each player's round-by-round history over the published and complete rounds.
+
+    ``cache`` holds the previous call's counted rounds: a round is recomputed only
+    when it, or a round before it, is a different object (frozen rounds are reused
+    by the builder until they change).
+    """
+    counted = [r for r in rounds if r.state is not RoundState.DRAFT]
+    keep = 0
+    while keep < min(len(cache), len(counted)) and cache[keep].round is counted[keep]:
+        keep += 1
+    del cache[keep:]
+    for rnd in counted[keep:]:
+        cache.append(_round_entries(settings.scoring, rnd, cache[-1].score_after if cache else {}))
+    final = cache[-1].score_after if cache else {}
     return {
-        pid: PlayerRecord(player=pid, entries=tuple(entries.get(pid, ())), score=score.get(pid, 0.0))
+        pid: PlayerRecord(
+            player=pid,
+            entries=tuple(p.entries[pid] for p in cache if pid in p.entries),
+            score=final.get(pid, 0.0),
+        )
         for pid in players
     }
 
 
+class Folder:
+    """An incremental fold: new events are applied to the builder kept from the last call.
+
+    An undo changes what earlier events mean, so a batch holding one refolds
+    the whole log; anything else costs only the new events plus one freeze.
+    """
+
+    def __init__(self) -> None:
+        self._items: list[tuple[int, ev.Event]] = []
+        self._builder = _Builder()
+        self._played: list[_Played] = []
+
+    def extend(self, log: Iterable[tuple[int, ev.Event]]) -> "Folder":
+        items = list(log)
+        self._items.extend(items)
+        if any(isinstance(e, ev.Undone) for _, e in items):
+            undone = {e.target for _, e in self._items if isinstance(e, ev.Undone)}
+            self._builder = _Builder()
+            self._played = []
+            self._apply_all(self._items, undone)
+        else:
+            self._apply_all(items, set())
+        return self
+
+    def _apply_all(self, items: list[tuple[int, ev.Event]], undone: set[int]) -> None:
+        b = self._builder
+        for seq, event in items:
+            b.head = seq
+            if seq in undone or isinstance(event, ev.Undone):
+                continue
+            _apply(event, b)
+
+    def state(self) -> EventState:
+        b = self._builder
+        if b.settings is None:
+            raise ValueError("the log holds no event-created record")
+        rounds = tuple(r.freeze() for r in b.rounds)
+        return EventState(
+            settings=b.settings,
+            players=MappingProxyType(dict(b.players)),
+            rounds=rounds,
+            forbidden=tuple(b.forbidden),
+            requests=MappingProxyType({k: MappingProxyType(dict(v)) for k, v in b.requests.items()}),
+            records=MappingProxyType(_records(b.settings, b.players, rounds, self._played)),
+            head=b.head,
+        )
+
+
 def fold(log: Iterable[tuple[int, ev.Event]]) -> EventState:
     """Fold ``(sequence number, event)`` pairs, oldest first, into the event's state."""
-    items = list(log)
-    undone = {e.target for _, e in items if isinstance(e, ev.Undone)}
-    b = _Builder()
-    for seq, event in items:
-        b.head = seq
-        if seq in undone or isinstance(event, ev.Undone):
-            continue
-        _apply(event, b)
-    if b.settings is None:
-        raise ValueError("the log holds no event-created record")
-    rounds = tuple(r.freeze() for r in b.rounds)
-    return EventState(
-        settings=b.settings,
-        players=MappingProxyType(dict(b.players)),
-        rounds=rounds,
-        forbidden=tuple(b.forbidden),
-        requests=MappingProxyType({k: MappingProxyType(dict(v)) for k, v in b.requests.items()}),
-        records=MappingProxyType(_records(b.settings, b.players, rounds)),
-        head=b.head,
-    )
+    return Folder().extend(log).state()

@@ -91,18 +91,18 @@ class Result(StrEnum):
         return self in (Result.FIRST_WINS, Result.SECOND_WINS, Result.DRAW)
 
     def outcome(self, side: Side) -> str:
-        """``"win"``, ``"draw"`` or ``"loss"`` for the player on ``side``."""
-        first = {
-            Result.FIRST_WINS: "win",
-            Result.SECOND_WINS: "loss",
-            Result.DRAW: "draw",
-            Result.FIRST_WINS_BY_FORFEIT: "win",
-            Result.SECOND_WINS_BY_FORFEIT: "loss",
-            Result.DOUBLE_FORFEIT: "loss",
-        }[self]
-        if side is Side.FIRST or self is Result.DOUBLE_FORFEIT:
-            return first
-        return {"win": "loss", "loss": "win", "draw": "draw"}[first]
+        """``"win"``, ``"draw"`` or ``"loss"`` for the player on ``side`` (a double forfeit loses both)."""
+        return _OUTCOMES[self, side]
+
+
+_OUTCOMES: dict[tuple[Result, "Side"], str] = {}
+for _result, _first, _second in (
+    (Result.FIRST_WINS, "win", "loss"), (Result.SECOND_WINS, "loss", "win"), (Result.DRAW, "draw", "draw"),
+    (Result.FIRST_WINS_BY_FORFEIT, "win", "loss"), (Result.SECOND_WINS_BY_FORFEIT, "loss", "win"),
+    (Result.DOUBLE_FORFEIT, "loss", "loss"),
+):
+    _OUTCOMES[_result, Side.FIRST] = _first
+    _OUTCOMES[_result, Side.SECOND] = _second
 
 
 @dataclass(frozen=True, slots=True)

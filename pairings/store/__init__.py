@@ -13,7 +13,7 @@ from typing import Callable, Sequence
 
 from pairings.errors import InputError
 from pairings.events import Event, EventCreated, Undone
-from pairings.fold import fold
+from pairings.fold import Folder, fold
 from pairings.state import EventState
 from pairings.store.recorder import ChainReport, Recorder, StoredEvent
 
@@ -40,6 +40,7 @@ class EventStore:
     def __init__(self, recorder: Recorder) -> None:
         self._recorder = recorder
         self._log: list[StoredEvent] = []
+        self._folder = Folder()
         self._state: EventState | None = None
 
     @property
@@ -100,7 +101,7 @@ class EventStore:
                 raise InputError(f"{self.path}: the log does not start with the event's creation")
         if new or self._state is None:
             self._log.extend(new)
-            self._state = fold((s.seq, s.event) for s in self._log)
+            self._state = self._folder.extend((s.seq, s.event) for s in new).state()
         return self._state
 
     @property
