@@ -25,10 +25,15 @@ pruned, so only score groups at most ``D`` apart are ever enumerated.
 from __future__ import annotations
 
 from bisect import bisect_right
+from dataclasses import dataclass
 from typing import Collection, Iterator, Sequence
 
-from pairings.engine import solver, weights
+import numpy as np
+from numpy.typing import NDArray
+
+from pairings.engine import blossom, certificate, solver, weights
 from pairings.engine.criteria import Cost, Field
+from pairings.engine.vector import WIDTH, Arrays, IntArray
 from pairings.errors import NoPairingError
 from pairings.state import PlayerId
 
@@ -37,6 +42,17 @@ Sided = tuple[Pair | None, Pair]
 HARD = 3
 """Cost tuple positions 0..2 are the hard-rule relaxations (H1, H3, H2)."""
 GREEDY_WINDOW = 24
+RANK_INDEX = 10
+"""Position of ``rank_order`` in a cost tuple."""
+CHUNK = 512
+"""Rows of players costed at once (bounds the arrays' memory)."""
+SPARSE_WINDOW = 3
+"""Start the sparse graph with the pairs at most this far from the rank-order ideal."""
+SPARSE_ROUNDS = 8
+SPARSE_BEST = 3
+"""... and each player's three heaviest edges."""
+SPARSE_ADD = 2
+"""Violated edges added per player and round (the most violated first)."""
 
 
 class Graph:
@@ -127,34 +143,154 @@ def greedy(fld: Field, players: Sequence[PlayerId], no_bye: Collection[PlayerId]
     return out
 
 
-def pruned_graph(fld: Field, players: Sequence[PlayerId], no_bye: Collection[PlayerId]) -> Graph:
-    """The full graph less the edges that cannot be in any optimum (module Notes)."""
+@dataclass(frozen=True)
+class Pruned:
+    """The pruned graph as arrays: row ``k`` joins ``u[k]`` and ``v[k]`` (``v = n - 1``: the bye)."""
+
+    n: int
+    u: IntArray
+    v: IntArray
+    costs: IntArray
+
+
+def _index_pairs(units: IntArray, max_gap: int | None, rows: range) -> tuple[IntArray, IntArray]:
+    """Index pairs ``i < j`` with ``i`` in ``rows``, at most ``max_gap`` units apart (None: any)."""
+    n = len(units)
+    first = np.arange(rows.start, rows.stop, dtype=np.int64)
+    # units are non-increasing (rank order), so the partners of i within the gap are a prefix.
+    ends = np.full(len(first), n, dtype=np.int64) if max_gap is None else \
+        np.searchsorted(-units, max_gap - units[first], side="right").astype(np.int64)
+    counts = np.maximum(ends - first - 1, 0)
+    i = np.repeat(first, counts)
+    offsets = np.arange(int(counts.sum()), dtype=np.int64) - np.repeat(np.cumsum(counts) - counts, counts)
+    return i, i + 1 + offsets
+
+
+def _not_above(rows: IntArray, bound: Sequence[int], levels: int) -> NDArray[np.bool_]:
+    """Rows whose expanded cost (:meth:`weights.Encoder.expand`) is lexicographically <= ``bound``."""
+    gap = rows[:, weights.GAP_INDEX]
+    columns = [rows[:, k] for k in range(weights.GAP_INDEX)] \
+        + [(gap == d).astype(np.int64) for d in range(levels, 0, -1)] \
+        + [rows[:, k] for k in range(weights.GAP_INDEX + 1, rows.shape[1])]
+    keep = np.ones(len(rows), dtype=bool)
+    open_ = np.ones(len(rows), dtype=bool)
+    for k, (col, b) in enumerate(zip(columns, bound)):
+        if k == weights.GAP_INDEX:  # one pair above every level F uses, with equal hard-rule counts
+            keep &= ~(open_ & (gap > levels))
+            open_ &= gap <= levels
+        keep &= ~(open_ & (col > b))
+        open_ &= col == b
+    return keep
+
+
+def pruned_edges(fld: Field, players: Sequence[PlayerId], no_bye: Collection[PlayerId]) -> Pruned | None:
+    """The full graph less the edges that cannot be in any optimum (module Notes), as arrays.
+
+    None when no greedy pairing is found (the caller then uses the full graph).
+    """
     feasible = greedy(fld, players, no_bye)
     if feasible is None:
-        return full_graph(fld, players, no_bye)
+        return None
     enc = weights.encoder(feasible, len(players) + 1)
     bound = tuple(sum(col) for col in zip(*(enc.expand(c) for c in feasible)))
     hard_free = not any(bound[:HARD])
     max_gap = max(c[weights.GAP_INDEX] for c in feasible) if hard_free else None
-    g = Graph(fld, players, no_bye)
+    arrays = Arrays(fld, players)
+    us, vs, cs = [], [], []
+    for lo in range(0, len(players), CHUNK):
+        i, j = _index_pairs(arrays.units, max_gap, range(lo, min(lo + CHUNK, len(players))))
+        ok = arrays.allowed(i, j)
+        i, j = i[ok], j[ok]
+        rows = arrays.costs(i, j)
+        keep = _not_above(rows, bound, enc.levels)
+        us.append(i[keep])
+        vs.append(j[keep])
+        cs.append(rows[keep])
+    n = len(players)
+    if n % 2:
+        byes = [(k, fld.bye(p)) for k, p in enumerate(players) if p not in no_bye]
+        rows = np.array([c for _, c in byes], dtype=np.int64).reshape(-1, WIDTH)
+        keep = _not_above(rows, bound, enc.levels)
+        us.append(np.array([k for k, _ in byes], dtype=np.int64)[keep])
+        vs.append(np.full(int(keep.sum()), n, dtype=np.int64))
+        cs.append(rows[keep])
+    return Pruned(n + n % 2, np.concatenate(us), np.concatenate(vs), np.concatenate(cs))
 
-    def keep(cost: Cost) -> bool:
-        if cost[:HARD] != bound[:HARD]:
-            return cost[:HARD] < bound[:HARD]
-        if cost[weights.GAP_INDEX] > enc.levels:
-            return False  # one pair above every level F uses, with equal hard-rule counts
-        return enc.expand(cost) <= bound
 
-    for i, j in _pairs(fld, players, max_gap):
-        sides, cost = fld.pair(players[i], players[j])
-        if keep(cost):
-            g.edges.append((i, j))
-            g.costs.append(cost)
-            g.sides.append(sides)
-    for i in range(len(players)):
-        if g.bye_allowed(i) and keep(fld.bye(players[i])):
-            g.add(i, g.bye_vertex)
-    return g
+@dataclass(frozen=True)
+class Route:
+    """How the engine's matching was found (for tests and the benchmark)."""
+
+    certified: bool
+    """True: sparse subgraph plus a dual certificate on every pruned edge; False: the fallback."""
+    rounds: int
+    """Sparse solves made."""
+    sparse_edges: int
+
+
+def _best_per_vertex(u: IntArray, v: IntArray, score: NDArray[np.generic], among: NDArray[np.bool_],
+                     k: int) -> NDArray[np.bool_]:
+    """Edges of ``among`` that are among the ``k`` highest-``score`` edges at one of their ends."""
+    idx = np.flatnonzero(among)
+    order = idx[np.argsort(-score[idx], kind="stable")]
+    ends = np.concatenate([u[order], v[order]])
+    edge = np.concatenate([order, order])
+    pos = np.tile(np.arange(len(order)), 2)
+    s = np.lexsort((pos, ends))
+    ends = ends[s]
+    place = np.arange(len(s)) - np.searchsorted(ends, ends, side="left")
+    out = np.zeros(len(u), dtype=bool)
+    out[edge[s][place < k]] = True
+    return out
+
+
+def certified_matching(n: int, u: IntArray, v: IntArray, w: NDArray[np.generic], rank: IntArray,
+                       window: int = SPARSE_WINDOW, rounds: int = SPARSE_ROUNDS
+                       ) -> tuple[list[tuple[int, int]], Route]:
+    """A maximum-weight perfect matching of the edges ``(u, v, w)``, certified when possible.
+
+    Start from the edges with ``rank <= window`` (each player's partners
+    around the rank-order ideal, and every bye edge); solve them (compiled
+    solver, then :func:`blossom.perfect_matching` warm-started from its
+    answer, for the dual); certify on every edge (:mod:`certificate`); add the
+    edges with negative reduced cost (or, when the subgraph has no perfect
+    matching, widen the window) and repeat. After ``rounds`` solves, the
+    compiled solver runs on all edges (still exact, only slower).
+    """
+    mask = (rank <= window) | _best_per_vertex(u, v, w, np.ones(len(u), dtype=bool), SPARSE_BEST)
+    wlist = w.tolist()
+    for attempt in range(1, rounds + 1):
+        idx = np.flatnonzero(mask)
+        sub = list(zip(u[idx].tolist(), v[idx].tolist(), [wlist[k] for k in idx.tolist()]))
+        found = solver.matching(n, sub)
+        if 2 * len(found) < n:
+            window *= 4
+            mask |= rank <= window
+            continue
+        where = {(a, b): k for k, (a, b, _) in enumerate(sub)}
+        result = blossom.perfect_matching(n, sub, [where[p] for p in found])
+        if result is None:  # cannot happen after a perfect matching was found; stay exact anyway
+            break
+        pairs, dual = result
+        rc = certificate.reduced_costs(u, v, w, dual)
+        bad = rc < 0
+        if not bad.any() and certificate.certify(n, u, v, w, pairs, dual):
+            return pairs, Route(True, attempt, len(idx))
+        mask |= _best_per_vertex(u, v, -rc, bad, SPARSE_ADD)
+    edges = list(zip(u.tolist(), v.tolist(), wlist))
+    return solver.matching(n, edges), Route(False, rounds, len(u))
+
+
+def engine_matching(fld: Field, players: Sequence[PlayerId], no_bye: Collection[PlayerId]
+                    ) -> tuple[Graph | Pruned, list[tuple[int, int]], Route | None]:
+    """The engine's path: pruned arrays and the certified sparse solve (full graph if no greedy)."""
+    pr = pruned_edges(fld, players, no_bye)
+    if pr is None:
+        g = full_graph(fld, players, no_bye)
+        return g, solve(g, False), None
+    w = weights.weight_array(pr.costs, pr.n)
+    pairs, route = certified_matching(pr.n, pr.u, pr.v, w, pr.costs[:, RANK_INDEX])
+    return pr, pairs, route
 
 
 def solve(g: Graph, reference: bool) -> list[tuple[int, int]]:
@@ -178,17 +314,24 @@ def optimal_pairs(fld: Field, players: Sequence[PlayerId], no_bye: Collection[Pl
     """
     if not players:
         return [], None
-    g = full_graph(fld, players, no_bye) if reference else pruned_graph(fld, players, no_bye)
-    real = [c for (i, j), c in zip(g.edges, g.costs) if j != g.bye_vertex]
-    if len(players) > 1 and real and all(c[0] for c in real):
+    if reference:
+        g: Graph | Pruned = full_graph(fld, players, no_bye)
+        assert isinstance(g, Graph)
+        real = [c[0] for (i, j), c in zip(g.edges, g.costs) if j != g.bye_vertex]
+        matched = solve(g, True)
+    else:
+        g, matched, _ = engine_matching(fld, players, no_bye)
+        if isinstance(g, Graph):
+            real = [c[0] for (i, j), c in zip(g.edges, g.costs) if j != g.bye_vertex]
+        else:
+            real = g.costs[g.v != len(players), 0].tolist()
+    if len(players) > 1 and real and all(real):
         raise NoPairingError(
             f"round {fld.round}: every player to pair has already met every other "
             f"(max meetings {fld.max_meetings}); no Swiss round can be paired"
         )
-    matched = solve(g, reference)
-    index = {(i, j): k for k, (i, j) in enumerate(g.edges)}
     covered = {v for e in matched for v in e}
-    missing = [g.players[i] for i in range(len(g.players)) if i not in covered]
+    missing = [players[i] for i in range(len(players)) if i not in covered]
     if missing:
         names = ", ".join(fld.state.players[p].name for p in missing)
         raise NoPairingError(
@@ -198,8 +341,9 @@ def optimal_pairs(fld: Field, players: Sequence[PlayerId], no_bye: Collection[Pl
     out: list[Sided] = []
     bye: PlayerId | None = None
     for i, j in matched:
-        if j == g.bye_vertex:
-            bye = g.players[i]
+        if j == len(players):
+            bye = players[i]
         else:
-            out.append((g.sides[index[(i, j)]], (g.players[i], g.players[j])))
+            p, q = players[i], players[j]
+            out.append((fld.pair(p, q)[0], (p, q)))
     return out, bye

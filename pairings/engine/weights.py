@@ -36,7 +36,10 @@ path checks that they fit its integer type before it is used.
 from __future__ import annotations
 
 from dataclasses import dataclass
-from typing import Sequence
+from typing import Collection, Sequence
+
+import numpy as np
+from numpy.typing import NDArray
 
 from pairings.engine.criteria import Cost
 
@@ -82,14 +85,40 @@ def encoder(costs: Sequence[Cost], vertices: int) -> Encoder:
     if not costs:
         return Encoder(0, (), 1)
     columns = [max(col) for col in zip(*costs)]
+    enc = from_maxima(columns, {c[GAP_INDEX] for c in costs}, vertices)
+    return Encoder(enc.levels, enc.place, 1 + max(enc.cost(c) for c in costs))
+
+
+def from_maxima(columns: Sequence[int], gaps: Collection[int], vertices: int) -> Encoder:
+    """Place values from each criterion's largest value and the gaps present (``top`` left 0)."""
     levels = columns[GAP_INDEX]
-    gaps = {c[GAP_INDEX] for c in costs}
-    maxima = columns[:GAP_INDEX] + [1 if d in gaps else 0 for d in range(levels, 0, -1)] \
-        + columns[GAP_INDEX + 1:]
+    maxima = list(columns[:GAP_INDEX]) + [1 if d in gaps else 0 for d in range(levels, 0, -1)] \
+        + list(columns[GAP_INDEX + 1:])
     pairs = vertices // 2
     place = [1] * len(maxima)
     for k in range(len(maxima) - 2, -1, -1):
         place[k] = place[k + 1] * (pairs * maxima[k + 1] + 1)
-    enc = Encoder(levels, tuple(place), 0)
-    top = 1 + max(enc.cost(c) for c in costs)
-    return Encoder(levels, tuple(place), top)
+    return Encoder(levels, tuple(place), 0)
+
+
+def weight_array(costs: NDArray[np.int64], vertices: int) -> NDArray[np.generic]:
+    """:meth:`Encoder.weight` of every row of ``costs`` under :func:`encoder` of those rows.
+
+    Exact: ``int64`` when the largest weight fits, Python integers otherwise.
+    """
+    if len(costs) == 0:
+        return np.zeros(0, dtype=np.int64)
+    gap = costs[:, GAP_INDEX]
+    enc = from_maxima([int(x) for x in costs.max(axis=0)], set(np.unique(gap).tolist()), vertices)
+    levels = enc.levels
+    col_place = list(enc.place[:GAP_INDEX]) + list(enc.place[GAP_INDEX + levels:])
+    gap_place = [0] + [enc.place[GAP_INDEX + levels - d] for d in range(1, levels + 1)]
+    cols = [k for k in range(costs.shape[1]) if k != GAP_INDEX]
+    used = [(p, k) for p, k in zip(col_place, cols) if costs[:, k].any()]
+    bound = sum(p * int(costs[:, k].max()) for p, k in used) + max(gap_place)
+    dtype = np.int64 if 2 * bound + 2 < 2**62 else object
+    total = np.array(gap_place, dtype=dtype)[gap]
+    for p, k in used:
+        total = total + costs[:, k].astype(dtype) * p
+    top = 1 + max(total.tolist())
+    return top - total
