@@ -3,10 +3,11 @@
 from __future__ import annotations
 
 from dataclasses import dataclass
-from typing import TYPE_CHECKING
+from typing import TYPE_CHECKING, ClassVar
 
 from textual import on, work
 from textual.app import ComposeResult
+from textual.binding import BindingType
 from textual.message import Message
 from textual.widgets import Label
 from textual.worker import get_current_worker
@@ -23,7 +24,7 @@ if TYPE_CHECKING:  # standings loads in the worker
 
 class StandingsPlace(Place):
     TITLE = "Standings"
-    BINDINGS: list[object] = []
+    BINDINGS: ClassVar[list[BindingType]] = []
 
     @dataclass
     class Computed(Message):

@@ -21,7 +21,10 @@ _CONTROL = re.compile(r"\x1b\[[0-?]*[ -/]*[@-~]|\x1b\][^\x07\x1b]*(?:\x07|\x1b\\
 
 def safe(value: object) -> str:
     """``value`` as one line of text with no escape sequence or control character left."""
-    text = _CONTROL.sub("", str(value))
+    text = str(value)
+    if text.isprintable():  # the common case: no control, format or separator character but spaces
+        return text
+    text = _CONTROL.sub("", text)
     return "".join(
         " " if c in "\t\n\r" else c
         for c in text

@@ -22,9 +22,9 @@ def why_lines(state: EventState, board: int) -> list[str]:
     x = engine.explain(state, actions.draft_of(state), board)
     lines = [named(state, r) for r in x.reasons if not r.startswith("flag: ")]
     if x.alternative is None or x.delta is None:
-        lines.append("no other pairing of this round leaves this board out" if "pinned" not in
-                     (state.last_round.game_on(board).flags if state.last_round and state.last_round.game_on(board)
-                      else ()) else "pinned: no alternative is worked out")
+        pinned = "pinned" in next((b.flags for b in actions.draft_of(state).boards if b.board == board), ())
+        lines.append("pinned: no alternative is worked out" if pinned
+                     else "no other pairing of this round leaves this board out")
         return lines
     first = state.players[x.first].name
     second = state.players[x.second].name
