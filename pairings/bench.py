@@ -7,7 +7,11 @@ folds it, drafts the next round with the engine and, up to
 ``--reference-limit`` players, with the reference solver (networkx on the full
 candidate graph) on the same weights. It prints one Markdown table row per
 size: draft time, peak memory (tracemalloc, a second run), the ratio
-reference/engine, and asserts that the two cost vectors are equal.
+reference/engine, how the engine's matching was found (``certified in k``:
+sparse solves until the dual certificate held on every pruned edge;
+``fallback``: the compiled solver on every pruned edge), and asserts that the
+two cost vectors are equal. ``--fold N`` also times folding a whole
+``--rounds``-round log of ``N`` players (:func:`pairings.fold.fold`).
 """
 
 from __future__ import annotations
@@ -18,6 +22,8 @@ import tracemalloc
 from typing import Callable, TypeVar
 
 from pairings.engine import draft_round
+from pairings.engine import candidates
+from pairings.engine.criteria import Field
 from pairings.engine.solver import fast_available
 from pairings.fold import fold
 from pairings.simulate import simulate_events
@@ -46,6 +52,11 @@ def bench_one(n: int, rounds: int, played: int, seed: int, reference_limit: int)
     state: EventState
     state, fold_s = _timed(lambda: fold(enumerate(log, 1)))
     draft, engine_s = _timed(lambda: draft_round(state))
+    rnd = state.next_round_number
+    fld = Field(state, rnd, state.available(rnd))  # the same field, again, for the route taken
+    _, _, route = candidates.engine_matching(fld, list(fld.order), ())
+    how = "full graph" if route is None else \
+        f"certified in {route.rounds}, {route.sparse_edges:,} edges" if route.certified else "fallback"
     peak = _peak_mb(lambda: draft_round(state))
     ref_cell, ratio_cell = "-", "-"
     if n <= reference_limit:
@@ -54,25 +65,35 @@ def bench_one(n: int, rounds: int, played: int, seed: int, reference_limit: int)
         ref_cell, ratio_cell = f"{ref_s:.2f}", f"{ref_s / engine_s:.1f}"
     cost = ", ".join(f"{k} {v}" for k, v in draft.cost.items() if v)
     return (f"| {n:,} | {played + 1} of {rounds} | {fold_s:.2f} | {engine_s:.2f} | {peak:.0f} | "
-            f"{ref_cell} | {ratio_cell} | {cost} |")
+            f"{ref_cell} | {ratio_cell} | {how} | {cost} |")
+
+
+def bench_fold(n: int, rounds: int, seed: int) -> str:
+    """Time folding a log of ``n`` players and ``rounds`` complete rounds."""
+    log = simulate_events(n, rounds, rounds, seed)
+    _, fold_s = _timed(lambda: fold(enumerate(log, 1)))
+    return f"fold: {n:,} players, {rounds} rounds, {len(log):,} events: {fold_s:.2f} s"
 
 
 def main(argv: list[str] | None = None) -> None:
     parser = argparse.ArgumentParser(prog="python -m pairings.bench", description=__doc__.splitlines()[0])
-    parser.add_argument("--sizes", default="64,128,256,512,1000,2000",
+    parser.add_argument("--sizes", default="64,256,512,1000,2000",
                         help="comma-separated field sizes (default: %(default)s)")
     parser.add_argument("--rounds", type=int, default=9)
     parser.add_argument("--played", type=int, default=4, help="rounds already played (default 4: draft round 5)")
     parser.add_argument("--seed", type=int, default=1)
     parser.add_argument("--reference-limit", type=int, default=512,
                         help="largest field also solved by networkx on the full graph (default %(default)s)")
+    parser.add_argument("--fold", type=int, default=0, help="also time folding a whole log of this many players")
     args = parser.parse_args(argv)
     print(f"solver: {'rustworkx (compiled)' if fast_available() else 'networkx'} on the pruned graph; "
           "reference: networkx on the full graph")
-    print("| players | round | fold s | engine s | peak MB | reference s | ratio | round cost |")
-    print("| ---: | :---: | ---: | ---: | ---: | ---: | ---: | :--- |")
+    print("| players | round | fold s | engine s | peak MB | reference s | ratio | route | round cost |")
+    print("| ---: | :---: | ---: | ---: | ---: | ---: | ---: | :--- | :--- |")
     for n in (int(x) for x in args.sizes.split(",")):
         print(bench_one(n, args.rounds, args.played, args.seed, args.reference_limit), flush=True)
+    if args.fold:
+        print(bench_fold(args.fold, args.rounds, args.seed))
 
 
 if __name__ == "__main__":

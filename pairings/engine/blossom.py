@@ -181,7 +181,7 @@ class _Blossom:
             self.bestlist[sub] = None
             self.best[sub] = -1
         self.bestlist[b] = list(best_to.values())
-        self.best[b] = min(self.bestlist[b], key=self.slack, default=-1)
+        self.best[b] = min(best_to.values(), key=self.slack, default=-1)
 
     def expand(self, b: int, end_of_stage: bool) -> None:
         for s in self.childs[b]:

@@ -33,7 +33,7 @@ from numpy.typing import NDArray
 
 from pairings.engine import blossom, certificate, solver, weights
 from pairings.engine.criteria import Cost, Field
-from pairings.engine.vector import WIDTH, Arrays, IntArray
+from pairings.engine.vector import WIDTH, AnyArray, Arrays, IntArray
 from pairings.errors import NoPairingError
 from pairings.state import PlayerId
 
@@ -228,7 +228,7 @@ class Route:
     sparse_edges: int
 
 
-def _best_per_vertex(u: IntArray, v: IntArray, score: NDArray[np.generic], among: NDArray[np.bool_],
+def _best_per_vertex(u: IntArray, v: IntArray, score: AnyArray, among: NDArray[np.bool_],
                      k: int) -> NDArray[np.bool_]:
     """Edges of ``among`` that are among the ``k`` highest-``score`` edges at one of their ends."""
     idx = np.flatnonzero(among)
@@ -244,7 +244,7 @@ def _best_per_vertex(u: IntArray, v: IntArray, score: NDArray[np.generic], among
     return out
 
 
-def certified_matching(n: int, u: IntArray, v: IntArray, w: NDArray[np.generic], rank: IntArray,
+def certified_matching(n: int, u: IntArray, v: IntArray, w: AnyArray, rank: IntArray,
                        window: int = SPARSE_WINDOW, rounds: int = SPARSE_ROUNDS
                        ) -> tuple[list[tuple[int, int]], Route]:
     """A maximum-weight perfect matching of the edges ``(u, v, w)``, certified when possible.

@@ -30,10 +30,11 @@ import numpy as np
 from numpy.typing import NDArray
 
 from pairings.engine.blossom import Dual
+from pairings.engine.vector import AnyArray
 
 
-def reduced_costs(u: NDArray[np.int64], v: NDArray[np.int64], w: NDArray[np.generic], dual: Dual
-                  ) -> NDArray[np.generic]:
+def reduced_costs(u: NDArray[np.int64], v: NDArray[np.int64], w: AnyArray, dual: Dual
+                  ) -> AnyArray:
     """Doubled reduced costs ``2 (y_u + y_v + sum z_B - w_uv)`` of edges ``(u[k], v[k], w[k])``."""
     big = w.dtype == object or max(map(abs, dual.y2), default=0) > 2**60 or \
         any(z > 2**60 for _, z in dual.blossoms)
@@ -47,11 +48,11 @@ def reduced_costs(u: NDArray[np.int64], v: NDArray[np.int64], w: NDArray[np.gene
         inside[list(members)] = True
         both = inside[u] & inside[v]
         if both.any():
-            rc = rc + np.where(both, 2 * z, 0).astype(dtype)
-    return rc
+            rc[both] = rc[both] + 2 * z
+    return np.asarray(rc)
 
 
-def certify(n: int, u: NDArray[np.int64], v: NDArray[np.int64], w: NDArray[np.generic],
+def certify(n: int, u: NDArray[np.int64], v: NDArray[np.int64], w: AnyArray,
             pairs: Sequence[tuple[int, int]], dual: Dual) -> bool:
     """True when ``pairs`` is a perfect matching of maximum weight on these edges (module Notes)."""
     if len(dual.y2) != n or any(z < 0 for _, z in dual.blossoms) or \

@@ -11,7 +11,7 @@ tests compare it with :meth:`Field.pair` pair by pair.
 
 from __future__ import annotations
 
-from typing import Sequence
+from typing import Any, Sequence
 
 import numpy as np
 from numpy.typing import NDArray
@@ -20,6 +20,8 @@ from pairings.engine.criteria import ABSOLUTE, MILD, STRONG, Field
 from pairings.state import Float, PlayerId, Side
 
 IntArray = NDArray[np.int64]
+AnyArray = NDArray[Any]
+"""Exact integers: int64, or Python integers (dtype object) when they do not fit."""
 FIRST, SECOND = 1, -1
 WIDTH = 11
 """Length of a cost tuple (``len(CRITERIA)``)."""

@@ -42,6 +42,7 @@ import numpy as np
 from numpy.typing import NDArray
 
 from pairings.engine.criteria import Cost
+from pairings.engine.vector import AnyArray
 
 GAP_INDEX = 3
 """Position of ``score_gap`` in a cost tuple."""
@@ -101,7 +102,7 @@ def from_maxima(columns: Sequence[int], gaps: Collection[int], vertices: int) ->
     return Encoder(levels, tuple(place), 0)
 
 
-def weight_array(costs: NDArray[np.int64], vertices: int) -> NDArray[np.generic]:
+def weight_array(costs: NDArray[np.int64], vertices: int) -> AnyArray:
     """:meth:`Encoder.weight` of every row of ``costs`` under :func:`encoder` of those rows.
 
     Exact: ``int64`` when the largest weight fits, Python integers otherwise.
@@ -121,4 +122,4 @@ def weight_array(costs: NDArray[np.int64], vertices: int) -> NDArray[np.generic]
     for p, k in used:
         total = total + costs[:, k].astype(dtype) * p
     top = 1 + max(total.tolist())
-    return top - total
+    return np.asarray(top - total)

@@ -1,0 +1,205 @@
+"""The certified sparse path: blossom duals, the certificate checker, vectorised costs, fallback.
+
+networkx max_weight_matching as independent solver throughout; the engine's
+own full-graph path (compiled solver on every pruned edge) for the larger fields.
+"""
+
+from __future__ import annotations
+
+import random
+
+import networkx as nx  # type: ignore[import-untyped]
+import numpy as np
+import pytest
+from hypothesis import HealthCheck, given, settings
+from hypothesis import strategies as st
+
+from tests.engine.engine_support import random_history, state_of
+from pairings.engine import candidates, draft_round, solver
+from pairings.engine.blossom import Dual, perfect_matching
+from pairings.engine.certificate import certify, reduced_costs
+from pairings.engine.criteria import Field
+from pairings.engine.vector import Arrays
+from pairings.engine.weights import encoder, weight_array
+from pairings.fold import fold
+from pairings.simulate import simulate_events
+
+Edges = list[tuple[int, int, int]]
+
+
+def arrays(edges: Edges) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
+    return (np.array([e[0] for e in edges], dtype=np.int64), np.array([e[1] for e in edges], dtype=np.int64),
+            np.array([e[2] for e in edges], dtype=np.int64))
+
+
+def networkx_perfect(n: int, edges: Edges) -> list[tuple[int, int]] | None:
+    g = nx.Graph()
+    g.add_nodes_from(range(n))
+    g.add_weighted_edges_from(edges)
+    m = nx.max_weight_matching(g, maxcardinality=True)
+    return None if 2 * len(m) < n else [tuple(sorted(p)) for p in m]
+
+
+def weight(edges: Edges, pairs: list[tuple[int, int]]) -> int:
+    table = {(min(u, v), max(u, v)): w for u, v, w in edges}
+    return sum(table[(min(u, v), max(u, v))] for u, v in pairs)
+
+
+graphs = st.integers(0, 10**6).map(lambda seed: _graph(seed))
+
+
+def _graph(seed: int) -> tuple[int, Edges, list[int]]:
+    rng = random.Random(seed)
+    n = rng.choice([2, 4, 6, 8, 10, 14, 20, 28])
+    p = rng.choice([0.3, 0.6, 1.0])
+    top = rng.choice([1, 3, 10, 10**6, 2**80])
+    edges = [(i, j, rng.randint(0, top)) for i in range(n) for j in range(i + 1, n) if rng.random() < p]
+    warm = [k for k in range(len(edges)) if rng.random() < 0.5]
+    return n, edges, warm
+
+
+@settings(max_examples=300, deadline=None, suppress_health_check=[HealthCheck.too_slow])
+@given(graphs)
+def test_blossom_equals_networkx_and_its_dual_certifies(graph: tuple[int, Edges, list[int]]) -> None:
+    # networkx max_weight_matching as independent solver; weak LP duality as the check.
+    n, edges, warm = graph
+    expected = networkx_perfect(n, edges)
+    got = perfect_matching(n, edges, warm)
+    if expected is None:
+        assert got is None
+        return
+    assert got is not None
+    pairs, dual = got
+    assert weight(edges, pairs) == weight(edges, expected)
+    assert certify(n, *arrays(edges) if edges and max(e[2] for e in edges) < 2**62 else _objects(edges),
+                   pairs, dual)
+
+
+def _objects(edges: Edges) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
+    u, v, _ = arrays([(a, b, 0) for a, b, _ in edges])
+    return u, v, np.array([e[2] for e in edges], dtype=object)
+
+
+def test_certificate_rejects_a_matching_that_is_not_optimal() -> None:
+    # A 4-cycle 0-1-2-3 with weights 5, 1, 5, 1: {01, 23} weighs 10, {12, 03} weighs 2.
+    edges = [(0, 1, 5), (1, 2, 1), (2, 3, 5), (0, 3, 1)]
+    best = networkx_perfect(4, edges)
+    assert best is not None and weight(edges, best) == 10
+    got = perfect_matching(4, edges)
+    assert got is not None
+    pairs, dual = got
+    u, v, w = arrays(edges)
+    assert certify(4, u, v, w, pairs, dual)
+    assert certify(4, u, v, w, best, dual)  # networkx's optimum passes with the same dual
+    assert not certify(4, u, v, w, [(1, 2), (0, 3)], dual)  # weight 2 < dual objective
+    assert not certify(4, u, v, w, [(0, 1)], dual)  # not perfect
+    assert not certify(4, u, v, w, [(0, 2), (1, 3)], dual)  # not edges
+
+
+def test_certificate_rejects_an_infeasible_dual() -> None:
+    # The dual of a subgraph does not certify on a graph with a heavier left-out edge.
+    sub = [(0, 1, 5), (2, 3, 5), (1, 2, 1), (0, 3, 1)]
+    full = sub + [(0, 2, 9), (1, 3, 9)]
+    got = perfect_matching(4, sub)
+    assert got is not None
+    pairs, dual = got
+    u, v, w = arrays(full)
+    assert (reduced_costs(u, v, w, dual) < 0).any()
+    assert not certify(4, u, v, w, pairs, dual)
+    assert not certify(4, *arrays(sub), pairs, Dual([0, 0, 0, 0], []))  # objective 0 != 10
+    assert not certify(4, *arrays(sub), pairs, Dual(dual.y2, [(frozenset({0, 1, 2}), -1)]))
+
+
+def test_triangle_blossom_dual_is_needed_and_checked() -> None:
+    # Two triangles joined by one light edge: the fractional bound (1/2 on each triangle)
+    # is not tight, so a certificate needs odd-set duals (Edmonds 1965).
+    edges = [(0, 1, 10), (1, 2, 10), (0, 2, 10), (3, 4, 10), (4, 5, 10), (3, 5, 10), (2, 3, 1)]
+    got = perfect_matching(6, edges)
+    assert got is not None
+    pairs, dual = got
+    assert weight(edges, pairs) == 21
+    assert dual.blossoms, "no blossom dual: the bound could not be tight"
+    assert certify(6, *arrays(edges), pairs, dual)
+    assert not certify(6, *arrays(edges), pairs, Dual(dual.y2, []))
+
+
+def fields(count: int, seed: int) -> list[tuple[int, int, int, bool]]:
+    rng = random.Random(seed)
+    return [(rng.randint(150, 300) if k % 25 == 0 else rng.randint(2, 60), rng.randint(0, 8),
+             rng.randint(0, 10**6), rng.random() < 0.3) for k in range(count)]
+
+
+def field_of(n: int, played: int, seed: int, rough: bool) -> tuple[Field, list[str]]:
+    if rough:  # random pairings: rematches, side trouble, odd structure
+        state = state_of(random_history(min(n, 40), played, seed, withdraw=0.03, byes=0.03))
+    else:
+        state = fold(enumerate(simulate_events(n, 9, played, seed, withdrawals=0.02, requested_byes=0.03), 1))
+    rnd = state.next_round_number
+    fld = Field(state, rnd, state.available(rnd))
+    return fld, list(fld.order)
+
+
+@pytest.mark.parametrize(("n", "played", "seed", "rough"), fields(120, 3))
+def test_vector_costs_equal_field_pair(n: int, played: int, seed: int, rough: bool) -> None:
+    fld, order = field_of(min(n, 80), played, seed, rough)
+    i, j = (x.astype(np.int64) for x in np.triu_indices(len(order), 1))
+    rows = Arrays(fld, order).costs(i, j)
+    for k in range(len(i)):
+        assert tuple(rows[k]) == fld.pair(order[i[k]], order[j[k]])[1]
+
+
+@pytest.mark.parametrize(("n", "played", "seed", "rough"), fields(200, 5))
+def test_certified_path_equals_full_graph_path(n: int, played: int, seed: int, rough: bool) -> None:
+    fld, order = field_of(n, played, seed, rough)
+    pr = candidates.pruned_edges(fld, order, ())
+    if pr is None or len(order) < 2:
+        return
+    w = weight_array(pr.costs, pr.n)
+    assert w.tolist() == [encoder([tuple(r) for r in pr.costs.tolist()], pr.n).weight(tuple(r))
+                          for r in pr.costs.tolist()]
+    pairs, route = candidates.certified_matching(pr.n, pr.u, pr.v, w, pr.costs[:, candidates.RANK_INDEX])
+    edges = list(zip(pr.u.tolist(), pr.v.tolist(), w.tolist()))
+    full = solver.matching(pr.n, edges)
+    if 2 * len(full) < pr.n:
+        return  # no perfect matching: the engine reports NoPairingError either way
+    assert weight(edges, pairs) == weight(edges, full)
+    if route.certified:
+        assert route.sparse_edges <= len(edges)
+
+
+def test_fallback_engages_and_stays_exact(monkeypatch: pytest.MonkeyPatch) -> None:
+    # One sparse round only on a 300-player field whose first sparse optimum fails the
+    # certificate: the compiled solver on every pruned edge must take over, same cost vector.
+    state = fold(enumerate(simulate_events(300, 9, 4, 2), 1))
+    rnd = state.next_round_number
+    fld = Field(state, rnd, state.available(rnd))
+    order = list(fld.order)
+    pr = candidates.pruned_edges(fld, order, ())
+    assert pr is not None
+    w = weight_array(pr.costs, pr.n)
+    rank = pr.costs[:, candidates.RANK_INDEX]
+    _, first = candidates.certified_matching(pr.n, pr.u, pr.v, w, rank)
+    assert first.certified and first.rounds > 1  # the first sparse solve alone was not optimal
+    _, route = candidates.certified_matching(pr.n, pr.u, pr.v, w, rank, rounds=1)
+    assert not route.certified
+    monkeypatch.setattr(candidates, "SPARSE_ROUNDS", 1)
+    monkeypatch.setattr(candidates.certified_matching, "__defaults__", (candidates.SPARSE_WINDOW, 1))
+    _, _, used = candidates.engine_matching(fld, order, ())
+    assert used is not None and not used.certified
+    assert draft_round(state).key() == draft_round(state, reference=True).key()
+
+
+@pytest.mark.full
+@pytest.mark.parametrize("seed", range(3))
+def test_certified_path_at_1000(seed: int) -> None:
+    state = fold(enumerate(simulate_events(1000, 9, 4, seed), 1))
+    rnd = state.next_round_number
+    fld = Field(state, rnd, state.available(rnd))
+    order = list(fld.order)
+    pr = candidates.pruned_edges(fld, order, ())
+    assert pr is not None
+    w = weight_array(pr.costs, pr.n)
+    pairs, route = candidates.certified_matching(pr.n, pr.u, pr.v, w, pr.costs[:, candidates.RANK_INDEX])
+    edges = list(zip(pr.u.tolist(), pr.v.tolist(), w.tolist()))
+    assert route.certified
+    assert weight(edges, pairs) == weight(edges, solver.matching(pr.n, edges))
