@@ -26,7 +26,6 @@ from pairings.store import EventStore
 from pairings.tui.base import Action, Place
 from pairings.tui.dialogs import Field, FormDialog, HelpDialog
 from pairings.tui.log import LogPlace
-from pairings.tui.offload import Log, Offload
 from pairings.tui.results import ResultsPlace
 from pairings.tui.roster import RosterPlace
 from pairings.tui.round import WIDE, RoundPlace
@@ -88,8 +87,6 @@ class DeskApp(App[None]):
         self.state: EventState = store.state
         self._poll_seconds = poll_seconds
         self._start = start
-        self.offload = Offload()
-        """Where big fields are drafted and explained (a child process)."""
         self.last_output: Path | None = None
         """Where the latest printout went."""
         for name, place in PLACES.items():
@@ -100,10 +97,6 @@ class DeskApp(App[None]):
         self.set_interval(self._poll_seconds, self.poll)
 
     # -- state -----------------------------------------------------------------------------
-
-    def log_pairs(self) -> Log:
-        """The log as (sequence number, event) pairs, to fold elsewhere."""
-        return [(s.seq, s.event) for s in self.store.log]
 
     def places_on_screen(self) -> list[Place]:
         return [s for s in self.screen_stack if isinstance(s, Place)]
@@ -245,8 +238,4 @@ class DeskApp(App[None]):
 def run_desk(path: Path) -> None:
     """Open the event file at ``path`` in the desk until the organiser quits."""
     with EventStore.open(path) as store:
-        app = DeskApp(store)
-        try:
-            app.run()
-        finally:
-            app.offload.close()
+        DeskApp(store).run()

@@ -137,7 +137,6 @@ async def measure(path: Path, repeat: int) -> tuple[list[Row], float]:
         await finished(app)
         drafting = perf_counter() - start
         rows.append(("Round: cursor keys while the engine drafts", during))
-    app.offload.close()
     store.close()
     return rows, drafting
 

@@ -29,7 +29,7 @@ from pairings.tui.base import Place
 from pairings.tui.dialogs import ConfirmDialog, Field, FormDialog
 from pairings.tui.grid import Column, Grid
 from pairings.tui.text import cell, describe_round, flag_words, name, open_flags, points, safe, short_result
-from pairings.tui.offload import Log
+from pairings.tui.why import why_lines
 
 WHY_DELAY = 0.25
 """Seconds the cursor rests on a board before the engine is asked why."""
@@ -193,12 +193,12 @@ class RoundPlace(Place):
             return
         self._explaining = True
         _, number, board = self._wanted
-        self.explain(self.state, self.desk.log_pairs(), number, board)
+        self.explain(self.state, number, board)
 
     @work(thread=True, group="why")
-    def explain(self, state: EventState, log: Log, number: int, board: int) -> None:
+    def explain(self, state: EventState, number: int, board: int) -> None:
         try:
-            lines = self.desk.offload.why(state, log, board)
+            lines = why_lines(state, board)
         except InputError as exc:
             lines = [f"alternatives not available: {exc}"]
         if not get_current_worker().is_cancelled:
@@ -243,7 +243,7 @@ class RoundPlace(Place):
             if yes:
                 self.number = None
                 self.busy(f"drafting round {state.next_round_number} of {len(state.players)} players …")
-                self.draft(state, self.desk.log_pairs(), base)
+                self.draft(state, base)
 
         if last is not None and last.state is RoundState.DRAFT and last.source != "engine":
             notes = [f"override: {n}" for n in last.notes]
@@ -252,10 +252,10 @@ class RoundPlace(Place):
             go()
 
     @work(thread=True, exclusive=True, group="engine")
-    def draft(self, state: EventState, log: Log, base: int) -> None:
+    def draft(self, state: EventState, base: int) -> None:
         start = perf_counter()
         try:
-            events = self.desk.offload.pair(state, log)
+            events = actions.pair(state)
         except InputError as exc:
             self.post_message(self.EngineFailed(str(exc)))
             return
