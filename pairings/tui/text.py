@@ -8,28 +8,15 @@ which drops control and escape characters, and is wrapped in a rich ``Text``
 
 from __future__ import annotations
 
-import re
-import unicodedata
-
 from rich.text import Text
 
 from pairings.state import EventState, PlayerId, Result, Round, RoundState
-
-_CONTROL = re.compile(r"\x1b\[[0-?]*[ -/]*[@-~]|\x1b\][^\x07\x1b]*(?:\x07|\x1b\\)?|\x1b.?")
-"""CSI and OSC escape sequences and lone escapes (ECMA-48), removed whole."""
+from pairings.text import plain
 
 
 def safe(value: object) -> str:
     """``value`` as one line of text with no escape sequence or control character left."""
-    text = str(value)
-    if text.isprintable():  # the common case: no control, format or separator character but spaces
-        return text
-    text = _CONTROL.sub("", text)
-    return "".join(
-        " " if c in "\t\n\r" else c
-        for c in text
-        if c in "\t\n\r" or unicodedata.category(c) not in ("Cc", "Cf", "Cs", "Co")
-    )
+    return plain(str(value))
 
 
 def cell(value: object) -> Text:
