@@ -87,3 +87,28 @@ def test_forfeit_codes_are_not_options(event: Path, cli) -> None:  # type: ignor
     assert cli("result", event, "1", "-+").code == 0
     ran = cli("result", event, "2", "--")
     assert ran.code == 0 and "round complete" in ran.out, ran
+
+
+def test_round_lifecycle_refusals(event: Path, cli, tmp_path: Path) -> None:  # type: ignore[no-untyped-def]
+    assert cli("pair", event).code == 0
+    refused(cli, event, "result", event, "1", "1-0", says="no round has been published")
+    refused(cli, event, "result", event, "1", "1-0", "--round", "1", says="not published")
+    # a player registered after the draft makes it out of date: publishing it would leave them out
+    assert cli("player", "add", event, "--name", "Late Comer", "--rating", "1400").code == 0
+    refused(cli, event, "publish", event, says="out of date")
+    assert cli("pair", event).code == 0
+    assert cli("publish", event).code == 0
+    refused(cli, event, "pair", event, says="not finished")
+    refused(cli, event, "result", event, "9", "1-0", says="has no board 9")
+    assert cli("result", event, "1", "1-0").code == 0
+    refused(cli, event, "result", event, "1", "0-1", says="already has 1-0")
+    refused(cli, event, "result", event, "1", "1-0", "--round", "4", says="does not exist")
+
+
+def test_verify_reports_a_clean_event(event: Path, cli) -> None:  # type: ignore[no-untyped-def]
+    assert cli("pair", event).code == 0
+    assert cli("publish", event).code == 0
+    ran = cli("verify", event)
+    assert ran.code == 0, ran
+    assert "hash chain: ok" in ran.out
+    assert "Berge" in ran.out
