@@ -13,8 +13,11 @@ from __future__ import annotations
 from typing import TYPE_CHECKING, Callable, Sequence
 
 from textual.app import ComposeResult
+from textual.binding import Binding
+from textual.containers import Horizontal
+from textual.content import Content
 from textual.screen import Screen
-from textual.widgets import Footer, Label
+from textual.widgets import Label
 
 from pairings.events import Event
 from pairings.state import EventState
@@ -24,6 +27,32 @@ if TYPE_CHECKING:
     from pairings.tui.app import DeskApp
 
 Action = Callable[[EventState], Sequence[Event]]
+
+
+class KeyLine(Horizontal):
+    """The bottom line: the place's keys, then the desk's, and the palette key at the right.
+
+    Drawn once when the place is made. (textual's ``Footer`` rebuilds a widget
+    per key each time the focus or the screen changes, a tenth of a second on
+    every switch of place; the desk's keys never change while it runs.)
+    """
+
+    DEFAULT_CSS = """
+    KeyLine { height: 1; background: $footer-background; }
+    KeyLine > .keys { width: 1fr; }
+    KeyLine > .palette { width: auto; padding: 0 1 0 0; }
+    """
+
+    def __init__(self, bindings: Sequence[object]) -> None:
+        super().__init__()
+        self._bindings = [b for b in bindings if isinstance(b, Binding) and b.show and b.description]
+
+    def compose(self) -> ComposeResult:
+        parts: list[str | tuple[str, str]] = []
+        for b in self._bindings:
+            parts += [(f" {self.app.get_key_display(b)} ", "bold $footer-key-foreground"), b.description]
+        yield Label(Content.assemble(*parts), classes="keys")
+        yield Label(Content.assemble("▏", ("^p", "bold $footer-key-foreground"), " palette"), classes="palette")
 
 
 class Place(Screen[None]):
@@ -50,7 +79,7 @@ class Place(Screen[None]):
     def compose(self) -> ComposeResult:
         yield Label("", id="topline", classes="topline")
         yield from self.body()
-        yield Footer(compact=True)
+        yield KeyLine([*self.BINDINGS, *self.app.BINDINGS])
 
     def body(self) -> ComposeResult:
         yield from ()
