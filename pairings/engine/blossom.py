@@ -72,6 +72,7 @@ class _Blossom:
         self.parent = [-1] * (2 * n)
         self.childs: list[list[int]] = [[] for _ in range(2 * n)]
         self.endps: list[list[int]] = [[] for _ in range(2 * n)]
+        self.leaf_cache: list[list[int]] = [[] for _ in range(2 * n)]
         self.base = list(range(n)) + [-1] * n
         self.unused = list(range(2 * n - 1, n - 1, -1))
         self.label = [0] * (2 * n)
@@ -84,21 +85,14 @@ class _Blossom:
         self.free_best: set[int] = set()  # vertices with a best edge (delta 2 candidates)
         self.forest: set[int] = set()  # labelled top-level ids
         self.opened: list[int] = []  # edges allowed this stage
+        self.exposed = [v for v in range(n - 1, -1, -1) if mate[v] == -1]
 
     def slack(self, k: int) -> int:
         return self.d[self.end[2 * k]] + self.d[self.end[2 * k + 1]] - 2 * self.w[k]
 
     def leaves(self, b: int) -> list[int]:
-        if b < self.n:
-            return [b]
-        out, stack = [], [b]
-        while stack:
-            x = stack.pop()
-            if x < self.n:
-                out.append(x)
-            else:
-                stack.extend(self.childs[x])
-        return out
+        """The vertices of ``b`` (cached per blossom: a blossom's vertices never change). Read only."""
+        return [b] if b < self.n else self.leaf_cache[b]
 
     def allow(self, k: int) -> None:
         self.allowed[k] = True
@@ -157,6 +151,7 @@ class _Blossom:
             endps.append(self.labelend[bw] ^ 1)
             bw = self.top[self.end[self.labelend[bw]]]
         self.childs[b], self.endps[b] = path, endps
+        self.leaf_cache[b] = [x for sub in path for x in self.leaves(sub)]
         self.label[b], self.labelend[b], self.d[b] = 1, self.labelend[bb], 0
         self.touched.add(b)
         self.forest.difference_update(path)
@@ -292,20 +287,24 @@ class _Blossom:
 
     def scan_queue(self) -> bool:
         """Grow the forest along tight edges; True when a stage augmented."""
-        label, top, end = self.label, self.top, self.end
+        label, top, end, d, wt, allowed = self.label, self.top, self.end, self.d, self.w, self.allowed
         while self.queue:
             v = self.queue.pop()
+            dv = d[v]
             for p in self.nb[v]:
                 k, w = p >> 1, end[p]
                 if top[v] == top[w]:
                     continue
                 kslack = 0
-                if not self.allowed[k]:
-                    kslack = self.slack(k)
+                if not allowed[k]:
+                    kslack = dv + d[w] - 2 * wt[k]
                     if kslack <= 0:
                         self.allow(k)
-                if self.allowed[k]:
+                if allowed[k]:
                     lw = label[top[w]]
+                    if lw == 0 and self.mate[self.base[top[w]]] == -1:
+                        self.augment(k)  # another exposed vertex: an augmenting path
+                        return True
                     if lw == 0:
                         self.assign(w, 2, p ^ 1)
                     elif lw == 1:
@@ -367,12 +366,11 @@ class _Blossom:
     def run(self) -> bool:
         while True:
             self.reset_stage()
-            exposed = [v for v in range(self.n) if self.mate[v] == -1 and self.label[self.top[v]] == 0]
-            if not exposed:
+            while self.exposed and self.mate[self.exposed[-1]] != -1:
+                self.exposed.pop()
+            if not self.exposed:
                 return True
-            for v in exposed:
-                if self.label[self.top[v]] == 0:
-                    self.assign(v, 1, -1)
+            self.assign(self.exposed[-1], 1, -1)
             while not self.scan_queue():
                 if not self.step():
                     return False

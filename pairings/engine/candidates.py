@@ -51,6 +51,8 @@ SPARSE_WINDOW = 3
 SPARSE_ROUNDS = 8
 SPARSE_BEST = 3
 """... and each player's three heaviest edges."""
+SPARSE_CLASS = 4
+"""... and, per side-wish class, this many players either side of each player's ideal partner."""
 SPARSE_ADD = 2
 """Violated edges added per player and round (the most violated first)."""
 
@@ -151,6 +153,8 @@ class Pruned:
     u: IntArray
     v: IntArray
     costs: IntArray
+    arrays: Arrays
+    """The players' arrays (for :func:`ideal_partners`)."""
 
 
 def _index_pairs(units: IntArray, max_gap: int | None, rows: range) -> tuple[IntArray, IntArray]:
@@ -214,7 +218,73 @@ def pruned_edges(fld: Field, players: Sequence[PlayerId], no_bye: Collection[Pla
         us.append(np.array([k for k, _ in byes], dtype=np.int64)[keep])
         vs.append(np.full(int(keep.sum()), n, dtype=np.int64))
         cs.append(rows[keep])
-    return Pruned(n + n % 2, np.concatenate(us), np.concatenate(vs), np.concatenate(cs))
+    return Pruned(n + n % 2, np.concatenate(us), np.concatenate(vs), np.concatenate(cs), arrays)
+
+
+def ideal_partners(a: Arrays, near: int = SPARSE_CLASS) -> tuple[IntArray, IntArray]:
+    """Pairs ``i < j`` of one score group where ``j`` is near ``i``'s rank-order ideal within its side class.
+
+    For each player and each side-wish class (first, second, none) of its
+    score group, the ``near`` players of that class on each side of the
+    ideal position (group rank plus or minus half the group, rules.md S6).
+    Side preferences (S4) outrank the rank order, so a player's partner in an
+    optimum is usually the nearest compatible one to the ideal, not the
+    nearest one. Floaters: the last ``2 * near`` players of a group with
+    the first ``2 * near`` of each class of the next group down.
+    """
+    n = a.n
+    if n == 0:
+        return np.zeros(0, dtype=np.int64), np.zeros(0, dtype=np.int64)
+    span = n + 1
+    cls = a.want + 1
+    key = (a.units * 3 + cls) * span + a.grank
+    order = np.argsort(key, kind="stable")
+    sorted_key = key[order]
+    half = a.gsize // 2
+    rows = np.arange(n, dtype=np.int64)
+    us, vs = [], []
+    for c in range(3):
+        block = (a.units * 3 + c) * span
+        lo_pos = np.searchsorted(sorted_key, block, side="left")
+        hi_pos = np.searchsorted(sorted_key, block + span, side="left")
+        for target in (a.grank + half, a.grank - half):
+            at = np.searchsorted(sorted_key, block + np.clip(target, 0, n), side="left")
+            for off in range(-near, near):
+                pos = at + off
+                ok = (pos >= lo_pos) & (pos < hi_pos)
+                j = order[np.where(ok, pos, 0)]
+                us.append(rows[ok])
+                vs.append(j[ok])
+    # Floaters: the last 2 * near of a group with the first 2 * near of each class of the next one.
+    end = rows - a.grank + a.gsize
+    floater = (a.grank >= a.gsize - 2 * near) & (end < n)
+    below = a.units[np.minimum(end, n - 1)]
+    for c in range(3):
+        block = (below * 3 + c) * span
+        lo_pos = np.searchsorted(sorted_key, block, side="left")
+        hi_pos = np.searchsorted(sorted_key, block + span, side="left")
+        for off in range(2 * near):
+            pos = lo_pos + off
+            ok = floater & (pos < hi_pos)
+            us.append(rows[ok])
+            vs.append(order[pos[ok]])
+    i, j = np.concatenate(us), np.concatenate(vs)
+    keep = i != j
+    return np.minimum(i, j)[keep], np.maximum(i, j)[keep]
+
+
+def seed_mask(pr: Pruned) -> NDArray[np.bool_]:
+    """The pruned edges that are :func:`ideal_partners` pairs."""
+    keys = pr.u * pr.n + pr.v
+    order = np.argsort(keys, kind="stable")
+    i, j = ideal_partners(pr.arrays)
+    wanted = np.unique(i * pr.n + j)
+    at = np.searchsorted(keys[order], wanted)
+    hit = at < len(order)
+    hit[hit] = keys[order][at[hit]] == wanted[hit]
+    out = np.zeros(len(keys), dtype=bool)
+    out[order[at[hit]]] = True
+    return out
 
 
 @dataclass(frozen=True)
@@ -245,8 +315,8 @@ def _best_per_vertex(u: IntArray, v: IntArray, score: AnyArray, among: NDArray[n
 
 
 def certified_matching(n: int, u: IntArray, v: IntArray, w: AnyArray, rank: IntArray,
-                       window: int = SPARSE_WINDOW, rounds: int = SPARSE_ROUNDS
-                       ) -> tuple[list[tuple[int, int]], Route]:
+                       window: int = SPARSE_WINDOW, rounds: int = SPARSE_ROUNDS, *,
+                       seed: NDArray[np.bool_] | None = None) -> tuple[list[tuple[int, int]], Route]:
     """A maximum-weight perfect matching of the edges ``(u, v, w)``, certified when possible.
 
     Start from the edges with ``rank <= window`` (each player's partners
@@ -258,6 +328,8 @@ def certified_matching(n: int, u: IntArray, v: IntArray, w: AnyArray, rank: IntA
     compiled solver runs on all edges (still exact, only slower).
     """
     mask = (rank <= window) | _best_per_vertex(u, v, w, np.ones(len(u), dtype=bool), SPARSE_BEST)
+    if seed is not None:
+        mask |= seed
     wlist = w.tolist()
     for attempt in range(1, rounds + 1):
         idx = np.flatnonzero(mask)
@@ -289,7 +361,7 @@ def engine_matching(fld: Field, players: Sequence[PlayerId], no_bye: Collection[
         g = full_graph(fld, players, no_bye)
         return g, solve(g, False), None
     w = weights.weight_array(pr.costs, pr.n)
-    pairs, route = certified_matching(pr.n, pr.u, pr.v, w, pr.costs[:, RANK_INDEX])
+    pairs, route = certified_matching(pr.n, pr.u, pr.v, w, pr.costs[:, RANK_INDEX], seed=seed_mask(pr))
     return pr, pairs, route
 
 

@@ -61,11 +61,12 @@ def certify(n: int, u: NDArray[np.int64], v: NDArray[np.int64], w: AnyArray,
     covered = [x for p in pairs for x in p]
     if len(covered) != n or len(set(covered)) != n:
         return False
-    lo, hi = np.minimum(u, v), np.maximum(u, v)
-    key = {(int(a), int(b)): k for k, (a, b) in enumerate(zip(lo.tolist(), hi.tolist()))}
-    try:
-        weight = sum(int(w[key[(min(a, b), max(a, b))]]) for a, b in pairs)
-    except KeyError:
+    keys = np.minimum(u, v) * n + np.maximum(u, v)
+    order = np.argsort(keys, kind="stable")
+    wanted = np.array([min(a, b) * n + max(a, b) for a, b in pairs], dtype=np.int64)
+    at = np.minimum(np.searchsorted(keys[order], wanted), max(len(order) - 1, 0))
+    if len(wanted) and (len(order) == 0 or (keys[order][at] != wanted).any()):
         return False  # a pair that is not an edge
+    weight = sum(w[order[at]].tolist())
     rc = reduced_costs(u, v, w, dual)
     return bool((rc >= 0).all()) and dual.objective2() == 2 * weight

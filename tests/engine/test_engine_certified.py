@@ -166,6 +166,9 @@ def test_certified_path_equals_full_graph_path(n: int, played: int, seed: int, r
     assert weight(edges, pairs) == weight(edges, full)
     if route.certified:
         assert route.sparse_edges <= len(edges)
+    seeded, _ = candidates.certified_matching(pr.n, pr.u, pr.v, w, pr.costs[:, candidates.RANK_INDEX],
+                                              seed=candidates.seed_mask(pr))
+    assert weight(edges, seeded) == weight(edges, full)
 
 
 def test_fallback_engages_and_stays_exact(monkeypatch: pytest.MonkeyPatch) -> None:
@@ -184,6 +187,8 @@ def test_fallback_engages_and_stays_exact(monkeypatch: pytest.MonkeyPatch) -> No
     _, route = candidates.certified_matching(pr.n, pr.u, pr.v, w, rank, rounds=1)
     assert not route.certified
     monkeypatch.setattr(candidates, "SPARSE_ROUNDS", 1)
+    # Without the side-class seed edges, which make this field certify in one round.
+    monkeypatch.setattr(candidates, "seed_mask", lambda pr: np.zeros(len(pr.u), dtype=bool))
     monkeypatch.setattr(candidates.certified_matching, "__defaults__", (candidates.SPARSE_WINDOW, 1))
     _, _, used = candidates.engine_matching(fld, order, ())
     assert used is not None and not used.certified
@@ -204,3 +209,33 @@ def test_certified_path_at_1000(seed: int) -> None:
     edges = list(zip(pr.u.tolist(), pr.v.tolist(), w.tolist()))
     assert route.certified
     assert weight(edges, pairs) == weight(edges, solver.matching(pr.n, edges))
+
+
+def ideal_partners_by_hand(a: Arrays, near: int) -> set[tuple[int, int]]:
+    """Brute force, player by player, of the rule in candidates.ideal_partners' docstring."""
+    out = set()
+    n = a.n
+    for i in range(n):
+        group = [j for j in range(n) if a.units[j] == a.units[i]]
+        half = int(a.gsize[i]) // 2
+        for c in (-1, 0, 1):
+            members = [j for j in group if a.want[j] == c]  # group rank order
+            for target in (a.grank[i] + half, a.grank[i] - half):
+                below = [j for j in members if a.grank[j] < target][-near:]
+                above = [j for j in members if a.grank[j] >= target][:near]
+                out |= {(min(i, j), max(i, j)) for j in below + above if j != i}
+        lower = [j for j in range(n) if a.units[j] < a.units[i]]
+        if a.grank[i] >= a.gsize[i] - 2 * near and lower:
+            nxt = [j for j in lower if a.units[j] == a.units[lower[0]]]
+            for c in (-1, 0, 1):
+                out |= {(i, j) for j in [j for j in nxt if a.want[j] == c][:2 * near]}
+    return out
+
+
+@pytest.mark.parametrize(("n", "played", "seed", "rough"), fields(12, 7))
+def test_ideal_partners_equal_brute_force(n: int, played: int, seed: int, rough: bool) -> None:
+    fld, order = field_of(n, played, seed, rough)
+    a = Arrays(fld, order)
+    for near in (1, 2, 4):
+        i, j = candidates.ideal_partners(a, near)
+        assert set(zip(i.tolist(), j.tolist())) == ideal_partners_by_hand(a, near)
