@@ -131,7 +131,7 @@ class _RoundBuilder:
     number: int
     games: dict[int, Game]
     byes: tuple[Bye, ...]
-    cost: dict[str, float]
+    cost: dict[str, int]
     engine_version: str | None
     source: str
     notes: tuple[str, ...]

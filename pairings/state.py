@@ -173,7 +173,7 @@ class Game:
     second: PlayerId
     result: Result | None = None
     flags: tuple[str, ...] = ()
-    cost: Mapping[str, float] = field(default_factory=lambda: MappingProxyType({}))
+    cost: Mapping[str, int] = field(default_factory=lambda: MappingProxyType({}))
 
     def side_of(self, player: PlayerId) -> Side:
         return Side.FIRST if player == self.first else Side.SECOND
@@ -195,7 +195,7 @@ class Round:
     state: RoundState
     games: tuple[Game, ...]
     byes: tuple[Bye, ...]
-    cost: Mapping[str, float] = field(default_factory=lambda: MappingProxyType({}))
+    cost: Mapping[str, int] = field(default_factory=lambda: MappingProxyType({}))
     engine_version: str | None = None
     source: str = "engine"
     """``engine`` (as drafted), ``override`` (changed by the organiser) or ``restored``."""
