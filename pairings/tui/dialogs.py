@@ -14,10 +14,11 @@ from textual import on
 from textual.app import ComposeResult
 from textual.binding import Binding
 from textual.containers import Vertical, VerticalScroll
+from textual.content import Content
 from textual.screen import ModalScreen
-from textual.widgets import Input, Label, Static
+from textual.widgets import Input, Label
 
-from pairings.tui.text import cell
+from pairings.tui.text import cell, safe
 
 
 @dataclass(frozen=True)
@@ -117,13 +118,15 @@ class HelpDialog(ModalScreen[None]):
         self._sections = list(sections)
 
     def compose(self) -> ComposeResult:
+        parts: list[str | tuple[str, str]] = []
+        for title, rows in self._sections:
+            parts.append((safe(title) + "\n", "bold $accent"))
+            parts += [safe(f"  {key:<14} {description}") + "\n" for key, description in rows]
         with Vertical(classes="dialog help"):
             yield Label("Keys of the desk", classes="dialog-title")
             with VerticalScroll(classes="dialog-lines"):
-                for title, rows in self._sections:
-                    yield Static(cell(title), classes="help-section")
-                    for key, description in rows:
-                        yield Label(cell(f"  {key:<14} {description}"))
+                # One label for the whole list: a widget per line made the dialog slow to open.
+                yield Label(Content.assemble(*parts).rstrip(), classes="help-keys")
             yield Label("Esc: close    Ctrl+P: search every action", classes="dialog-keys")
 
     def action_close(self) -> None:

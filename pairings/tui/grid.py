@@ -1,16 +1,17 @@
 """A read-only table that draws only the rows on screen, for rosters and rounds of any size.
 
-Built on textual's line API (:class:`~textual.scroll_view.ScrollView`): the
-rows are plain tuples of already-cleaned strings, so replacing two thousand
-of them costs a list copy, and each redraw renders the visible lines only.
-Columns are sized once per data change; ``flex`` columns share the width the
-others leave.
+Built on textual's line API (:class:`~textual.scroll_view.ScrollView`): a
+table is its row keys and a function making one row's cells, called only for
+the rows drawn (and kept until the data changes), so a place with two
+thousand rows builds the forty on screen. Columns are sized once per data
+change from the widths the place says its cells reach; ``flex`` columns share
+the width the others leave.
 """
 
 from __future__ import annotations
 
 from dataclasses import dataclass
-from typing import ClassVar, Sequence
+from typing import Callable, ClassVar, Sequence
 
 from rich.cells import cell_len, set_cell_size
 from rich.segment import Segment
@@ -34,6 +35,14 @@ class Column:
     flex: bool = False
     """Takes a share of the width the other columns leave."""
     limit: int = 40
+
+
+RowMaker = Callable[[int], Sequence[object]]
+"""The cells of one row from its index."""
+
+
+def _no_row(index: int) -> Sequence[object]:
+    raise IndexError(index)
 
 
 def fit(text: str, width: int) -> str:
@@ -89,18 +98,21 @@ class Grid(ScrollView, can_focus=True):
     def __init__(self, *, id: str | None = None) -> None:
         super().__init__(id=id)
         self.columns: list[Column] = []
-        self._rows: list[tuple[str, ...]] = []
-        self._keys: list[str] = []
-        self._index: dict[str, int] = {}
+        self._keys: Sequence[str] = ()
+        self._index: dict[str, int] | None = None
+        """Row of each key, built on first use."""
+        self._make: RowMaker = _no_row
+        self._made: dict[int, tuple[str, ...]] = {}
+        """The rows built so far (only those drawn or asked for)."""
         self._natural: list[int] = []
-        """Longest cell per column (header included)."""
+        """Longest cell per column (header included), as far as it is known."""
         self._widths: list[int] = []
 
     # -- data ------------------------------------------------------------------------------
 
     @property
     def row_count(self) -> int:
-        return len(self._rows)
+        return len(self._keys)
 
     def set_columns(self, columns: Sequence[Column]) -> None:
         self.columns = list(columns)
@@ -108,35 +120,62 @@ class Grid(ScrollView, can_focus=True):
 
     def set_rows(self, rows: Sequence[tuple[str, Sequence[object]]], cursor: int | None = None) -> None:
         """Replace every row: ``(key, cells)``; cells are cleaned of control characters here."""
-        self._keys = [key for key, _ in rows]
-        self._rows = [tuple(safe(c) for c in cells) for _, cells in rows]
-        self._index = {key: i for i, key in enumerate(self._keys)}
-        self._natural = [cell_len(c.label) for c in self.columns]
-        for row in self._rows:
-            for i, text in enumerate(row):
-                if cell_len(text) > self._natural[i]:
-                    self._natural[i] = cell_len(text)
+        made = [tuple(safe(c) for c in cells) for _, cells in rows]
+        natural = [max((cell_len(row[i]) for row in made), default=0) for i in range(len(self.columns))]
+        self.set_source([key for key, _ in rows], made.__getitem__, natural, cursor)
+
+    def set_source(self, keys: Sequence[str], make: RowMaker, natural: Sequence[int | None],
+                   cursor: int | None = None) -> None:
+        """Replace every row by ``keys`` and ``make(index)``, called only for the rows drawn or read.
+
+        ``natural`` is each column's longest cell, None where it is not worth
+        finding out (the column then takes its ``limit``).
+        """
+        if keys is not self._keys:
+            self._keys, self._index = keys, None
+        self._make, self._made = make, {}
+        self._natural = [max(cell_len(c.label), c.limit if n is None else n) for c, n in zip(self.columns, natural)]
         self._layout()
         keep = self.cursor if cursor is None else cursor
-        self.cursor = max(0, min(keep, len(self._rows) - 1))
+        self.cursor = max(0, min(keep, len(self._keys) - 1))
+
+    def remake(self, make: RowMaker) -> None:
+        """Same keys and widths, new cells (for example after a result came in)."""
+        self._make, self._made = make, {}
+        self.refresh()
+
+    def row(self, index: int) -> tuple[str, ...]:
+        """The cells of row ``index``, cleaned, built on first use."""
+        made = self._made.get(index)
+        if made is None:
+            made = self._made[index] = tuple(safe(c) for c in self._make(index))
+        return made
 
     def update_cell(self, key: str, column: str, value: object) -> None:
-        i = self._index[key]
+        i = self._require(key)
         col = [c.key for c in self.columns].index(column)
-        row = list(self._rows[i])
+        row = list(self.row(i))
         row[col] = safe(value)
-        self._rows[i] = tuple(row)
+        self._made[i] = tuple(row)
         self.refresh()
 
     def cell(self, key: str, column: str) -> str:
-        return self._rows[self._index[key]][[c.key for c in self.columns].index(column)]
+        return self.row(self._require(key))[[c.key for c in self.columns].index(column)]
 
     def index_of(self, key: str) -> int | None:
+        if self._index is None:
+            self._index = {k: i for i, k in enumerate(self._keys)}
         return self._index.get(key)
+
+    def _require(self, key: str) -> int:
+        i = self.index_of(key)
+        if i is None:
+            raise KeyError(key)
+        return i
 
     @property
     def cursor_key(self) -> str | None:
-        return self._keys[self.cursor] if self._rows else None
+        return self._keys[self.cursor] if self._keys else None
 
     # -- layout and drawing ----------------------------------------------------------------
 
@@ -149,7 +188,7 @@ class Grid(ScrollView, can_focus=True):
         for i in flex:
             fixed[i] = max(6, min(self._natural[i], spare // len(flex))) if spare > 0 else 6
         self._widths = fixed
-        self.virtual_size = Size(width, len(self._rows) + 1)
+        self.virtual_size = Size(width, len(self._keys) + 1)
         self.refresh()
 
     def on_resize(self, event: events.Resize) -> None:
@@ -164,7 +203,7 @@ class Grid(ScrollView, can_focus=True):
             style = self.get_component_rich_style("grid--header")
             return Strip([Segment(fit(self._line([c.label for c in self.columns]), width), style)])
         index = int(self.scroll_offset.y) + y - 1
-        if index >= len(self._rows):
+        if index >= len(self._keys):
             return Strip.blank(width, self.rich_style)
         if index == self.cursor:
             style = self.get_component_rich_style("grid--cursor")
@@ -172,7 +211,7 @@ class Grid(ScrollView, can_focus=True):
             style = self.get_component_rich_style("grid--odd")
         else:
             style = self.rich_style
-        return Strip([Segment(fit(self._line(self._rows[index]), width), style)])
+        return Strip([Segment(fit(self._line(self.row(index)), width), style)])
 
     # -- cursor ----------------------------------------------------------------------------
 
@@ -184,12 +223,12 @@ class Grid(ScrollView, can_focus=True):
         elif new >= top + body:
             self.scroll_to(y=new - body + 1, animate=False, immediate=True)
         self.refresh()
-        if self._rows:
+        if self._keys:
             self.post_message(self.Highlighted(self, new, self._keys[new]))
 
     def move_to(self, row: int) -> None:
-        if self._rows:
-            self.cursor = max(0, min(row, len(self._rows) - 1))
+        if self._keys:
+            self.cursor = max(0, min(row, len(self._keys) - 1))
 
     def action_move(self, step: int) -> None:
         self.move_to(self.cursor + step)
@@ -198,13 +237,13 @@ class Grid(ScrollView, can_focus=True):
         self.move_to(self.cursor + step * max(1, self.size.height - 2))
 
     def action_jump(self, row: int) -> None:
-        self.move_to(row if row >= 0 else len(self._rows) - 1)
+        self.move_to(row if row >= 0 else len(self._keys) - 1)
 
     def action_select(self) -> None:
-        if self._rows:
+        if self._keys:
             self.post_message(self.Selected(self, self.cursor, self._keys[self.cursor]))
 
     def on_click(self, event: events.Click) -> None:
         row = int(self.scroll_offset.y) + event.y - 1
-        if event.y >= 1 and row < len(self._rows):
+        if event.y >= 1 and row < len(self._keys):
             self.move_to(row)

@@ -35,11 +35,14 @@ class LogPlace(Place):
         log = self.desk.store.log
         grid = self.query_one("#events", Grid)
         undone = {s.event.target for s in log if isinstance(s.event, Undone)}
-        grid.set_rows([
-            (str(s.seq), (str(s.seq), s.recorded_at[:19].replace("T", " "), describe(s.event),
-                          "undone" if s.seq in undone else ""))
-            for s in log
-        ], cursor=len(log) - 1)
+
+        def row(i: int) -> tuple[str, ...]:
+            s = log[i]
+            return (str(s.seq), s.recorded_at[:19].replace("T", " "), describe(s.event),
+                    "undone" if s.seq in undone else "")
+
+        keys = [str(s.seq) for s in log]
+        grid.set_source(keys, row, [len(keys[-1]) if keys else 0, 19, None, 6], cursor=len(log) - 1)
         target = undo_target(log)
         self.query_one("#log-status", Label).update(cell(
             f"{len(log)} events · u undoes: {describe(target.event)}" if target else f"{len(log)} events · nothing to undo"))

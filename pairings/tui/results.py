@@ -17,8 +17,8 @@ from pairings.errors import InputError
 from pairings.state import EventState, Result, Round, RoundState
 from pairings.tui.base import Place
 from pairings.tui.dialogs import ConfirmDialog
-from pairings.tui.grid import Column, Grid
-from pairings.tui.text import RESULT_WORDS, cell, name, points
+from pairings.tui.grid import Column, Grid, RowMaker
+from pairings.tui.text import RESULT_WORDS, cell, name, points, widest
 
 RESULT_KEYS: dict[str, Result] = {
     "f": Result.FIRST_WINS,
@@ -90,21 +90,24 @@ class ResultsPlace(Place):
                 Column("board", "Bd", 4), Column("first", sides[0], flex=True), Column("p1", "Pts", 4),
                 Column("second", sides[1], flex=True), Column("p2", "Pts", 4), Column("result", "Result", 32),
             ])
-            grid.set_rows([
-                (str(g.board), (
-                    str(g.board), name(state, g.first), points(state.records[g.first].score_before(rnd.number)),
-                    name(state, g.second), points(state.records[g.second].score_before(rnd.number)),
-                    result_text(g.result),
-                ))
-                for g in rnd.games
+            grid.set_source([str(g.board) for g in rnd.games], self._row_maker(state, rnd), [
+                4, widest(name(state, g.first) for g in rnd.games), 4,
+                widest(name(state, g.second) for g in rnd.games), 4, 32,
             ])
             self._shown = shape
             self.move_to_open(0)
             return
-        for g in rnd.games:
-            text = result_text(g.result)
-            if grid.cell(str(g.board), "result") != text:
-                grid.update_cell(str(g.board), "result", text)
+        grid.remake(self._row_maker(state, rnd))
+
+    @staticmethod
+    def _row_maker(state: EventState, rnd: Round) -> RowMaker:
+        def row(i: int) -> tuple[str, ...]:
+            g = rnd.games[i]
+            return (str(g.board), name(state, g.first), points(state.records[g.first].score_before(rnd.number)),
+                    name(state, g.second), points(state.records[g.second].score_before(rnd.number)),
+                    result_text(g.result))
+
+        return row
 
     def show_entry(self) -> None:
         text = f"Board: {self.typed}_" if self.typed else "Board: (the one under the cursor)"

@@ -18,7 +18,7 @@ from pairings.state import ByeKind, EventState, Player, PlayerId, Status
 from pairings.tui.base import Action, Place
 from pairings.tui.dialogs import Field, FormDialog
 from pairings.tui.grid import Column, Grid
-from pairings.tui.text import points, safe
+from pairings.tui.text import points, safe, widest
 
 
 PlayerAction = Callable[[EventState, str, int | None, str | None], Sequence[Event]]
@@ -68,6 +68,11 @@ class RosterPlace(Place):
         yield Input(placeholder="/ filter by name (Esc: back to the list)", id="filter", compact=True)
         yield Grid(id="players")
 
+    def __init__(self) -> None:
+        super().__init__()
+        self._index: tuple[int, list[Player], list[str], dict[PlayerId, str]] | None = None
+        """Per state head: the players, their names casefolded (for the filter) and their status."""
+
     def on_mount(self) -> None:
         grid = self.query_one("#players", Grid)
         grid.set_columns([Column("id", "Id", limit=8), Column("name", "Name", flex=True),
@@ -75,12 +80,26 @@ class RosterPlace(Place):
                           Column("score", "Score", 5), Column("status", "Status", limit=24)])
         grid.focus()
 
+    def index(self, state: EventState) -> tuple[list[Player], list[str], dict[PlayerId, str]]:
+        if self._index is None or self._index[0] != state.head:
+            players = list(state.players.values())
+            self._index = (state.head, players, [p.name.casefold() for p in players],
+                           {p.id: status_words(state, p) for p in players})
+        return self._index[1:]
+
     def show(self, state: EventState) -> None:
+        players, folded, status = self.index(state)
         wanted = self.query_one("#filter", Input).value.strip().casefold()
-        self.query_one("#players", Grid).set_rows([
-            (p.id, (p.id, p.name, str(p.rating) if p.rating is not None else "unrated", p.club or "",
-                    points(state.score(p.id)), status_words(state, p)))
-            for p in state.players.values() if not wanted or wanted in p.name.casefold()
+        shown = [p for p, f in zip(players, folded) if wanted in f] if wanted else players
+
+        def row(i: int) -> tuple[str, ...]:
+            p = shown[i]
+            return (p.id, p.name, str(p.rating) if p.rating is not None else "unrated", p.club or "",
+                    points(state.score(p.id)), status[p.id])
+
+        self.query_one("#players", Grid).set_source([p.id for p in shown], row, [
+            widest(p.id for p in shown), widest(p.name for p in shown), 7, widest(p.club or "" for p in shown), 5,
+            widest(status[p.id] for p in shown),
         ])
 
     def selected(self) -> PlayerId | None:

@@ -28,7 +28,9 @@ from pairings.tui import overrides as ov
 from pairings.tui.base import Place
 from pairings.tui.dialogs import ConfirmDialog, Field, FormDialog
 from pairings.tui.grid import Column, Grid
-from pairings.tui.text import cell, describe_round, flag_words, name, open_flags, points, safe, short_result
+from pairings.tui.text import (
+    cell, describe_round, flag_words, name, open_flags, points, safe, short_result, widest,
+)
 from pairings.tui.why import why_lines
 
 WHY_DELAY = 0.25
@@ -137,13 +139,17 @@ class RoundPlace(Place):
                     Column("second", sides[1], flex=True), Column("p2", "Pts", 4), Column("result", "Res", 3),
                     Column("flags", "Flags", limit=14),
                 ])
-            grid.set_rows([
-                (str(g.board), (
-                    str(g.board), name(state, g.first), points(state.records[g.first].score_before(rnd.number)),
-                    name(state, g.second), points(state.records[g.second].score_before(rnd.number)),
-                    short_result(g.result), " ".join(g.flags) or "-",
-                ))
-                for g in rnd.games
+            games = rnd.games
+
+            def row(i: int) -> tuple[str, ...]:
+                g = games[i]
+                return (str(g.board), name(state, g.first), points(state.records[g.first].score_before(rnd.number)),
+                        name(state, g.second), points(state.records[g.second].score_before(rnd.number)),
+                        short_result(g.result), " ".join(g.flags) or "-")
+
+            grid.set_source([str(g.board) for g in games], row, [
+                3, widest(name(state, g.first) for g in games), 4, widest(name(state, g.second) for g in games), 4, 3,
+                widest(" ".join(g.flags) or "-" for g in games),
             ])
             self._boards = shape
         byes.update(cell("Byes: " + ("; ".join(
@@ -195,7 +201,7 @@ class RoundPlace(Place):
         _, number, board = self._wanted
         self.explain(self.state, number, board)
 
-    @work(thread=True, group="why")
+    @work(thread=True, group="why", description="explain a board")
     def explain(self, state: EventState, number: int, board: int) -> None:
         try:
             lines = why_lines(state, board)
@@ -251,7 +257,7 @@ class RoundPlace(Place):
         else:
             go()
 
-    @work(thread=True, exclusive=True, group="engine")
+    @work(thread=True, exclusive=True, group="engine", description="draft the next round")
     def draft(self, state: EventState, base: int) -> None:
         start = perf_counter()
         try:
@@ -285,7 +291,7 @@ class RoundPlace(Place):
         self.busy(f"{plan.title}: working out the cost …")
         self.preview(self.state, plan, base)
 
-    @work(thread=True, exclusive=True, group="engine")
+    @work(thread=True, exclusive=True, group="engine", description="preview an override")
     def preview(self, state: EventState, plan: ov.Plan, base: int) -> None:
         try:
             _, difference = ov.preview(state, plan, self.cache)

@@ -16,7 +16,7 @@ from pairings.errors import InputError
 from pairings.state import EventState
 from pairings.tui.base import Place
 from pairings.tui.grid import Column, Grid
-from pairings.tui.text import cell, points
+from pairings.tui.text import cell, points, widest
 
 if TYPE_CHECKING:  # standings loads in the worker
     from pairings.standings import Standings
@@ -43,7 +43,7 @@ class StandingsPlace(Place):
         self.query_one("#standings-status", Label).update("working out the standings …")
         self.compute(state)
 
-    @work(thread=True, exclusive=True, group="standings")
+    @work(thread=True, exclusive=True, group="standings", description="work out the standings")
     def compute(self, state: EventState) -> None:
         from pairings.standings import standings
 
@@ -73,8 +73,13 @@ class StandingsPlace(Place):
                           Column("points", "Points", 6)]
                          + [Column(key, TIEBREAKS[key].short, limit=8) for key in st.tiebreaks]
                          + [Column("status", "Status", 9)])
-        grid.set_rows([
-            (row.player, (str(row.rank), row.name, points(row.points), *(f"{row.tiebreaks[k]:g}" for k in st.tiebreaks),
-                          "withdrawn" if row.withdrawn else ""))
-            for row in st.rows
+        rows = st.rows
+
+        def row(i: int) -> tuple[str, ...]:
+            r = rows[i]
+            return (str(r.rank), r.name, points(r.points), *(f"{r.tiebreaks[k]:g}" for k in st.tiebreaks),
+                    "withdrawn" if r.withdrawn else "")
+
+        grid.set_source([r.player for r in rows], row, [
+            widest(str(r.rank) for r in rows), widest(r.name for r in rows), 6, *(widest(f"{r.tiebreaks[k]:g}" for r in rows) for k in st.tiebreaks), 9,
         ])

@@ -8,6 +8,9 @@ which drops control and escape characters, and is wrapped in a rich ``Text``
 
 from __future__ import annotations
 
+from typing import Iterable
+
+from rich.cells import cell_len
 from rich.text import Text
 
 from pairings.state import EventState, PlayerId, Result, Round, RoundState
@@ -22,6 +25,11 @@ def safe(value: object) -> str:
 def cell(value: object) -> Text:
     """A label that is never read as markup."""
     return Text(safe(value), no_wrap=True, overflow="ellipsis")
+
+
+def widest(values: Iterable[object]) -> int:
+    """Cells taken by the longest of ``values`` once cleaned (a table column's natural width)."""
+    return max((cell_len(safe(v)) for v in values), default=0)
 
 
 def points(value: float | None) -> str:
