@@ -386,7 +386,7 @@ class _Blossom:
         return Dual(self.d[:self.n], out)
 
 
-def perfect_matching(n: int, edges: Sequence[Edge], warm: Sequence[int] = ()
+def perfect_matching(n: int, edges: Sequence[Edge], warm: Sequence[int] = (), dual: Dual | None = None
                      ) -> tuple[list[tuple[int, int]], Dual] | None:
     """A maximum-weight perfect matching and an optimal dual, or None if there is none.
 
@@ -401,6 +401,9 @@ def perfect_matching(n: int, edges: Sequence[Edge], warm: Sequence[int] = ()
         heuristic start: the dual is lowered around them by a few passes of
         coordinate descent, and those that end tight and disjoint are matched
         before the search. The result does not depend on ``warm`` being good.
+    dual
+        An optimal dual of a previous solve on fewer edges (column
+        generation), another heuristic start: see :func:`_carried`.
     """
     if n % 2:
         return None
@@ -413,6 +416,8 @@ def perfect_matching(n: int, edges: Sequence[Edge], warm: Sequence[int] = ()
             d[v], seen[v] = w, True
     if not all(seen):
         return None
+    if dual is not None:
+        d = _carried(edges, dual)
     _tighten(n, edges, d, warm)
     mate = [-1] * n
     for k in warm:
@@ -427,6 +432,27 @@ def perfect_matching(n: int, edges: Sequence[Edge], warm: Sequence[int] = ()
         return None
     pairs = sorted({tuple(sorted((v, run.end[run.mate[v]]))) for v in range(n)})
     return [(u, v) for u, v in pairs], run.dual()
+
+
+def _carried(edges: Sequence[Edge], dual: Dual) -> list[int]:
+    """A feasible flat doubled dual from ``dual``: each vertex takes the ``z_B`` of its blossoms.
+
+    With ``d_v = y2_v + sum(z_B : v in B)`` every edge's doubled reduced cost
+    gains ``sum(z_B : B holds exactly one end)`` >= 0, so ``d`` is feasible
+    wherever ``dual`` was and edges inside blossoms stay tight; then each
+    edge that is still violated (a new one) raises one end by the deficit.
+    Matched edges leaving a blossom lose tightness, so a few vertices start
+    exposed; the rest of the previous matching can be kept.
+    """
+    d = list(dual.y2)
+    for members, z in dual.blossoms:
+        for x in members:
+            d[x] += z
+    for u, v, w in edges:
+        short = 2 * w - d[u] - d[v]
+        if short > 0:
+            d[u] += short
+    return d
 
 
 def _tighten(n: int, edges: Sequence[Edge], d: list[int], warm: Sequence[int], passes: int = 3) -> None:

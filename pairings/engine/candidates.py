@@ -322,7 +322,8 @@ def certified_matching(n: int, u: IntArray, v: IntArray, w: AnyArray, rank: IntA
     Start from the edges with ``rank <= window`` (each player's partners
     around the rank-order ideal, and every bye edge); solve them (compiled
     solver, then :func:`blossom.perfect_matching` warm-started from its
-    answer, for the dual); certify on every edge (:mod:`certificate`); add the
+    answer and from the previous round's dual and matching, for the dual);
+    certify on every edge (:mod:`certificate`); add the
     edges with negative reduced cost (or, when the subgraph has no perfect
     matching, widen the window) and repeat. After ``rounds`` solves, the
     compiled solver runs on all edges (still exact, only slower).
@@ -331,6 +332,7 @@ def certified_matching(n: int, u: IntArray, v: IntArray, w: AnyArray, rank: IntA
     if seed is not None:
         mask |= seed
     wlist = w.tolist()
+    last: tuple[list[tuple[int, int]], blossom.Dual] | None = None
     for attempt in range(1, rounds + 1):
         idx = np.flatnonzero(mask)
         sub = list(zip(u[idx].tolist(), v[idx].tolist(), [wlist[k] for k in idx.tolist()]))
@@ -340,10 +342,11 @@ def certified_matching(n: int, u: IntArray, v: IntArray, w: AnyArray, rank: IntA
             mask |= rank <= window
             continue
         where = {(a, b): k for k, (a, b, _) in enumerate(sub)}
-        result = blossom.perfect_matching(n, sub, [where[p] for p in found])
+        warm = [where[p] for p in (last[0] if last else []) + found]
+        result = blossom.perfect_matching(n, sub, warm, last[1] if last else None)
         if result is None:  # cannot happen after a perfect matching was found; stay exact anyway
             break
-        pairs, dual = result
+        pairs, dual = last = result
         rc = certificate.reduced_costs(u, v, w, dual)
         bad = rc < 0
         if not bad.any() and certificate.certify(n, u, v, w, pairs, dual):

@@ -30,18 +30,65 @@ import numpy as np
 from numpy.typing import NDArray
 
 from pairings.engine.blossom import Dual
-from pairings.engine.vector import AnyArray
+from pairings.engine.vector import AnyArray, IntArray
 
 
-def reduced_costs(u: NDArray[np.int64], v: NDArray[np.int64], w: AnyArray, dual: Dual
-                  ) -> AnyArray:
-    """Doubled reduced costs ``2 (y_u + y_v + sum z_B - w_uv)`` of edges ``(u[k], v[k], w[k])``."""
-    big = w.dtype == object or max(map(abs, dual.y2), default=0) > 2**60 or \
-        any(z > 2**60 for _, z in dual.blossoms)
-    dtype = object if big else np.int64
-    y2 = np.array(dual.y2, dtype=dtype)
-    ww = w.astype(dtype)
-    rc = y2[u] + y2[v] - 2 * ww
+SHIFT = 40
+"""Limb width: exact values are split as ``hi * 2**SHIFT + lo`` with ``0 <= lo < 2**SHIFT``."""
+CLIP = 2**62
+
+
+def _limbs(x: AnyArray) -> tuple[IntArray, IntArray] | None:
+    """``(hi, lo)`` int64 limbs of exact integers ``x``, or None when ``hi`` would not fit in 2**56."""
+    if x.dtype != object:
+        return x >> SHIFT, x & ((1 << SHIFT) - 1)
+    values = x.tolist()
+    if max(map(abs, values), default=0) >= 2**(56 + SHIFT):
+        return None
+    return (np.array([a >> SHIFT for a in values], dtype=np.int64),
+            np.array([a & ((1 << SHIFT) - 1) for a in values], dtype=np.int64))
+
+
+def _top(x: IntArray) -> int:
+    return int(np.abs(x).max()) if len(x) else 0
+
+
+def reduced_costs(u: IntArray, v: IntArray, w: AnyArray, dual: Dual) -> IntArray:
+    """Doubled reduced costs ``2 (y_u + y_v + sum z_B - w_uv)`` of edges ``(u[k], v[k], w[k])``.
+
+    Exact where ``|rc| < 2**62``; larger values are clipped to ``+-2**62``
+    (their sign stays exact), which is all the certificate and the column
+    generation read. Computed on two int64 limbs per value, so weights and
+    duals beyond 64 bits (up to about 96) cost no Python integers per edge.
+    """
+    n = len(dual.y2)
+    y = _limbs(np.array(dual.y2, dtype=object))
+    ww = _limbs(w)
+    z = _limbs(np.array([zb for _, zb in dual.blossoms], dtype=object))
+    if y is None or ww is None or z is None or 2 * (_top(y[0]) + _top(ww[0]) + int(np.abs(z[0]).sum())) >= 2**62:
+        return _exact(u, v, w, dual)  # the high limbs' sum could overflow int64
+    hi = y[0][u] + y[0][v] - 2 * ww[0]
+    lo = y[1][u] + y[1][v] - 2 * ww[1]
+    for (members, _), zh, zl in zip(dual.blossoms, z[0].tolist(), z[1].tolist()):
+        inside = np.zeros(n, dtype=bool)
+        inside[list(members)] = True
+        both = inside[u] & inside[v]
+        if both.any():
+            hi[both] += 2 * zh
+            lo[both] += 2 * zl
+    hi += lo >> SHIFT  # carry: now rc = hi * 2**SHIFT + lo with 0 <= lo < 2**SHIFT
+    lo &= (1 << SHIFT) - 1
+    limit = CLIP >> SHIFT
+    small = np.abs(hi) < limit
+    rc = np.where(hi < 0, -CLIP, CLIP)
+    rc[small] = (hi[small] << SHIFT) + lo[small]
+    return np.clip(rc, -CLIP, CLIP)
+
+
+def _exact(u: IntArray, v: IntArray, w: AnyArray, dual: Dual) -> IntArray:
+    """:func:`reduced_costs` with Python integers (values beyond the two limbs), clipped the same way."""
+    y2 = np.array(dual.y2, dtype=object)
+    rc = y2[u] + y2[v] - 2 * w.astype(object)
     n = len(dual.y2)
     for members, z in dual.blossoms:
         inside = np.zeros(n, dtype=bool)
@@ -49,7 +96,7 @@ def reduced_costs(u: NDArray[np.int64], v: NDArray[np.int64], w: AnyArray, dual:
         both = inside[u] & inside[v]
         if both.any():
             rc[both] = rc[both] + 2 * z
-    return np.asarray(rc)
+    return np.array([max(-CLIP, min(CLIP, x)) for x in rc.tolist()], dtype=np.int64)
 
 
 def certify(n: int, u: NDArray[np.int64], v: NDArray[np.int64], w: AnyArray,

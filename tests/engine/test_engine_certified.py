@@ -239,3 +239,22 @@ def test_ideal_partners_equal_brute_force(n: int, played: int, seed: int, rough:
     for near in (1, 2, 4):
         i, j = candidates.ideal_partners(a, near)
         assert set(zip(i.tolist(), j.tolist())) == ideal_partners_by_hand(a, near)
+
+
+@settings(max_examples=60, deadline=None)
+@given(st.integers(0, 10**6), st.sampled_from([2**20, 2**70, 2**95, 2**130]))
+def test_reduced_costs_equal_python_integers(seed: int, top: int) -> None:
+    # Exact Python-integer arithmetic as the reference for the two-limb int64 computation.
+    rng = random.Random(seed)
+    n = 8
+    edges = [(i, j, rng.randint(0, top)) for i in range(n) for j in range(i + 1, n) if rng.random() < 0.7]
+    if not edges:
+        return
+    y2 = [rng.randint(-top, 2 * top) for _ in range(n)]
+    blossoms = [(frozenset(rng.sample(range(n), 3)), rng.randint(0, top)) for _ in range(3)]
+    u, v, _ = arrays([(a, b, 0) for a, b, _ in edges])
+    w = np.array([e[2] for e in edges], dtype=object if top > 2**60 else np.int64)
+    got = reduced_costs(u, v, w, Dual(y2, blossoms)).tolist()
+    for (a, b, wt), rc in zip(edges, got):
+        exact = y2[a] + y2[b] - 2 * wt + 2 * sum(z for m, z in blossoms if a in m and b in m)
+        assert rc == max(-2**62, min(2**62, exact))
