@@ -25,8 +25,9 @@ from pairings.errors import ConflictError, InputError, RosterError
 from pairings.state import EventState
 from pairings.store import EventStore
 from pairings.tui.base import Action, Place
-from pairings.tui.dialogs import Field, FormDialog, HelpDialog
+from pairings.tui.dialogs import Field, FormDialog, HelpDialog, open_dialog
 from pairings.tui.log import LogPlace
+from pairings.tui.offload import Offload
 from pairings.tui.results import ResultsPlace
 from pairings.tui.roster import RosterPlace
 from pairings.tui.round import WIDE, RoundPlace
@@ -103,6 +104,8 @@ class DeskApp(App[None]):
         self._start = start
         self.last_output: Path | None = None
         """Where the latest printout went."""
+        self.offload = Offload(store.path)
+        """Where the engine works for the desk (a child process for big fields)."""
         for name, place in PLACES.items():
             self.add_mode(name, place)
 
@@ -114,6 +117,9 @@ class DeskApp(App[None]):
         await self.switch_mode(self._start)
         self.set_interval(self._poll_seconds, self.poll)
         self.call_after_refresh(settle_heap)
+
+    def on_unmount(self) -> None:
+        self.offload.close()
 
     # -- state -----------------------------------------------------------------------------
 
@@ -171,7 +177,7 @@ class DeskApp(App[None]):
         return sections
 
     def action_help(self) -> None:
-        self.push_screen(HelpDialog(self.help_sections()))
+        open_dialog(self, HelpDialog(self.help_sections()))
 
     def get_system_commands(self, screen: Screen[object]) -> Iterable[SystemCommand]:
         for b in self.BINDINGS:
@@ -231,7 +237,7 @@ class DeskApp(App[None]):
             Field("round", "Round (empty: the latest)", ""),
             Field("file", "File (empty: beside the event file)", "", str(self.default_output("pairings", "text"))),
         ]
-        self.push_screen(FormDialog("Print / export", fields, check), chosen)
+        open_dialog(self, FormDialog("Print / export", fields, check), chosen)
 
     @work(thread=True, exclusive=True, group="output", description="write a printout")
     def write_report(self, state: EventState, kind: str, fmt: str, number: int | None, path: Path) -> None:
@@ -257,4 +263,8 @@ class DeskApp(App[None]):
 def run_desk(path: Path) -> None:
     """Open the event file at ``path`` in the desk until the organiser quits."""
     with EventStore.open(path) as store:
-        DeskApp(store).run()
+        app = DeskApp(store)
+        try:
+            app.run()
+        finally:
+            app.offload.close()

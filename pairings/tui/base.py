@@ -45,11 +45,11 @@ class KeyLine(Horizontal):
 
     def __init__(self, bindings: Sequence[object]) -> None:
         super().__init__()
-        self._bindings = [b for b in bindings if isinstance(b, Binding) and b.show and b.description]
+        self._shown_keys = [b for b in bindings if isinstance(b, Binding) and b.show and b.description]
 
     def compose(self) -> ComposeResult:
         parts: list[str | tuple[str, str]] = []
-        for b in self._bindings:
+        for b in self._shown_keys:
             parts += [(f" {self.app.get_key_display(b)} ", "bold $footer-key-foreground"), b.description]
         yield Label(Content.assemble(*parts), classes="keys")
         yield Label(Content.assemble("▏", ("^p", "bold $footer-key-foreground"), " palette"), classes="palette")

@@ -12,7 +12,7 @@ from pairings.logtext import describe
 from pairings.state import EventState
 from pairings.store import undo_target
 from pairings.tui.base import Place
-from pairings.tui.dialogs import ConfirmDialog
+from pairings.tui.dialogs import ConfirmDialog, open_dialog
 from pairings.tui.grid import Column, Grid
 from pairings.tui.text import cell
 
@@ -58,5 +58,5 @@ class LogPlace(Place):
             if yes:
                 self.apply(lambda s: actions.undo(self.desk.store.log), f"undone: {describe(target.event)}", base)
 
-        self.app.push_screen(ConfirmDialog("Undo this action?", [f"{target.seq}: {describe(target.event)}"]), done)
+        open_dialog(self.app, ConfirmDialog("Undo this action?", [f"{target.seq}: {describe(target.event)}"]), done)
 

@@ -94,6 +94,23 @@ def bye_plan(state: EventState, rnd: Round, player: PlayerId) -> Plan:
     return _repair(head, Overrides(pinned=kept, bye=player), head)
 
 
+PlanSpec = tuple[str, tuple[str, ...]]
+"""An override as plain data, to send to another process: ``("pin", (board,))``, ``("forbid", (board,))``,
+``("bye", (player,))`` or ``("swap", (player, player))``; board numbers as text."""
+
+
+def make_plan(state: EventState, spec: PlanSpec) -> Plan:
+    """The plan ``spec`` describes, on the open draft of ``state``."""
+    kind, args = spec
+    if kind == "swap":
+        return swap_plan(state, PlayerId(args[0]), PlayerId(args[1]))
+    rnd = actions.open_draft(state)
+    if kind == "bye":
+        return bye_plan(state, rnd, PlayerId(args[0]))
+    make = {"pin": pin_plan, "forbid": forbid_plan}[kind]
+    return make(state, rnd, int(args[0]))
+
+
 def optimum_basis(state: EventState) -> Hashable:
     """Everything the engine's optimum for the next round depends on (not the draft itself)."""
     number = state.next_round_number

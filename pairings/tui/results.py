@@ -16,7 +16,7 @@ from pairings import actions
 from pairings.errors import InputError
 from pairings.state import EventState, Result, Round, RoundState
 from pairings.tui.base import Place
-from pairings.tui.dialogs import ConfirmDialog
+from pairings.tui.dialogs import ConfirmDialog, open_dialog
 from pairings.tui.grid import Column, Grid, RowMaker
 from pairings.tui.text import RESULT_WORDS, cell, name, points, widest
 
@@ -200,5 +200,5 @@ class ResultsPlace(Place):
                 write(True)
 
         question = f"Board {board} has {game.result.value}; change it to {what}?"
-        self.app.push_screen(ConfirmDialog(question, [
+        open_dialog(self.app, ConfirmDialog(question, [
             f"{name(self.state, game.first)} – {name(self.state, game.second)}"]), confirmed)

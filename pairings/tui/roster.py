@@ -16,7 +16,7 @@ from pairings.errors import InputError, RosterError
 from pairings.roster import decode, import_roster
 from pairings.state import ByeKind, EventState, Player, PlayerId, Status
 from pairings.tui.base import Action, Place
-from pairings.tui.dialogs import Field, FormDialog
+from pairings.tui.dialogs import Field, FormDialog, open_dialog
 from pairings.tui.grid import Column, Grid
 from pairings.tui.text import points, safe, widest
 
@@ -150,7 +150,7 @@ class RosterPlace(Place):
             Field("rating", "Rating (empty: unrated)", str(player.rating) if player and player.rating is not None else ""),
             Field("club", "Club", (player.club or "") if player else ""),
         ]
-        self.app.push_screen(FormDialog(title, fields, check), done)
+        open_dialog(self.app, FormDialog(title, fields, check), done)
 
     def action_add(self) -> None:
         self._player_form("Add player", None, lambda s, n, r, c: actions.add_player(s, n, r, c))
@@ -177,7 +177,7 @@ class RosterPlace(Place):
             if values is not None:
                 self.apply(lambda s: actions.withdraw(s, pid, None, values["reason"]), f"{who}: withdrawn", base)
 
-        self.app.push_screen(FormDialog(f"Withdraw {who}", [Field("reason", "Reason (optional)")]), done)
+        open_dialog(self.app, FormDialog(f"Withdraw {who}", [Field("reason", "Reason (optional)")]), done)
 
     def action_reinstate(self) -> None:
         self._quick("back in", actions.reinstate)
@@ -220,4 +220,4 @@ class RosterPlace(Place):
                     self.notify(f"imported {len(self.state.players) - before} players")
 
         intro = ["A CSV file with a header row: name (required), rating, club, id."]
-        self.app.push_screen(FormDialog("Import a roster", [Field("path", "CSV file")], check, intro), done)
+        open_dialog(self.app, FormDialog("Import a roster", [Field("path", "CSV file")], check, intro), done)

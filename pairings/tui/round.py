@@ -9,7 +9,7 @@ from __future__ import annotations
 
 from dataclasses import dataclass, field
 from time import perf_counter
-from typing import Callable, Sequence
+from typing import Sequence
 
 from textual import on, work
 from textual.app import ComposeResult
@@ -26,20 +26,18 @@ from pairings.events import Event
 from pairings.state import EventState, PlayerId, Round, RoundState
 from pairings.tui import overrides as ov
 from pairings.tui.base import Place
-from pairings.tui.dialogs import ConfirmDialog, Field, FormDialog
+from pairings.tui.dialogs import ConfirmDialog, Field, FormDialog, open_dialog
 from pairings.tui.grid import Column, Grid
+from pairings.tui.offload import Job
 from pairings.tui.text import (
     cell, describe_round, flag_words, name, open_flags, points, safe, short_result, widest,
 )
-from pairings.tui.why import why_lines
 
 WHY_DELAY = 0.25
 """Seconds the cursor rests on a board before the engine is asked why."""
 WIDE = 96
 """From this terminal width on the screen has the ``-wide`` class (desk.tcss), below ``-narrow``."""
 
-BoardPlan = Callable[[EventState, Round, int], ov.Plan]
-PlayersThen = Callable[[EventState, Round, list[PlayerId]], ov.Plan]
 
 
 class RoundPlace(Place):
@@ -58,13 +56,16 @@ class RoundPlace(Place):
 
     @dataclass
     class Drafted(Message):
+        """Events worked out by the engine, to append on ``base`` (a draft, or an override with its reason)."""
+
         events: Sequence[Event]
         base: int
-        seconds: float
+        done: str
 
     @dataclass
     class Previewed(Message):
-        plan: ov.Plan
+        title: str
+        spec: ov.PlanSpec
         difference: str
         base: int
 
@@ -83,7 +84,6 @@ class RoundPlace(Place):
         super().__init__()
         self.number: int | None = None
         """The round on screen; None follows the latest."""
-        self.cache = ov.OptimumCache()
         self._wanted: tuple[int, int, int] | None = None
         """(head, round, board) the Why panel should explain next."""
         self._explaining = False
@@ -199,16 +199,14 @@ class RoundPlace(Place):
             return
         self._explaining = True
         _, number, board = self._wanted
-        self.explain(self.state, number, board)
+        self.explain(self.state, number, Job("explain", self.state.head, board=board))
 
     @work(thread=True, group="why", description="explain a board")
-    def explain(self, state: EventState, number: int, board: int) -> None:
-        try:
-            lines = why_lines(state, board)
-        except InputError as exc:
-            lines = [f"alternatives not available: {exc}"]
+    def explain(self, state: EventState, number: int, job: Job) -> None:
+        outcome = self.desk.offload.run(state, job)
+        lines = list(outcome.lines) if not outcome.problem else [f"alternatives not available: {outcome.problem}"]
         if not get_current_worker().is_cancelled:
-            self.post_message(self.Explained(number, board, state.head, lines))
+            self.post_message(self.Explained(number, job.board, job.head, lines))
 
     @on(Explained)
     def explained(self, message: Explained) -> None:
@@ -249,29 +247,36 @@ class RoundPlace(Place):
             if yes:
                 self.number = None
                 self.busy(f"drafting round {state.next_round_number} of {len(state.players)} players …")
-                self.draft(state, base)
+                self.engine(state, Job("draft", base), "drafted in {seconds:.1f} s")
 
         if last is not None and last.state is RoundState.DRAFT and last.source != "engine":
             notes = [f"override: {n}" for n in last.notes]
-            self.app.push_screen(ConfirmDialog(f"Draft round {last.number} again from scratch?", notes), go)
+            open_dialog(self.app, ConfirmDialog(f"Draft round {last.number} again from scratch?", notes), go)
         else:
             go()
 
-    @work(thread=True, exclusive=True, group="engine", description="draft the next round")
-    def draft(self, state: EventState, base: int) -> None:
+    @work(thread=True, exclusive=True, group="engine", description="engine work")
+    def engine(self, state: EventState, job: Job, done: str, title: str = "") -> None:
+        """Run ``job`` (draft, preview or record) and hand its outcome to the screen.
+
+        ``done`` is the note once it is written (``{seconds}`` filled in), ``title`` names an override.
+        """
         start = perf_counter()
-        try:
-            events = actions.pair(state)
-        except InputError as exc:
-            self.post_message(self.EngineFailed(str(exc)))
+        outcome = self.desk.offload.run(state, job)
+        if get_current_worker().is_cancelled:
             return
-        if not get_current_worker().is_cancelled:
-            self.post_message(self.Drafted(events, base, perf_counter() - start))
+        if outcome.problem:
+            self.post_message(self.EngineFailed(f"{title}: {outcome.problem}" if title else outcome.problem))
+        elif job.kind == "preview":
+            assert job.plan is not None
+            self.post_message(self.Previewed(done, job.plan, outcome.difference, job.head))
+        else:
+            self.post_message(self.Drafted(outcome.events, job.head, done.format(seconds=perf_counter() - start)))
 
     @on(Drafted)
     def drafted(self, message: Drafted) -> None:
         self.busy(None)
-        self.apply(lambda s: message.events, f"drafted in {message.seconds:.1f} s", message.base)
+        self.apply(lambda s: message.events, message.done, message.base)
 
     @on(EngineFailed)
     def engine_failed(self, message: EngineFailed) -> None:
@@ -287,49 +292,42 @@ class RoundPlace(Place):
             return None
         return rnd
 
-    def start_preview(self, plan: ov.Plan, base: int) -> None:
-        self.busy(f"{plan.title}: working out the cost …")
-        self.preview(self.state, plan, base)
-
-    @work(thread=True, exclusive=True, group="engine", description="preview an override")
-    def preview(self, state: EventState, plan: ov.Plan, base: int) -> None:
-        try:
-            _, difference = ov.preview(state, plan, self.cache)
-        except InputError as exc:
-            self.post_message(self.EngineFailed(f"{plan.title}: {exc}"))
-            return
-        if not get_current_worker().is_cancelled:
-            self.post_message(self.Previewed(plan, difference, base))
+    def start_preview(self, spec: ov.PlanSpec, base: int) -> None:
+        title = ov.make_plan(self.state, spec).title
+        self.busy(f"{title}: working out the cost …")
+        self.engine(self.state, Job("preview", base, plan=spec), title, title)
 
     @on(Previewed)
     def previewed(self, message: Previewed) -> None:
         self.busy(None)
-        plan, base = message.plan, message.base
+        spec, base, title = message.spec, message.base, message.title
 
         def check(values: dict[str, str]) -> str | None:
             return None if values["reason"].strip() else "an override needs a short reason for the log"
 
         def done(values: dict[str, str] | None) -> None:
             if values is not None:
-                self.apply(lambda s: plan.record(s, values["reason"]), f"{plan.title}: done", base)
+                self.busy(f"{title}: recording it …")
+                self.engine(self.state, Job("record", base, plan=spec, reason=values["reason"]), f"{title}: done",
+                            title)
 
-        intro = [plan.title, f"Against the optimum: {message.difference}"]
-        self.app.push_screen(FormDialog("Override", [Field("reason", "Reason (goes into the log)")], check, intro),
+        intro = [title, f"Against the optimum: {message.difference}"]
+        open_dialog(self.app, FormDialog("Override", [Field("reason", "Reason (goes into the log)")], check, intro),
                              done)
 
-    def _board_plan(self, make: BoardPlan) -> None:
+    def _board_plan(self, kind: str) -> None:
         rnd, board = self.draft_round(), self.selected_board()
         if rnd is None or board is None:
             return
-        self.start_preview(make(self.state, rnd, board), self.shown_head)
+        self.start_preview((kind, (str(board),)), self.shown_head)
 
     def action_pin(self) -> None:
-        self._board_plan(ov.pin_plan)
+        self._board_plan("pin")
 
     def action_forbid(self) -> None:
-        self._board_plan(ov.forbid_plan)
+        self._board_plan("forbid")
 
-    def _ask_players(self, title: str, labels: Sequence[str], then: PlayersThen) -> None:
+    def _ask_players(self, title: str, labels: Sequence[str], kind: str) -> None:
         rnd, board = self.draft_round(), self.selected_board()
         if rnd is None:
             return
@@ -349,19 +347,17 @@ class RoundPlace(Place):
 
         def done(values: dict[str, str] | None) -> None:
             if values is not None:
-                self.start_preview(then(self.state, rnd, found), base)
+                self.start_preview((kind, tuple(found)), base)
 
         first = game.first if game is not None else ""
         fields = [Field(f"p{i}", label, first if i == 0 else "", "id or name") for i, label in enumerate(labels)]
-        self.app.push_screen(FormDialog(title, fields, check), done)
+        open_dialog(self.app, FormDialog(title, fields, check), done)
 
     def action_swap(self) -> None:
-        self._ask_players("Swap two players", ["Player", "Swap with"],
-                          lambda s, rnd, p: ov.swap_plan(s, p[0], p[1]))
+        self._ask_players("Swap two players", ["Player", "Swap with"], "swap")
 
     def action_bye(self) -> None:
-        self._ask_players("Move a player to or from the bye", ["Player"],
-                          lambda s, rnd, p: ov.bye_plan(s, rnd, p[0]))
+        self._ask_players("Move a player to or from the bye", ["Player"], "bye")
 
     def action_discard(self) -> None:
         rnd = self.draft_round()
@@ -374,7 +370,7 @@ class RoundPlace(Place):
                 self.apply(lambda s: actions.discard(s, values["reason"]), f"draft of round {rnd.number} discarded",
                            base)
 
-        self.app.push_screen(FormDialog(f"Discard the draft of round {rnd.number}",
+        open_dialog(self.app, FormDialog(f"Discard the draft of round {rnd.number}",
                                         [Field("reason", "Reason (optional)")]), done)
 
     def action_publish(self) -> None:
@@ -393,4 +389,4 @@ class RoundPlace(Place):
             if yes:
                 self.apply(actions.publish, f"round {rnd.number} published", base)
 
-        self.app.push_screen(ConfirmDialog(f"Publish round {rnd.number} ({len(rnd.games)} boards)?", lines), done)
+        open_dialog(self.app, ConfirmDialog(f"Publish round {rnd.number} ({len(rnd.games)} boards)?", lines), done)

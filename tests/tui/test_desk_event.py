@@ -79,7 +79,7 @@ async def drive(path: Path, sheet: Path) -> tuple[dict[str, object], list[list[o
                 dialog = app.screen
                 assert isinstance(dialog, FormDialog), notes.messages
                 intro = [str(w.content) for w in dialog.query(".dialog-intro")]
-                assert any("Against the optimum" in line for line in intro), (dialog._title, dialog.values(), str(dialog.query_one("#problem").content))
+                assert any("Against the optimum" in line for line in intro), (dialog._c_title, dialog.values(), str(dialog.query_one("#problem").content))
                 await type_text(pilot, "club mates")
                 await pilot.press("enter")
                 rnd = app.state.last_round
