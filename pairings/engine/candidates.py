@@ -209,7 +209,7 @@ def pruned_edges(fld: Field, players: Sequence[PlayerId], no_bye: Collection[Pla
         keep = _not_above(rows, bound, enc.levels)
         us.append(i[keep])
         vs.append(j[keep])
-        cs.append(rows[keep])
+        cs.append(rows[keep].astype(np.int32))  # small counts and ranks: half the memory
     n = len(players)
     if n % 2:
         byes = [(k, fld.bye(p)) for k, p in enumerate(players) if p not in no_bye]
@@ -217,7 +217,7 @@ def pruned_edges(fld: Field, players: Sequence[PlayerId], no_bye: Collection[Pla
         keep = _not_above(rows, bound, enc.levels)
         us.append(np.array([k for k, _ in byes], dtype=np.int64)[keep])
         vs.append(np.full(int(keep.sum()), n, dtype=np.int64))
-        cs.append(rows[keep])
+        cs.append(rows[keep].astype(np.int32))
     return Pruned(n + n % 2, np.concatenate(us), np.concatenate(vs), np.concatenate(cs), arrays)
 
 
@@ -331,11 +331,10 @@ def certified_matching(n: int, u: IntArray, v: IntArray, w: AnyArray, rank: IntA
     mask = (rank <= window) | _best_per_vertex(u, v, w, np.ones(len(u), dtype=bool), SPARSE_BEST)
     if seed is not None:
         mask |= seed
-    wlist = w.tolist()
     last: tuple[list[tuple[int, int]], blossom.Dual] | None = None
     for attempt in range(1, rounds + 1):
         idx = np.flatnonzero(mask)
-        sub = list(zip(u[idx].tolist(), v[idx].tolist(), [wlist[k] for k in idx.tolist()]))
+        sub = list(zip(u[idx].tolist(), v[idx].tolist(), w[idx].tolist()))
         found = solver.matching(n, sub)
         if 2 * len(found) < n:
             window *= 4
@@ -352,7 +351,7 @@ def certified_matching(n: int, u: IntArray, v: IntArray, w: AnyArray, rank: IntA
         if not bad.any() and certificate.certify(n, u, v, w, pairs, dual):
             return pairs, Route(True, attempt, len(idx))
         mask |= _best_per_vertex(u, v, -rc, bad, SPARSE_ADD)
-    edges = list(zip(u.tolist(), v.tolist(), wlist))
+    edges = list(zip(u.tolist(), v.tolist(), w.tolist()))
     return solver.matching(n, edges), Route(False, rounds, len(u))
 
 
