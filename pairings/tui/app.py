@@ -13,9 +13,10 @@ from __future__ import annotations
 import gc
 from dataclasses import dataclass
 from pathlib import Path
+from time import monotonic
 from typing import Iterable
 
-from textual import on, work
+from textual import events, on, work
 from textual.app import App, SystemCommand
 from textual.binding import Binding
 from textual.message import Message
@@ -59,15 +60,22 @@ def binding_rows(bindings: Iterable[object]) -> list[tuple[str, str]]:
     return rows
 
 
+QUIET_SECONDS = 3.0
+"""After this long without a key the desk tidies its memory (a full collection, 0.1 s on a big event)."""
+
+
 def settle_heap() -> None:
-    """Move everything alive now out of the cycle collector's sight (``gc.freeze``).
+    """Collect everything, then move what is alive out of the cycle collector's sight (``gc.freeze``).
 
     A big event is a few hundred thousand long-lived objects (the log, the
-    folded state, the screens). Every full collection walks all of them, about
-    0.1 s on a 2,000-player event, and it strikes in the middle of whichever key
-    allocates last. Frozen objects are still freed by reference counting; only
-    cycles among them are no longer collected, and the desk's state holds none.
+    folded states, the screens). A full collection walks all of them, about
+    0.1 s on a 2,000-player event, and left to itself it strikes in the middle
+    of whichever key allocates last. Frozen objects are still freed by
+    reference counting; the next settle (with the collector's thresholds set
+    by :meth:`DeskApp.on_mount`, the only full collections) unfreezes and
+    collects them too, so no cycle is kept for good.
     """
+    gc.unfreeze()
     gc.collect()
     gc.freeze()
 
@@ -104,6 +112,7 @@ class DeskApp(App[None]):
         self._start = start
         self.last_output: Path | None = None
         """Where the latest printout went."""
+        self._last_key = monotonic()
         self.offload = Offload(store.path)
         """Where the engine works for the desk (a child process for big fields)."""
         for name, place in PLACES.items():
@@ -116,7 +125,20 @@ class DeskApp(App[None]):
                 await self.switch_mode(name)
         await self.switch_mode(self._start)
         self.set_interval(self._poll_seconds, self.poll)
+        young, middle, _ = gc.get_threshold()
+        gc.set_threshold(young, middle, 1000)  # full collections: when the desk is quiet (a safety net besides)
         self.call_after_refresh(settle_heap)
+        self.set_interval(QUIET_SECONDS / 2, self.tidy)
+
+    async def on_event(self, event: events.Event) -> None:
+        if isinstance(event, events.Key):
+            self._last_key = monotonic()
+        await super().on_event(event)
+
+    def tidy(self) -> None:
+        """A full collection once the keys have been quiet for a while and something new was kept."""
+        if monotonic() - self._last_key > QUIET_SECONDS and gc.get_count()[2] > 0:
+            settle_heap()
 
     def on_unmount(self) -> None:
         self.offload.close()

@@ -172,12 +172,13 @@ async def measure(path: Path, repeat: int, profile: bool = False, draft: bool = 
         start = perf_counter()
         during: list[Timing] = []
         await answer(app, "n")
+        label = "Round: cursor keys while the engine drafts"
         while app.workers and any(w.group == "engine" and w.is_running for w in app.workers):
-            during.append(await answer(app, "down" if len(during) % 4 < 2 else "up"))
+            during.append(await answer(app, "down" if len(during) % 4 < 2 else "up", label if profile else None))
             await asyncio.sleep(0.05)
         await finished(app)
         drafting = perf_counter() - start
-        rows.append(("Round: cursor keys while the engine drafts", during))
+        rows.append((label, during))
     store.close()
     return rows, drafting
 
