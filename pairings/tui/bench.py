@@ -179,6 +179,16 @@ async def measure(path: Path, repeat: int, profile: bool = False, draft: bool = 
         await finished(app)
         drafting = perf_counter() - start
         rows.append((label, during))
+
+        # On the draft, each rest of the cursor asks the engine why (in the background); keys meanwhile.
+        resting: list[Timing] = []
+        label = "Round (draft): cursor, Why worked out meanwhile"
+        for step in range(repeat // 2):
+            resting.append(await answer(app, "down" if step % 4 < 2 else "up", label if profile else None))
+            await asyncio.sleep(0.4)
+        rows.append((label, resting))
+        await keys("Roster: mark absent, cancel (writes the file)", ["f2", "m", "c"], 1)
+        rows[-1] = (rows[-1][0], rows[-1][1][1:])  # the place switch is measured above
     store.close()
     return rows, drafting
 
