@@ -82,6 +82,7 @@ async def drive(path: Path, sheet: Path) -> tuple[dict[str, object], list[list[o
                 assert any("Against the optimum" in line for line in intro), (dialog._c_title, dialog.values(), str(dialog.query_one("#problem").content))
                 await type_text(pilot, "club mates")
                 await pilot.press("enter")
+                await settle(app, pilot)  # the override is recorded by the engine's worker
                 rnd = app.state.last_round
                 assert rnd is not None and rnd.source == "override" and "club mates" in rnd.notes[-1]
                 commands.append(["swap", "E", a, b, "--reason", "club mates"])

@@ -23,6 +23,7 @@ async def give_reason(app: DeskApp, pilot: object, reason: str) -> list[str]:
     intro = [str(w.content) for w in dialog.query(".dialog-intro")]
     await type_text(pilot, reason)
     await pilot.press("enter")  # type: ignore[attr-defined]
+    await settle(app, pilot)  # the override is recorded by the engine's worker
     return intro
 
 
