@@ -322,33 +322,38 @@ def certified_matching(n: int, u: IntArray, v: IntArray, w: AnyArray, rank: IntA
     Start from the edges with ``rank <= window`` (each player's partners
     around the rank-order ideal, and every bye edge); solve them (compiled
     solver, then :func:`blossom.perfect_matching` warm-started from its
-    answer and from the previous round's dual and matching, for the dual);
+    answer, for the dual; later rounds warm-start the blossom from the
+    previous round's matching and dual alone);
     certify on every edge (:mod:`certificate`); add the
     edges with negative reduced cost (or, when the subgraph has no perfect
     matching, widen the window) and repeat. After ``rounds`` solves, the
     compiled solver runs on all edges (still exact, only slower).
     """
-    mask = (rank <= window) | _best_per_vertex(u, v, w, np.ones(len(u), dtype=bool), SPARSE_BEST)
+    split = certificate.limbs(w)
+    score = w if split is None or w.dtype != object else split[0] * 2.0**certificate.SHIFT + split[1]
+    mask = (rank <= window) | _best_per_vertex(u, v, score, np.ones(len(u), dtype=bool), SPARSE_BEST)
     if seed is not None:
         mask |= seed
     last: tuple[list[tuple[int, int]], blossom.Dual] | None = None
     for attempt in range(1, rounds + 1):
         idx = np.flatnonzero(mask)
         sub = list(zip(u[idx].tolist(), v[idx].tolist(), w[idx].tolist()))
-        found = solver.matching(n, sub)
-        if 2 * len(found) < n:
-            window *= 4
-            mask |= rank <= window
-            continue
         where = {(a, b): k for k, (a, b, _) in enumerate(sub)}
-        warm = [where[p] for p in (last[0] if last else []) + found]
-        result = blossom.perfect_matching(n, sub, warm, last[1] if last else None)
+        if last is None:  # later rounds start from the previous round's matching and dual instead
+            found = solver.matching(n, sub)
+            if 2 * len(found) < n:
+                window *= 4
+                mask |= rank <= window
+                continue
+            result = blossom.perfect_matching(n, sub, [where[p] for p in found])
+        else:
+            result = blossom.perfect_matching(n, sub, [where[p] for p in last[0]], last[1])
         if result is None:  # cannot happen after a perfect matching was found; stay exact anyway
             break
         pairs, dual = last = result
-        rc = certificate.reduced_costs(u, v, w, dual)
+        rc = certificate.reduced_costs(u, v, w, dual, split)
         bad = rc < 0
-        if not bad.any() and certificate.certify(n, u, v, w, pairs, dual):
+        if not bad.any() and certificate.certify(n, u, v, w, pairs, dual, split):
             return pairs, Route(True, attempt, len(idx))
         mask |= _best_per_vertex(u, v, -rc, bad, SPARSE_ADD)
     edges = list(zip(u.tolist(), v.tolist(), w.tolist()))

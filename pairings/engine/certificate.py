@@ -38,7 +38,10 @@ SHIFT = 40
 CLIP = 2**62
 
 
-def _limbs(x: AnyArray) -> tuple[IntArray, IntArray] | None:
+Limbs = tuple[IntArray, IntArray]
+
+
+def limbs(x: AnyArray) -> Limbs | None:
     """``(hi, lo)`` int64 limbs of exact integers ``x``, or None when ``hi`` would not fit in 2**56."""
     if x.dtype != object:
         return x >> SHIFT, x & ((1 << SHIFT) - 1)
@@ -53,18 +56,19 @@ def _top(x: IntArray) -> int:
     return int(np.abs(x).max()) if len(x) else 0
 
 
-def reduced_costs(u: IntArray, v: IntArray, w: AnyArray, dual: Dual) -> IntArray:
+def reduced_costs(u: IntArray, v: IntArray, w: AnyArray, dual: Dual, split: Limbs | None = None) -> IntArray:
     """Doubled reduced costs ``2 (y_u + y_v + sum z_B - w_uv)`` of edges ``(u[k], v[k], w[k])``.
 
     Exact where ``|rc| < 2**62``; larger values are clipped to ``+-2**62``
     (their sign stays exact), which is all the certificate and the column
     generation read. Computed on two int64 limbs per value, so weights and
     duals beyond 64 bits (up to about 96) cost no Python integers per edge.
+    ``split`` is ``limbs(w)`` when the caller already has it.
     """
     n = len(dual.y2)
-    y = _limbs(np.array(dual.y2, dtype=object))
-    ww = _limbs(w)
-    z = _limbs(np.array([zb for _, zb in dual.blossoms], dtype=object))
+    y = limbs(np.array(dual.y2, dtype=object))
+    ww = split if split is not None else limbs(w)
+    z = limbs(np.array([zb for _, zb in dual.blossoms], dtype=object))
     if y is None or ww is None or z is None or 2 * (_top(y[0]) + _top(ww[0]) + int(np.abs(z[0]).sum())) >= 2**62:
         return _exact(u, v, w, dual)  # the high limbs' sum could overflow int64
     hi = y[0][u] + y[0][v] - 2 * ww[0]
@@ -100,7 +104,7 @@ def _exact(u: IntArray, v: IntArray, w: AnyArray, dual: Dual) -> IntArray:
 
 
 def certify(n: int, u: NDArray[np.int64], v: NDArray[np.int64], w: AnyArray,
-            pairs: Sequence[tuple[int, int]], dual: Dual) -> bool:
+            pairs: Sequence[tuple[int, int]], dual: Dual, split: Limbs | None = None) -> bool:
     """True when ``pairs`` is a perfect matching of maximum weight on these edges (module Notes)."""
     if len(dual.y2) != n or any(z < 0 for _, z in dual.blossoms) or \
             any(len(b) % 2 == 0 for b, _ in dual.blossoms):
@@ -115,5 +119,5 @@ def certify(n: int, u: NDArray[np.int64], v: NDArray[np.int64], w: AnyArray,
     if len(wanted) and (len(order) == 0 or (keys[order][at] != wanted).any()):
         return False  # a pair that is not an edge
     weight = sum(w[order[at]].tolist())
-    rc = reduced_costs(u, v, w, dual)
+    rc = reduced_costs(u, v, w, dual, split)
     return bool((rc >= 0).all()) and dual.objective2() == 2 * weight
