@@ -28,7 +28,7 @@ from pairings.store import EventStore
 from pairings.tui.base import Action, Place
 from pairings.tui.dialogs import Field, FormDialog, HelpDialog, open_dialog
 from pairings.tui.log import LogPlace
-from pairings.tui.offload import Offload
+from pairings.tui.offload import Job, Offload
 from pairings.tui.results import ResultsPlace
 from pairings.tui.roster import RosterPlace
 from pairings.tui.round import WIDE, RoundPlace
@@ -263,15 +263,8 @@ class DeskApp(App[None]):
 
     @work(thread=True, exclusive=True, group="output", description="write a printout")
     def write_report(self, state: EventState, kind: str, fmt: str, number: int | None, path: Path) -> None:
-        from pairings.reports import render
-
-        try:
-            out = render(state, kind, fmt, number)
-            path.write_bytes(out.encode("utf-8") if isinstance(out, str) else out)
-        except (InputError, OSError) as exc:
-            self.post_message(self.Exported(None, str(exc)))
-            return
-        self.post_message(self.Exported(path))
+        outcome = self.offload.run(state, Job("report", state.head, report=(kind, fmt, number, str(path))))
+        self.post_message(self.Exported(None, outcome.problem) if outcome.problem else self.Exported(path))
 
     @on(Exported)
     def exported(self, message: Exported) -> None:

@@ -189,6 +189,19 @@ async def measure(path: Path, repeat: int, profile: bool = False, draft: bool = 
         rows.append((label, resting))
         await keys("Roster: mark absent, cancel (writes the file)", ["f2", "m", "c"], 1)
         rows[-1] = (rows[-1][0], rows[-1][1][1:])  # the place switch is measured above
+
+        # The standings as PDF (seconds of work on this field), cursor keys while it is written.
+        for key in ["f7", "ctrl+a", "ctrl+k", *"standings", "enter", "ctrl+a", "ctrl+k", *"pdf", "enter", "enter",
+                    "enter"]:
+            await answer(app, key)
+        printing: list[Timing] = []
+        label = "Roster: cursor keys while a PDF is written"
+        while any(w.group == "output" and w.is_running for w in app.workers):
+            printing.append(await answer(app, "down" if len(printing) % 4 < 2 else "up", label if profile else None))
+            await asyncio.sleep(0.05)
+        await finished(app)
+        assert app.last_output is not None and app.last_output.suffix == ".pdf", "the PDF was not written"
+        rows.append((label, printing))
     store.close()
     return rows, drafting
 

@@ -1,4 +1,4 @@
-"""The desk's engine work (drafts, explanations, override previews and records) as plain-data jobs.
+"""The desk's heavy work (drafts, explanations, override previews and records, printouts) as plain-data jobs.
 
 :func:`run` does a :class:`Job` on a state in this process. The engine is
 pure Python, so in a worker thread it shares the interpreter lock with the
@@ -36,7 +36,7 @@ from pairings.tui.why import why_lines
 PROCESS_FROM = 300
 """Players from which engine jobs run in a child process (below, a thread is quicker than starting one)."""
 
-Kind = Literal["draft", "explain", "preview", "record"]
+Kind = Literal["draft", "explain", "preview", "record", "report"]
 
 
 @dataclass(frozen=True)
@@ -51,6 +51,8 @@ class Job:
     """The override to preview or record."""
     reason: str = ""
     """The organiser's reason, for a record."""
+    report: tuple[str, str, int | None, str] | None = None
+    """A printout: (kind, format, round or None for the latest, file to write)."""
 
 
 @dataclass(frozen=True)
@@ -76,6 +78,10 @@ def run(state: EventState, job: Job) -> Outcome:
             return Outcome(events=tuple(actions.pair(state)))
         if job.kind == "explain":
             return Outcome(lines=tuple(why_lines(state, job.board)))
+        if job.kind == "report":
+            assert job.report is not None
+            write_report(state, *job.report)
+            return Outcome()
         assert job.plan is not None
         plan = ov.make_plan(state, job.plan)
         if job.kind == "preview":
@@ -83,6 +89,16 @@ def run(state: EventState, job: Job) -> Outcome:
         return Outcome(events=tuple(plan.record(state, job.reason)))
     except InputError as exc:
         return Outcome(problem=str(exc))
+    except OSError as exc:  # a printout's file
+        return Outcome(problem=str(exc))
+
+
+def write_report(state: EventState, kind: str, fmt: str, number: int | None, path: str) -> None:
+    """Render a printout (pairings.reports) and write it to ``path``."""
+    from pairings.reports import render
+
+    out = render(state, kind, fmt, number)
+    Path(path).write_bytes(out.encode("utf-8") if isinstance(out, str) else out)
 
 
 def state_at(path: Path, head: int) -> EventState:

@@ -37,6 +37,13 @@ def test_child_process_drafts_and_explains_as_the_engine_does_here(tmp_path: Pat
     stale = work.run(state, Job("preview", state.head, plan=("pin", ("1",))))
     assert stale.problem == "" and stale.difference == offload.run(state, Job("preview", state.head,
                                                                               plan=("pin", ("1",)))).difference
+
+    sheet, here = tmp_path / "child.txt", tmp_path / "here.txt"
+    assert work.run(state, Job("report", state.head, report=("pairings", "text", None, str(sheet)))).problem == ""
+    offload.write_report(state, "pairings", "text", None, str(here))
+    assert sheet.read_bytes() == here.read_bytes() and sheet.stat().st_size > 0
+    missing = work.run(state, Job("report", state.head, report=("pairings", "text", None, str(tmp_path / "no/x"))))
+    assert "No such file" in missing.problem
     store.close()
 
 
