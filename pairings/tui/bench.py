@@ -151,7 +151,7 @@ async def measure(path: Path, repeat: int, profile: bool = False, draft: bool = 
         await keys("Results: enter a result (writes the file)", ["f", "d", "s"], max(1, repeat // 3))
         await keys("Results: correct (confirm dialog)", ["up", "f", "n"], 1)
         await keys("Standings: open (computed in a worker)", ["f5"], 1, settle=True)
-        await keys("Log: open (≈14,000 events)", ["f6"], 1)
+        await keys("Log: open (≈7,500 events)", ["f6"], 1)
         await keys("Help: open and close", ["f1", "escape"], 2)
         await keys("Print dialog: open and close", ["f7", "escape"], 2)
         poll = []
