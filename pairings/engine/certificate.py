@@ -73,13 +73,9 @@ def reduced_costs(u: IntArray, v: IntArray, w: AnyArray, dual: Dual, split: Limb
         return _exact(u, v, w, dual)  # the high limbs' sum could overflow int64
     hi = y[0][u] + y[0][v] - 2 * ww[0]
     lo = y[1][u] + y[1][v] - 2 * ww[1]
-    for (members, _), zh, zl in zip(dual.blossoms, z[0].tolist(), z[1].tolist()):
-        inside = np.zeros(n, dtype=bool)
-        inside[list(members)] = True
-        both = inside[u] & inside[v]
-        if both.any():
-            hi[both] += 2 * zh
-            lo[both] += 2 * zl
+    zh, zl = _common_z(n, u, v, dual, z) or _each_z(n, u, v, dual, z)
+    hi += 2 * zh
+    lo += 2 * zl
     hi += lo >> SHIFT  # carry: now rc = hi * 2**SHIFT + lo with 0 <= lo < 2**SHIFT
     lo &= (1 << SHIFT) - 1
     limit = CLIP >> SHIFT
@@ -87,6 +83,59 @@ def reduced_costs(u: IntArray, v: IntArray, w: AnyArray, dual: Dual, split: Limb
     rc = np.where(hi < 0, -CLIP, CLIP)
     rc[small] = (hi[small] << SHIFT) + lo[small]
     return np.clip(rc, -CLIP, CLIP)
+
+
+def _each_z(n: int, u: IntArray, v: IntArray, dual: Dual, z: Limbs) -> Limbs:
+    """``sum(z_B : u[k], v[k] in B)`` per edge, blossom by blossom (any family of odd sets)."""
+    zh, zl = np.zeros(len(u), dtype=np.int64), np.zeros(len(u), dtype=np.int64)
+    for (members, _), h, low in zip(dual.blossoms, z[0].tolist(), z[1].tolist()):
+        inside = np.zeros(n, dtype=bool)
+        inside[list(members)] = True
+        both = inside[u] & inside[v]
+        zh[both] += h
+        zl[both] += low
+    return zh, zl
+
+
+def _common_z(n: int, u: IntArray, v: IntArray, dual: Dual, z: Limbs) -> Limbs | None:
+    """``sum(z_B : u[k], v[k] in B)`` per edge, as limbs, by lowest common ancestors.
+
+    The blossoms are laminar, so the blossoms holding both ends of an edge are
+    the common ancestors of the smallest blossoms holding each end; with
+    ``P[B]`` the sum of ``z`` over ``B`` and its ancestors the answer is
+    ``P[lca]``. The ancestors are found by binary lifting over all edges at
+    once: a few array passes instead of one per blossom. None when the
+    sets are not laminar (not a blossom dual; :func:`_each_z` then sums).
+    """
+    m = len(dual.blossoms)
+    root = m  # a virtual root above every top-level blossom; vertices in no blossom sit at it
+    by_size = sorted(range(m), key=lambda b: -len(dual.blossoms[b][0]))
+    owner = np.full(n, root, dtype=np.int64)
+    parent = np.full(m + 1, root, dtype=np.int64)
+    depth = np.zeros(m + 1, dtype=np.int64)
+    ph, pl = np.zeros(m + 1, dtype=np.int64), np.zeros(m + 1, dtype=np.int64)
+    for b in by_size:  # parents (larger) first
+        members = np.fromiter(dual.blossoms[b][0], dtype=np.int64)
+        p = int(owner[members[0]])
+        if (owner[members] != p).any():
+            return None
+        parent[b], depth[b] = p, depth[p] + 1
+        ph[b], pl[b] = ph[p] + z[0][b], pl[p] + z[1][b]
+        owner[members] = b
+    up = [parent]
+    while (1 << len(up)) <= int(depth.max()):
+        up.append(up[-1][up[-1]])
+    a, c = owner[u], owner[v]
+    swap = depth[a] < depth[c]
+    a, c = np.where(swap, c, a), np.where(swap, a, c)
+    diff = depth[a] - depth[c]
+    for k, table in enumerate(up):
+        a = np.where((diff >> k) & 1 == 1, table[a], a)
+    for table in reversed(up):
+        differ = table[a] != table[c]
+        a, c = np.where(differ, table[a], a), np.where(differ, table[c], c)
+    lca = np.where(a == c, a, parent[a])
+    return ph[lca], pl[lca]
 
 
 def _exact(u: IntArray, v: IntArray, w: AnyArray, dual: Dual) -> IntArray:
