@@ -12,6 +12,8 @@ from __future__ import annotations
 
 from typing import TYPE_CHECKING, Callable, Sequence
 
+from rich.cells import cell_len
+from textual import events
 from textual.app import ComposeResult
 from textual.binding import Binding
 from textual.containers import Horizontal
@@ -27,6 +29,28 @@ if TYPE_CHECKING:
     from pairings.tui.app import DeskApp
 
 Action = Callable[[EventState], Sequence[Event]]
+
+
+class KeyList(Label):
+    """Keys and what they do on one line; a click on one presses it (as textual's footer did)."""
+
+    def __init__(self, keys: Sequence[tuple[str, str, str]], classes: str) -> None:
+        """``keys``: (key to press, key shown, description)."""
+        parts: list[str | tuple[str, str]] = []
+        self._spans: list[tuple[int, int, str]] = []
+        at = 0
+        for key, shown, description in keys:
+            text = f" {shown} "
+            parts += [(text, "bold $footer-key-foreground"), description]
+            self._spans.append((at, at + cell_len(text + description), key))
+            at += cell_len(text + description)
+        super().__init__(Content.assemble(*parts), classes=classes)
+
+    def on_mouse_down(self, event: events.MouseDown) -> None:
+        for start, end, key in self._spans:
+            if start <= event.x < end:
+                self.app.simulate_key(key)
+                return
 
 
 class KeyLine(Horizontal):
@@ -48,11 +72,9 @@ class KeyLine(Horizontal):
         self._shown_keys = [b for b in bindings if isinstance(b, Binding) and b.show and b.description]
 
     def compose(self) -> ComposeResult:
-        parts: list[str | tuple[str, str]] = []
-        for b in self._shown_keys:
-            parts += [(f" {self.app.get_key_display(b)} ", "bold $footer-key-foreground"), b.description]
-        yield Label(Content.assemble(*parts), classes="keys")
-        yield Label(Content.assemble("▏", ("^p", "bold $footer-key-foreground"), " palette"), classes="palette")
+        yield KeyList([(b.key.split(",")[0], self.app.get_key_display(b), b.description) for b in self._shown_keys],
+                      classes="keys")
+        yield KeyList([("ctrl+p", "▏^p", "palette")], classes="palette")
 
 
 class Place(Screen[None]):

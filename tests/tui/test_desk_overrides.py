@@ -171,3 +171,25 @@ def test_names_with_escape_sequences_are_shown_cleaned(tmp_path: Path) -> None:
     # ECMA-48, from memory: 0x9B is the 8-bit CSI and "d" a final byte, so "\x9bd" is one sequence, removed whole.
     assert safe("a\tb\x00c\x9bd") == "a bc"
     assert safe("a\tb\x00c\x9b") == "a bc"
+
+
+def test_a_click_on_the_key_line_presses_that_key(tmp_path: Path) -> None:
+    store = new_event(tmp_path / "e.pairings", players=4)
+
+    async def run() -> None:
+        app = DeskApp(store, poll_seconds=3600)
+        async with app.run_test(size=(100, 32)) as pilot:
+            notes = Notes(app)
+            keys = app.screen.query_one("KeyList.keys")
+            assert str(keys.content).startswith(" n Draft next s Swap")
+            await pilot.click(keys, offset=(len(" n Draft next s Sw"), 0))  # on "Swap": no draft yet
+            assert "no open draft" in notes.last() and not isinstance(app.screen, FormDialog)
+            await pilot.click(keys, offset=(3, 0))  # on "Draft next"
+            await settle(app, pilot)
+            assert app.state.last_round is not None and app.state.last_round.state is RoundState.DRAFT
+            await pilot.click(app.screen.query_one("KeyList.palette"), offset=(3, 0))
+            await pilot.pause()
+            assert type(app.screen).__name__ == "CommandPalette"
+
+    asyncio.run(run())
+    store.close()
