@@ -160,23 +160,25 @@ class _Blossom:
             if self.label[self.top[x]] == 2:
                 self.queue.append(x)
             self.top[x] = b
-        best_to: dict[int, int] = {}
+        best_to: dict[int, tuple[int, int]] = {}  # outer blossom -> (slack, edge) of the least slack
+        end, top, label, d, wt = self.end, self.top, self.label, self.d, self.w
         for sub in path:
             lists = self.bestlist[sub]
-            cands = lists if lists is not None else [p // 2 for x in self.leaves(sub) for p in self.nb[x]]
+            cands = lists if lists is not None else [p >> 1 for x in self.leaves(sub) for p in self.nb[x]]
             for kk in cands:
-                i, j = self.end[2 * kk], self.end[2 * kk + 1]
-                if self.top[j] == b:
+                i, j = end[2 * kk], end[2 * kk + 1]
+                if top[j] == b:
                     i, j = j, i
-                bj = self.top[j]
-                if bj != b and self.label[bj] == 1:
-                    old = best_to.get(bj, -1)
-                    if old == -1 or self.slack(kk) < self.slack(old):
-                        best_to[bj] = kk
+                bj = top[j]
+                if bj != b and label[bj] == 1:
+                    sl = d[i] + d[j] - 2 * wt[kk]
+                    old = best_to.get(bj)
+                    if old is None or sl < old[0]:
+                        best_to[bj] = (sl, kk)
             self.bestlist[sub] = None
             self.best[sub] = -1
-        self.bestlist[b] = list(best_to.values())
-        self.best[b] = min(best_to.values(), key=self.slack, default=-1)
+        self.bestlist[b] = [kk for _, kk in best_to.values()]
+        self.best[b] = min(best_to.values(), key=lambda t: t[0], default=(0, -1))[1]
 
     def expand(self, b: int, end_of_stage: bool) -> None:
         for s in self.childs[b]:
@@ -332,14 +334,16 @@ class _Blossom:
     def step(self) -> bool:
         """One dual step; False when none is possible (no perfect matching)."""
         kind, delta, arg = 0, 0, -1
+        label, top, best, slack = self.label, self.top, self.best, self.slack
         for v in self.free_best:
-            if self.label[self.top[v]] == 0 and self.best[v] != -1:
-                s = self.slack(self.best[v])
+            k = best[v]
+            if k != -1 and label[top[v]] == 0:
+                s = slack(k)
                 if kind == 0 or s < delta:
-                    kind, delta, arg = 2, s, self.best[v]
+                    kind, delta, arg = 2, s, k
         for b in self.forest:
-            if self.label[b] == 1 and self.best[b] != -1:
-                s = self.slack(self.best[b])
+            if label[b] == 1 and best[b] != -1:
+                s = slack(best[b])
                 assert s % 2 == 0, "odd slack between outer blossoms"
                 if kind == 0 or s // 2 < delta:
                     kind, delta, arg = 3, s // 2, self.best[b]
