@@ -7,9 +7,9 @@ already has a result asks before it is changed.
 
 from __future__ import annotations
 
+from textual import on
 from textual.app import ComposeResult
 from textual.binding import Binding
-from textual import on
 from textual.widgets import Label
 
 from pairings import actions

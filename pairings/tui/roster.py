@@ -11,15 +11,14 @@ from textual.binding import Binding
 from textual.widgets import Input
 
 from pairings import actions
-from pairings.events import Event
 from pairings.errors import InputError, RosterError
+from pairings.events import Event
 from pairings.roster import decode, import_roster
 from pairings.state import ByeKind, EventState, Player, PlayerId, Status
 from pairings.tui.base import Action, Place
 from pairings.tui.dialogs import Field, FormDialog, open_dialog
 from pairings.tui.grid import Column, Grid
 from pairings.tui.text import points, safe, widest
-
 
 PlayerAction = Callable[[EventState, str, int | None, str | None], Sequence[Event]]
 QuickAction = Callable[[EventState, PlayerId], Sequence[Event]]

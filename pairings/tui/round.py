@@ -16,8 +16,8 @@ from textual.app import ComposeResult
 from textual.binding import Binding
 from textual.containers import Horizontal, VerticalScroll
 from textual.message import Message
-from textual.widgets import Label, LoadingIndicator, Static
 from textual.timer import Timer
+from textual.widgets import Label, LoadingIndicator, Static
 from textual.worker import get_current_worker
 
 from pairings import actions

@@ -19,6 +19,7 @@ from pairings.tui.app import DeskApp
 from pairings.tui.dialogs import ConfirmDialog, FormDialog
 from tests.tui.desk_support import PLAYERS, Notes, new_event, settle, type_text
 
+
 def cli(*args: object) -> str:
     proc = subprocess.run([sys.executable, "-m", "pairings", *map(str, args)], capture_output=True, text=True,
                           timeout=120)
