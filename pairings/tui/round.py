@@ -1,8 +1,10 @@
 """The Round: draft, look at the boards and the Why panel, override with a reason, publish.
 
-The engine runs only in worker threads (drafting, previews, explanations);
-the workers return events or text through messages and the handlers write
-them, so the keys keep answering while a big field is paired.
+The engine runs only in workers (drafting, override previews and records,
+explanations), through :mod:`pairings.tui.offload`, which moves big fields
+to a separate process; the workers return events or text through messages
+and the handlers write them, so the keys keep answering while a big field
+is paired.
 """
 
 from __future__ import annotations
