@@ -64,7 +64,7 @@ class Outcome:
     difference: str = ""
     """The cost difference against the optimum, in words (preview)."""
     problem: str = ""
-    """Why the job could not be done (an InputError's message); empty when it was."""
+    """Why the job could not be done (the refusal's one line); empty when it was."""
 
 
 _CACHE = ov.OptimumCache()
@@ -87,9 +87,7 @@ def run(state: EventState, job: Job) -> Outcome:
         if job.kind == "preview":
             return Outcome(difference=ov.preview(state, plan, _CACHE)[1])
         return Outcome(events=tuple(plan.record(state, job.reason)))
-    except InputError as exc:
-        return Outcome(problem=str(exc))
-    except OSError as exc:  # a printout's file
+    except (InputError, OSError) as exc:  # OSError: a printout's file
         return Outcome(problem=str(exc))
 
 
