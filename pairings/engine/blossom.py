@@ -36,6 +36,7 @@ ACM Computing Surveys 18 (1986).
 
 from __future__ import annotations
 
+import sys
 from dataclasses import dataclass
 from typing import Sequence
 
@@ -432,8 +433,14 @@ def perfect_matching(n: int, edges: Sequence[Edge], warm: Sequence[int] = (), du
         if mate[v] == -1 and d[v] % 2:
             d[v] += 1
     run = _Blossom(n, edges, d, mate)
-    if not run.run():
-        return None
+    # Blossoms nest up to n / 2 deep (thousands at 10,000 players) and expand/augment recurse per level.
+    limit = sys.getrecursionlimit()
+    sys.setrecursionlimit(max(limit, 2 * n + 1000))
+    try:
+        if not run.run():
+            return None
+    finally:
+        sys.setrecursionlimit(limit)
     pairs = sorted({tuple(sorted((v, run.end[run.mate[v]]))) for v in range(n)})
     return [(u, v) for u, v in pairs], run.dual()
 
