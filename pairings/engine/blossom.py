@@ -1,9 +1,10 @@
 """Maximum-weight perfect matching with its optimal dual (Edmonds' blossom algorithm).
 
 The primal-dual method of Edmonds (1965) in the O(n^3) form surveyed by
-Galil (1986): alternating trees grow from every exposed vertex at once, odd
-cycles are shrunk into blossoms, and the dual moves by the largest step that
-keeps every reduced cost non-negative. Unlike the solvers in
+Galil (1986): an alternating tree grows from one exposed vertex at a time
+(a stage ends when a tight edge reaches another exposed vertex: an augmenting
+path), odd cycles are shrunk into blossoms, and the dual of the tree moves by
+the largest step that keeps every reduced cost non-negative. Unlike the solvers in
 :mod:`pairings.engine.solver` it returns the dual, which
 :mod:`pairings.engine.certificate` checks against edges the search never saw.
 
@@ -16,15 +17,16 @@ no dual step is possible the graph has no perfect matching (``None``).
 
 **Integers.** ``d[v]`` is ``2 * y_v``; a blossom's ``d[b]`` is ``z_B``; the
 doubled reduced cost of edge ``uv`` is ``d[u] + d[v] + 2 * sum(z_B over
-blossoms holding both) - 2 * w_uv``. Every exposed vertex starts with an even
-``d`` and keeps the parity of the others (all move by the same steps); forest
-vertices inherit it through tight edges, so an edge between two outer
-blossoms has an even reduced cost and every step is an integer (Galil 1986,
-section 3).
+blossoms holding both) - 2 * w_uv``. Every vertex of the tree has the
+parity of its root (tree edges are tight, so their ends' ``d`` sum to an even
+number, and inside a blossom likewise), so an edge between two outer blossoms
+of the one tree has an even reduced cost and every step is an integer (Galil
+1986, section 3).
 
 **Locality.** Labels, best edges and dual steps touch only the current
-forest, so with a warm start that leaves few exposed vertices a stage costs
-what its trees cost, not ``O(n)``.
+tree, so with a warm start that leaves few exposed vertices a stage costs
+what its tree costs, not ``O(n)``; the vertices of each blossom are cached
+(they never change while it exists).
 
 References
 ----------
@@ -429,7 +431,7 @@ def perfect_matching(n: int, edges: Sequence[Edge], warm: Sequence[int] = (), du
         u, v, w = edges[k]
         if mate[u] == -1 and mate[v] == -1 and d[u] + d[v] == 2 * w:
             mate[u], mate[v] = 2 * k + 1, 2 * k
-    for v in range(n):  # exposed vertices start even (module Notes)
+    for v in range(n):  # exposed vertices start even: a feasible raise, kept from the all-trees search
         if mate[v] == -1 and d[v] % 2:
             d[v] += 1
     run = _Blossom(n, edges, d, mate)
