@@ -14,7 +14,7 @@ from typing import TYPE_CHECKING, Sequence
 
 from pairings import events as ev
 from pairings.errors import AmbiguousPlayerError, InputError, RoundStateError, UnknownPlayerError
-from pairings.state import ByeKind, EventState, PlayerId, Result, Round, RoundState, Status
+from pairings.state import ByeKind, EventState, PlayerId, Result, Round, RoundState, Status, System
 from pairings.store import StoredEvent, undo_target
 
 if TYPE_CHECKING:  # the engine (and networkx) load only for the commands that pair
@@ -25,7 +25,7 @@ MAX_NAME = 300
 
 def new_event(
     name: str, rounds: int, scoring: str = "1,0.5,0", sides: bool = True, bye_points: float | None = None,
-    seed: int | None = None,
+    seed: int | None = None, round_robin: bool = False, double_round: bool = False,
 ) -> ev.EventCreated:
     """The first event of a new event file, from the command line's options.
 
@@ -47,6 +47,7 @@ def new_event(
         name=name, rounds=rounds, scoring=ev.ScoringModel(win=win, draw=draw, loss=loss),
         sides=("White", "Black") if sides else None, bye_points=points, requested_bye_points=draw,
         seed=secrets.randbelow(2**31) if seed is None else seed,
+        system=System.ROUND_ROBIN if round_robin or double_round else System.SWISS, double_round=double_round,
     )
 
 

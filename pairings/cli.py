@@ -51,7 +51,9 @@ def _json(data: object) -> None:
 
 
 def cmd_new(a: argparse.Namespace) -> None:
-    first = actions.new_event(a.name, a.rounds, a.scoring, not a.no_sides, a.bye_points, a.seed)
+    first = actions.new_event(
+        a.name, a.rounds, a.scoring, not a.no_sides, a.bye_points, a.seed, a.round_robin, a.double
+    )
     EventStore.create(Path(a.event), first).close()
     _say(f"created {a.event}: {first.name}, {first.rounds} rounds")
 
@@ -322,6 +324,8 @@ def build_parser() -> argparse.ArgumentParser:
     sp.add_argument("--no-sides", action="store_true", help="the game has no first/second side")
     sp.add_argument("--bye-points", type=float, default=None, help="points for a pairing bye (default: a win)")
     sp.add_argument("--seed", type=int, default=None, help="seed of the round-1 side lot (default: drawn now)")
+    sp.add_argument("--round-robin", action="store_true", help="all-play-all by the Berger tables (3-24 players)")
+    sp.add_argument("--double", action="store_true", help="double round robin, sides reversed in the second cycle")
 
     player = sub.add_parser("player", help="register and manage players")
     psub = player.add_subparsers(dest="player_command", required=True, parser_class=_Parser)
