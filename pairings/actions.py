@@ -99,13 +99,18 @@ def entry_round(state: EventState) -> int:
     return last.number if last.state is RoundState.DRAFT else last.number + 1
 
 
+def _player_fields(name: str, rating: int | None, club: str | None) -> tuple[str, str | None]:
+    """A player's name and club cleaned, and the rating checked (shared by add and edit)."""
+    if rating is not None and not 0 <= rating <= 4000:
+        raise InputError(f"rating {rating} is outside 0-4000")
+    cleaned = clean_text(name, "name")
+    return cleaned, (clean_text(club, "club", required=False) or None) if club is not None else None
+
+
 def add_player(
     state: EventState, name: str, rating: int | None = None, club: str | None = None, pid: str | None = None
 ) -> list[ev.Event]:
-    name = clean_text(name, "name")
-    club = clean_text(club, "club", required=False) or None if club is not None else None
-    if rating is not None and not 0 <= rating <= 4000:
-        raise InputError(f"rating {rating} is outside 0-4000")
+    name, club = _player_fields(name, rating, club)
     if pid is not None:
         pid = clean_text(pid, "id", limit=40)
         if pid in state.players:
@@ -119,10 +124,7 @@ def add_player(
 
 def edit_player(state: EventState, player: str, name: str, rating: int | None, club: str | None) -> list[ev.Event]:
     pid = find_player(state, player)
-    name = clean_text(name, "name")
-    club = clean_text(club, "club", required=False) or None if club is not None else None
-    if rating is not None and not 0 <= rating <= 4000:
-        raise InputError(f"rating {rating} is outside 0-4000")
+    name, club = _player_fields(name, rating, club)
     return [ev.PlayerEdited(id=pid, name=name, rating=rating, club=club)]
 
 

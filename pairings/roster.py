@@ -12,7 +12,7 @@ import csv
 import io
 
 from pairings import events as ev
-from pairings.actions import MAX_NAME, entry_round, new_id
+from pairings.actions import MAX_NAME, clean_text, entry_round, new_id
 from pairings.errors import InputError, RosterError
 from pairings.state import EventState
 
@@ -32,11 +32,11 @@ def _dialect(text: str) -> str:
 
 
 def _check_text(value: str, what: str, limit: int) -> str | None:
-    """The problem with a name-like cell, or None when it is fine."""
-    if len(value) > limit:
-        return f"{what} is longer than {limit} characters"
-    if any(ord(c) < 32 or 0x7F <= ord(c) < 0xA0 for c in value):
-        return f"{what} holds control characters"
+    """The problem with a name-like cell (the entry rule of :func:`clean_text`), or None when it is fine."""
+    try:
+        clean_text(value, what, limit=limit)
+    except InputError as exc:
+        return str(exc)
     return None
 
 

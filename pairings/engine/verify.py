@@ -102,7 +102,6 @@ def verify_round(state: EventState, round_number: int) -> RoundCheck:
 def _berge(fld: Field, pairs: list[tuple[PlayerId, PlayerId]], bye: PlayerId | None,
            notes: list[str]) -> bool:
     players = list(fld.order)
-    where = {p: i for i, p in enumerate(players)}
     bye_vertex = len(players)
 
     def legal(a: PlayerId, b: PlayerId) -> bool:

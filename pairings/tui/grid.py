@@ -52,6 +52,19 @@ def fit(text: str, width: int) -> str:
     return set_cell_size(text, max(0, width - 1)) + "…" if width else ""
 
 
+@dataclass
+class _RowMessage(Message):
+    """A row of a :class:`Grid` (its ``control`` is the grid, so ``@on(..., "#id")`` works)."""
+
+    grid: "Grid"
+    row: int
+    key: str
+
+    @property
+    def control(self) -> "Grid":
+        return self.grid
+
+
 class Grid(ScrollView, can_focus=True):
     """Rows of text with a cursor row; posts :class:`Grid.Highlighted` and :class:`Grid.Selected`."""
 
@@ -75,25 +88,11 @@ class Grid(ScrollView, can_focus=True):
 
     cursor: reactive[int] = reactive(0, always_update=True, init=False)
 
-    @dataclass
-    class Highlighted(Message):
-        grid: "Grid"
-        row: int
-        key: str
+    class Highlighted(_RowMessage):
+        """The cursor moved to a row."""
 
-        @property
-        def control(self) -> "Grid":
-            return self.grid
-
-    @dataclass
-    class Selected(Message):
-        grid: "Grid"
-        row: int
-        key: str
-
-        @property
-        def control(self) -> "Grid":
-            return self.grid
+    class Selected(_RowMessage):
+        """Enter on a row."""
 
     def __init__(self, *, id: str | None = None) -> None:
         super().__init__(id=id)

@@ -48,19 +48,25 @@ def play(log: list[ev.Event], draft: Draft, rng: random.Random, forfeits: bool =
         log.append(ev.ResultRecorded(round=draft.round, board=b.board, result=random_result(rng, forfeits)))
 
 
+def announce(log: list[ev.Event], r: int, rng: random.Random, withdraw: float, byes: float,
+             kinds: tuple[str, ...]) -> None:
+    """Withdraw a random share of round ``r``'s players and give another share an announced bye."""
+    for pid in state_of(log).available(r):
+        x = rng.random()
+        if x < withdraw:
+            log.append(ev.PlayerWithdrawn(player=pid, from_round=r))
+        elif x < withdraw + byes:
+            kind = kinds[0] if len(kinds) == 1 else rng.choice(kinds)
+            log.append(ev.ByeRequested(player=pid, round=r, kind=kind))  # type: ignore[arg-type]
+
+
 def simulate(n: int, rounds_played: int, seed: int = 1, withdraw: float = 0.0, byes: float = 0.0,
              **settings: object) -> list[ev.Event]:
     """A log of ``rounds_played`` engine-paired rounds with random results."""
     rng = random.Random(seed)
     log = new_event([rng.randint(1000, 2600) for _ in range(n)], **settings)
     for r in range(1, rounds_played + 1):
-        state = state_of(log)
-        for pid in state.available(r):
-            x = rng.random()
-            if x < withdraw:
-                log.append(ev.PlayerWithdrawn(player=pid, from_round=r))
-            elif x < withdraw + byes:
-                log.append(ev.ByeRequested(player=pid, round=r, kind="requested"))  # type: ignore[arg-type]
+        announce(log, r, rng, withdraw, byes, ("requested",))
         play(log, draft_round(state_of(log)), rng)
     return log
 
@@ -76,14 +82,7 @@ def random_history(n: int, rounds_played: int, seed: int, withdraw: float = 0.0,
     log = new_event([rng.choice([None, rng.randint(1000, 2600)]) for _ in range(n)],
                     rounds=max(rounds_played + 1, 1), **settings)
     for r in range(1, rounds_played + 1):
-        state = state_of(log)
-        for pid in state.available(r):
-            x = rng.random()
-            if x < withdraw:
-                log.append(ev.PlayerWithdrawn(player=pid, from_round=r))
-            elif x < withdraw + byes:
-                kind = rng.choice(["requested", "absence"])
-                log.append(ev.ByeRequested(player=pid, round=r, kind=kind))  # type: ignore[arg-type]
+        announce(log, r, rng, withdraw, byes, ("requested", "absence"))
         state = state_of(log)
         here = list(state.available(r))
         if len(here) < 2:
