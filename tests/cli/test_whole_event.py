@@ -60,8 +60,9 @@ def play(tmp_path: Path) -> Path:
 def test_whole_event_matches_the_hand_checked_export(tmp_path: Path) -> None:
     event = play(tmp_path)
     doc = json.loads(ok("export", event))
-    if not EXPECTED.exists():  # first run writes the capture for a person to check
+    if not EXPECTED.exists():  # writes a capture for a person to check, and fails until they have
         EXPECTED.write_text(json.dumps(doc, indent=1) + "\n", encoding="utf-8")
+        raise AssertionError(f"no hand-checked export: wrote {EXPECTED}; check it by hand, then rerun")
     assert doc == json.loads(EXPECTED.read_text(encoding="utf-8"))
 
     # Round 1: top half against bottom half, the lowest rated gets the bye (common practice, no source).
