@@ -1,0 +1,7 @@
+/* Module skeleton: filled in by the blossom kernel work. */
+#define PY_SSIZE_T_CLEAN
+#include <Python.h>
+
+static struct PyModuleDef module = {PyModuleDef_HEAD_INIT, "_blossom_c", NULL, -1, NULL};
+
+PyMODINIT_FUNC PyInit__blossom_c(void) { return PyModule_Create(&module); }
