@@ -1,7 +1,757 @@
-/* Module skeleton: filled in by the scan kernel work. */
+/* Implicit scan of the pruned player pairs of one round (see pairings/engine/scan.py).
+ *
+ * Walks the pairs i < j in rank order that candidates.pruned_edges keeps, without materialising
+ * them: per row i the partners j in (i, end[i]) (end from the score-gap bound; units are
+ * non-increasing), less the do-not-pair keys, costed exactly as vector.Arrays.costs, kept when
+ * candidates._not_above accepts the expanded cost. Three visits:
+ *   stats     count, column maxima, score gaps present, rematch-free count;
+ *   heaviest  per vertex the k pairs of largest weight (smallest encoded cost, weights.Encoder);
+ *   violated  per vertex the k pairs of most negative doubled reduced cost
+ *             rc = y2[i] + y2[j] + 2 * sum(z_B : i, j in B) - 2 w(i, j)   (LP duality over
+ *             Edmonds' perfect matching polytope, certificate.py), and the count of rc < 0.
+ * The blossom sum is P[lca(owner[i], owner[j])] in the laminar blossom tree (Euler tour plus a
+ * sparse table of depth minima: constant time per pair). Exact integers: int32 cost columns,
+ * __int128 place values, weights, duals and reduced costs (the Python wrapper bounds them).
+ * Two threads take interleaved blocks of rows; per-vertex lists are merged under the total order
+ * (key, i, j), so the answer does not depend on the threads.
+ */
 #define PY_SSIZE_T_CLEAN
 #include <Python.h>
+#include <pthread.h>
+#include <stdint.h>
+#include <stdlib.h>
+#include <string.h>
 
-static struct PyModuleDef module = {PyModuleDef_HEAD_INIT, "_scan_c", NULL, -1, NULL};
+typedef __int128 i128;
+
+#define WIDTH 11
+#define GAP_INDEX 3
+#define FIRST 1
+#define SECOND (-1)
+#define BLOCK 16
+#define CAPSULE "pairings.engine._scan_c.Scan"
+
+enum { MODE_STATS, MODE_HEAVIEST, MODE_VIOLATED };
+
+typedef struct {
+    int32_t units, grank, gsize, abs_sd;
+    int8_t want, strength;
+    uint8_t breaks_first, breaks_second;
+    uint8_t down1, up1, down2, up2;
+    uint8_t miss_first;  /* cost column (5..7) raised when this player gets the first side, 0: none */
+    uint8_t miss_second; /* ... when it gets the second side */
+} Player;
+
+typedef struct {
+    int64_t n;
+    int sides;
+    Player *p;
+    int64_t *end;
+    int64_t words;     /* history words per player */
+    uint64_t *hfirst;  /* n * words: bit r set when the player had the first side in round r */
+    uint64_t *hsecond;
+    int64_t *rematch;
+    Py_ssize_t nrematch;
+    int64_t *forbid;
+    Py_ssize_t nforbid;
+    int64_t levels;    /* greedy pairing's largest gap (the bound's gap levels) */
+    int64_t *bound;    /* expanded bound, levels + 10 entries */
+    int8_t *gapcmp;    /* per gap 0..levels: -1 below the bound, +1 above, 0 equal over the gap columns */
+    int64_t span;      /* units[0] - units[n - 1] */
+} Scan;
+
+/* Blossom tree for the z sums: nodes 0..m-1 blossoms, m the virtual root. */
+typedef struct {
+    int64_t nodes;
+    const int64_t *owner; /* per player: innermost blossom, or the root */
+    int32_t *top;         /* per node: its top-level blossom (the root for the root) */
+    int32_t *depth;
+    int32_t *first;       /* first position in the Euler tour */
+    int32_t *table;       /* levels x tour: node of least depth in [x, x + 2^level) */
+    int64_t tour;
+    const i128 *prefix;   /* per node: sum of z over the node and its ancestors */
+} Tree;
+
+typedef struct {
+    i128 key;
+    int64_t pid; /* i * n + j */
+} Entry;
+
+typedef struct {
+    const Scan *s;
+    int mode;
+    int part, parts;
+    int k;
+    /* weights */
+    const i128 *place;
+    int64_t elevels;
+    i128 top;
+    /* reduced costs */
+    const i128 *y2;
+    const Tree *tree;
+    /* outputs */
+    int64_t count, rematch_free;
+    int64_t maxima[WIDTH];
+    uint8_t *gaps;
+    Entry *entries;  /* n * k */
+    int32_t *filled; /* n */
+    int error;
+} Work;
+
+static void scan_free(Scan *s) {
+    if (s == NULL)
+        return;
+    free(s->p);
+    free(s->end);
+    free(s->hfirst);
+    free(s->hsecond);
+    free(s->rematch);
+    free(s->forbid);
+    free(s->bound);
+    free(s->gapcmp);
+    free(s);
+}
+
+static void capsule_free(PyObject *capsule) {
+    scan_free((Scan *)PyCapsule_GetPointer(capsule, CAPSULE));
+}
+
+static Py_ssize_t lower_bound(const int64_t *a, Py_ssize_t len, int64_t key) {
+    Py_ssize_t lo = 0, hi = len;
+    while (lo < hi) {
+        Py_ssize_t mid = lo + (hi - lo) / 2;
+        if (a[mid] < key)
+            lo = mid + 1;
+        else
+            hi = mid;
+    }
+    return lo;
+}
+
+/* True when player i (ranked above j) gets the first side: vector.Arrays.first_of. */
+static inline int first_of(const Scan *s, int64_t i, int64_t j) {
+    const Player *a = &s->p[i], *b = &s->p[j];
+    if (a->want != 0 && a->want != b->want)
+        return a->want == FIRST;
+    if (a->want == 0)
+        return b->want == SECOND;
+    /* Both want the same side: stronger, then larger |SD|, then alternation, then rank. */
+    int i_wins;
+    if (a->strength != b->strength)
+        i_wins = a->strength > b->strength;
+    else if (a->abs_sd != b->abs_sd)
+        i_wins = a->abs_sd > b->abs_sd;
+    else {
+        i_wins = 1;
+        const uint64_t *fi = s->hfirst + i * s->words, *si = s->hsecond + i * s->words;
+        const uint64_t *fj = s->hfirst + j * s->words, *sj = s->hsecond + j * s->words;
+        for (int64_t w = s->words - 1; w >= 0; w--) {
+            uint64_t differ = (fi[w] & sj[w]) | (si[w] & fj[w]);
+            if (differ) {
+                int bit = 63 - __builtin_clzll(differ);
+                int had = ((fi[w] >> bit) & 1) ? FIRST : SECOND;
+                i_wins = had != a->want; /* whoever had the wanted side gives it up */
+                break;
+            }
+        }
+    }
+    return i_wins == (a->want == FIRST);
+}
+
+/* Cost row of pair i < j, as vector.Arrays.costs (the rematch flag is given). */
+static inline void cost_row(const Scan *s, int64_t i, int64_t j, int rematch, int32_t *c) {
+    const Player *a = &s->p[i], *b = &s->p[j];
+    memset(c, 0, sizeof(int32_t) * WIDTH);
+    c[0] = rematch;
+    if (s->sides && (a->want != 0 || b->want != 0)) {
+        const Player *f, *g;
+        if (first_of(s, i, j)) {
+            f = a;
+            g = b;
+        } else {
+            f = b;
+            g = a;
+        }
+        c[1] = f->breaks_first + g->breaks_second;
+        if (f->miss_first)
+            c[f->miss_first] += 1;
+        if (g->miss_second)
+            c[g->miss_second] += 1;
+    }
+    int32_t gap = a->units - b->units;
+    c[3] = gap;
+    if (gap > 0) {
+        c[8] = a->down1 + b->up1;
+        c[9] = a->down2 + b->up2;
+        c[10] = b->grank + (a->gsize - 1 - a->grank);
+    } else {
+        int32_t d = b->grank - a->grank - a->gsize / 2;
+        c[10] = d < 0 ? -d : d;
+    }
+}
+
+/* candidates._not_above: the expanded row is lexicographically <= the bound. */
+static inline int not_above(const Scan *s, const int32_t *c) {
+    const int64_t *b = s->bound;
+    for (int k = 0; k < GAP_INDEX; k++)
+        if (c[k] != b[k])
+            return c[k] < b[k];
+    if (c[GAP_INDEX] > s->levels)
+        return 0;
+    int8_t r = s->gapcmp[c[GAP_INDEX]];
+    if (r)
+        return r < 0;
+    b += GAP_INDEX + s->levels;
+    for (int k = GAP_INDEX + 1; k < WIDTH; k++)
+        if (c[k] != b[k - GAP_INDEX - 1])
+            return c[k] < b[k - GAP_INDEX - 1];
+    return 1;
+}
+
+static inline int before(i128 key, int64_t pid, const Entry *e) {
+    return key < e->key || (key == e->key && pid < e->pid);
+}
+
+static inline void offer(Work *w, int64_t v, i128 key, int64_t pid) {
+    int k = w->k;
+    Entry *e = w->entries + v * k;
+    int c = w->filled[v];
+    if (c == k) {
+        if (!before(key, pid, &e[k - 1]))
+            return;
+        c = k - 1;
+    } else
+        w->filled[v] = c + 1;
+    while (c > 0 && before(key, pid, &e[c - 1])) {
+        e[c] = e[c - 1];
+        c--;
+    }
+    e[c].key = key;
+    e[c].pid = pid;
+}
+
+static inline i128 encoded(Work *w, const int32_t *c) {
+    const i128 *pl = w->place;
+    i128 total = (i128)c[0] * pl[0] + (i128)c[1] * pl[1] + (i128)c[2] * pl[2];
+    int32_t gap = c[GAP_INDEX];
+    if (gap) {
+        if (gap > w->elevels) {
+            w->error = 1;
+            return 0;
+        }
+        total += pl[GAP_INDEX + w->elevels - gap];
+    }
+    pl += GAP_INDEX + w->elevels;
+    for (int k = GAP_INDEX + 1; k < WIDTH; k++)
+        if (c[k])
+            total += (i128)c[k] * pl[k - GAP_INDEX - 1];
+    return total;
+}
+
+static inline i128 common_z(const Tree *t, int64_t i, int64_t j) {
+    int64_t a = t->owner[i], b = t->owner[j];
+    if (t->top[a] != t->top[b] || a == t->nodes - 1)
+        return 0; /* different top-level blossoms, or outside every blossom */
+    if (a == b)
+        return t->prefix[a];
+    int32_t l = t->first[a], r = t->first[b];
+    if (l > r) {
+        int32_t x = l;
+        l = r;
+        r = x;
+    }
+    int level = 31 - __builtin_clz((unsigned)(r - l + 1));
+    int32_t x = t->table[level * t->tour + l], y = t->table[level * t->tour + r - (1 << level) + 1];
+    return t->prefix[t->depth[x] <= t->depth[y] ? x : y];
+}
+
+static void visit(Work *w, int64_t i, int64_t j, const int32_t *c) {
+    const Scan *s = w->s;
+    switch (w->mode) {
+    case MODE_STATS:
+        w->count++;
+        w->rematch_free += c[0] == 0;
+        for (int k = 0; k < WIDTH; k++)
+            if (c[k] > w->maxima[k])
+                w->maxima[k] = c[k];
+        w->gaps[c[GAP_INDEX]] = 1;
+        break;
+    case MODE_HEAVIEST: {
+        i128 key = encoded(w, c);
+        int64_t pid = i * s->n + j;
+        offer(w, i, key, pid);
+        offer(w, j, key, pid);
+        break;
+    }
+    default: {
+        i128 weight = w->top - encoded(w, c);
+        i128 rc = w->y2[i] + w->y2[j] + 2 * common_z(w->tree, i, j) - 2 * weight;
+        if (rc < 0) {
+            int64_t pid = i * s->n + j;
+            w->count++;
+            offer(w, i, rc, pid);
+            offer(w, j, rc, pid);
+        }
+    }
+    }
+}
+
+static void *run(void *arg) {
+    Work *w = (Work *)arg;
+    const Scan *s = w->s;
+    int64_t n = s->n;
+    int32_t c[WIDTH];
+    for (int64_t lo = (int64_t)w->part * BLOCK; lo < n; lo += (int64_t)w->parts * BLOCK) {
+        int64_t hi = lo + BLOCK < n ? lo + BLOCK : n;
+        for (int64_t i = lo; i < hi; i++) {
+            int64_t end = s->end[i];
+            if (end <= i + 1)
+                continue;
+            Py_ssize_t f = lower_bound(s->forbid, s->nforbid, i * n + i + 1);
+            Py_ssize_t r = lower_bound(s->rematch, s->nrematch, i * n + i + 1);
+            for (int64_t j = i + 1; j < end; j++) {
+                int64_t key = i * n + j;
+                while (f < s->nforbid && s->forbid[f] < key)
+                    f++;
+                if (f < s->nforbid && s->forbid[f] == key)
+                    continue;
+                while (r < s->nrematch && s->rematch[r] < key)
+                    r++;
+                cost_row(s, i, j, r < s->nrematch && s->rematch[r] == key, c);
+                if (not_above(s, c))
+                    visit(w, i, j, c);
+            }
+        }
+    }
+    return NULL;
+}
+
+/* Run the scan on `parts` threads (1 or 2) and merge into works[0]. */
+static int run_all(Work *works, int parts) {
+    pthread_t thread;
+    int spawned = 0;
+    if (parts > 1)
+        spawned = pthread_create(&thread, NULL, run, &works[1]) == 0;
+    if (parts > 1 && !spawned) {
+        works[0].parts = 1; /* no second thread: one pass over every row */
+        run(&works[0]);
+        return 0;
+    }
+    run(&works[0]);
+    if (!spawned)
+        return 0;
+    pthread_join(thread, NULL);
+    Work *a = &works[0], *b = &works[1];
+    a->count += b->count;
+    a->rematch_free += b->rematch_free;
+    a->error |= b->error;
+    for (int k = 0; k < WIDTH; k++)
+        if (b->maxima[k] > a->maxima[k])
+            a->maxima[k] = b->maxima[k];
+    if (a->gaps)
+        for (int64_t g = 0; g <= a->s->span; g++)
+            a->gaps[g] |= b->gaps[g];
+    if (a->entries)
+        for (int64_t v = 0; v < a->s->n; v++)
+            for (int t = 0; t < b->filled[v]; t++)
+                offer(a, v, b->entries[v * b->k + t].key, b->entries[v * b->k + t].pid);
+    return 0;
+}
+
+static int buffer_of(Py_buffer *buf, Py_ssize_t count, Py_ssize_t itemsize, const char *what) {
+    if (buf->len != count * itemsize) {
+        PyErr_Format(PyExc_ValueError, "%s: expected %zd bytes, got %zd", what, count * itemsize, buf->len);
+        return -1;
+    }
+    return 0;
+}
+
+/* prepare(n, players, ends, words, hfirst, hsecond, rematch, forbid, sides, levels, bound)
+ * players: int64 n x 14 (units, grank, gsize, abs_sd, want, strength, breaks_first, breaks_second,
+ * down1, up1, down2, up2, miss_first, miss_second). */
+static PyObject *prepare(PyObject *self, PyObject *args) {
+    Py_ssize_t n, words, levels;
+    int sides;
+    Py_buffer players, ends, hfirst, hsecond, rematch, forbid, bound;
+    if (!PyArg_ParseTuple(args, "ny*y*ny*y*y*y*pny*", &n, &players, &ends, &words, &hfirst, &hsecond,
+                          &rematch, &forbid, &sides, &levels, &bound))
+        return NULL;
+    PyObject *out = NULL;
+    Scan *s = calloc(1, sizeof(Scan));
+    if (s == NULL) {
+        PyErr_NoMemory();
+        goto done;
+    }
+    if (n < 0 || words < 1 || levels < 0 || buffer_of(&players, n * 14, 8, "players") ||
+        buffer_of(&ends, n, 8, "ends") || buffer_of(&hfirst, n * words, 8, "history") ||
+        buffer_of(&hsecond, n * words, 8, "history") || buffer_of(&bound, levels + 10, 8, "bound") ||
+        rematch.len % 8 || forbid.len % 8) {
+        if (!PyErr_Occurred())
+            PyErr_SetString(PyExc_ValueError, "bad scan arguments");
+        goto done;
+    }
+    s->n = n;
+    s->sides = sides;
+    s->words = words;
+    s->levels = levels;
+    s->nrematch = rematch.len / 8;
+    s->nforbid = forbid.len / 8;
+    s->p = calloc(n ? n : 1, sizeof(Player));
+    s->end = malloc((n ? n : 1) * 8);
+    s->hfirst = malloc((n ? n : 1) * words * 8);
+    s->hsecond = malloc((n ? n : 1) * words * 8);
+    s->rematch = malloc(rematch.len ? rematch.len : 8);
+    s->forbid = malloc(forbid.len ? forbid.len : 8);
+    s->bound = malloc((levels + 10) * 8);
+    s->gapcmp = calloc(levels + 1, 1);
+    if (!s->p || !s->end || !s->hfirst || !s->hsecond || !s->rematch || !s->forbid || !s->bound || !s->gapcmp) {
+        PyErr_NoMemory();
+        goto done;
+    }
+    const int64_t *pl = players.buf;
+    for (Py_ssize_t i = 0; i < n; i++) {
+        const int64_t *x = pl + 14 * i;
+        Player *p = &s->p[i];
+        p->units = (int32_t)x[0];
+        p->grank = (int32_t)x[1];
+        p->gsize = (int32_t)x[2];
+        p->abs_sd = (int32_t)x[3];
+        p->want = (int8_t)x[4];
+        p->strength = (int8_t)x[5];
+        p->breaks_first = (uint8_t)x[6];
+        p->breaks_second = (uint8_t)x[7];
+        p->down1 = (uint8_t)x[8];
+        p->up1 = (uint8_t)x[9];
+        p->down2 = (uint8_t)x[10];
+        p->up2 = (uint8_t)x[11];
+        p->miss_first = (uint8_t)x[12];
+        p->miss_second = (uint8_t)x[13];
+    }
+    memcpy(s->end, ends.buf, n * 8);
+    memcpy(s->hfirst, hfirst.buf, n * words * 8);
+    memcpy(s->hsecond, hsecond.buf, n * words * 8);
+    memcpy(s->rematch, rematch.buf, rematch.len);
+    memcpy(s->forbid, forbid.buf, forbid.len);
+    memcpy(s->bound, bound.buf, (levels + 10) * 8);
+    for (Py_ssize_t g = 0; g <= levels; g++) {
+        for (Py_ssize_t d = levels; d >= 1; d--) {
+            int64_t e = g == d, b = s->bound[GAP_INDEX + levels - d];
+            if (e != b) {
+                s->gapcmp[g] = e < b ? -1 : 1;
+                break;
+            }
+        }
+    }
+    s->span = n ? s->p[0].units - s->p[n - 1].units : 0;
+    if (s->span < 0)
+        s->span = 0;
+    out = PyCapsule_New(s, CAPSULE, capsule_free);
+    if (out != NULL)
+        s = NULL;
+done:
+    scan_free(s);
+    PyBuffer_Release(&players);
+    PyBuffer_Release(&ends);
+    PyBuffer_Release(&hfirst);
+    PyBuffer_Release(&hsecond);
+    PyBuffer_Release(&rematch);
+    PyBuffer_Release(&forbid);
+    PyBuffer_Release(&bound);
+    return out;
+}
+
+static void works_free(Work *works, int parts) {
+    for (int t = 0; t < parts; t++) {
+        free(works[t].gaps);
+        free(works[t].entries);
+        free(works[t].filled);
+    }
+}
+
+static int works_init(Work *works, int parts, const Scan *s, int mode, int k) {
+    memset(works, 0, sizeof(Work) * 2);
+    for (int t = 0; t < parts; t++) {
+        Work *w = &works[t];
+        w->s = s;
+        w->mode = mode;
+        w->part = t;
+        w->parts = parts;
+        w->k = k;
+        if (mode == MODE_STATS) {
+            w->gaps = calloc(s->span + 1, 1);
+            if (!w->gaps)
+                return -1;
+        } else {
+            w->entries = malloc(sizeof(Entry) * (s->n ? s->n : 1) * k);
+            w->filled = calloc(s->n ? s->n : 1, sizeof(int32_t));
+            if (!w->entries || !w->filled)
+                return -1;
+        }
+    }
+    return 0;
+}
+
+static Scan *scan_of(PyObject *capsule) {
+    return (Scan *)PyCapsule_GetPointer(capsule, CAPSULE);
+}
+
+static PyObject *stats(PyObject *self, PyObject *args) {
+    PyObject *capsule;
+    int parts;
+    if (!PyArg_ParseTuple(args, "Oi", &capsule, &parts))
+        return NULL;
+    Scan *s = scan_of(capsule);
+    if (s == NULL)
+        return NULL;
+    parts = parts > 1 ? 2 : 1;
+    Work works[2];
+    if (works_init(works, parts, s, MODE_STATS, 0)) {
+        works_free(works, parts);
+        return PyErr_NoMemory();
+    }
+    Py_BEGIN_ALLOW_THREADS
+    run_all(works, parts);
+    Py_END_ALLOW_THREADS
+    Work *w = &works[0];
+    PyObject *maxima = PyTuple_New(WIDTH), *gaps = PyList_New(0), *out = NULL;
+    if (maxima && gaps) {
+        for (int k = 0; k < WIDTH; k++)
+            PyTuple_SET_ITEM(maxima, k, PyLong_FromLongLong(w->maxima[k]));
+        for (int64_t g = 0; g <= s->span; g++)
+            if (w->gaps[g]) {
+                PyObject *x = PyLong_FromLongLong(g);
+                if (x == NULL || PyList_Append(gaps, x)) {
+                    Py_XDECREF(x);
+                    goto fail;
+                }
+                Py_DECREF(x);
+            }
+        out = Py_BuildValue("LOOL", (long long)w->count, maxima, gaps, (long long)w->rematch_free);
+    }
+fail:
+    Py_XDECREF(maxima);
+    Py_XDECREF(gaps);
+    works_free(works, parts);
+    return out;
+}
+
+/* Pair keys of every per-vertex list (duplicates possible), as int64 bytes. */
+static PyObject *collect(Work *w) {
+    int64_t total = 0;
+    for (int64_t v = 0; v < w->s->n; v++)
+        total += w->filled[v];
+    PyObject *out = PyBytes_FromStringAndSize(NULL, total * 8);
+    if (out == NULL)
+        return NULL;
+    int64_t *keys = (int64_t *)PyBytes_AS_STRING(out), at = 0;
+    for (int64_t v = 0; v < w->s->n; v++)
+        for (int t = 0; t < w->filled[v]; t++)
+            keys[at++] = w->entries[v * w->k + t].pid;
+    return out;
+}
+
+static int int128_ok(Py_buffer *buf, Py_ssize_t count, const char *what) {
+    return buffer_of(buf, count, 16, what) == 0;
+}
+
+/* heaviest(capsule, parts, k, elevels, place (16-byte values), top (16 bytes)) -> bytes of keys */
+static PyObject *heaviest(PyObject *self, PyObject *args) {
+    PyObject *capsule;
+    int parts, k;
+    Py_ssize_t elevels;
+    Py_buffer place, top;
+    if (!PyArg_ParseTuple(args, "Oiiny*y*", &capsule, &parts, &k, &elevels, &place, &top))
+        return NULL;
+    PyObject *out = NULL;
+    Scan *s = scan_of(capsule);
+    Work works[2];
+    parts = parts > 1 ? 2 : 1;
+    memset(works, 0, sizeof(works));
+    if (s == NULL || k < 1 || elevels < 0 || !int128_ok(&place, elevels + 10, "place") || !int128_ok(&top, 1, "top")) {
+        if (!PyErr_Occurred())
+            PyErr_SetString(PyExc_ValueError, "bad heaviest arguments");
+        goto done;
+    }
+    if (works_init(works, parts, s, MODE_HEAVIEST, k)) {
+        PyErr_NoMemory();
+        goto done;
+    }
+    for (int t = 0; t < parts; t++) {
+        works[t].place = place.buf;
+        works[t].elevels = elevels;
+    }
+    Py_BEGIN_ALLOW_THREADS
+    run_all(works, parts);
+    Py_END_ALLOW_THREADS
+    if (works[0].error)
+        PyErr_SetString(PyExc_ValueError, "a pair's score gap is beyond the encoder's levels");
+    else
+        out = collect(&works[0]);
+done:
+    works_free(works, parts);
+    PyBuffer_Release(&place);
+    PyBuffer_Release(&top);
+    return out;
+}
+
+static int build_tree(Tree *t, const int64_t *parent, int64_t nodes) {
+    int64_t root = nodes - 1;
+    int32_t *count = calloc(nodes + 1, sizeof(int32_t)), *kids = malloc(sizeof(int32_t) * nodes);
+    int32_t *stack = malloc(sizeof(int32_t) * nodes), *next = malloc(sizeof(int32_t) * nodes);
+    int32_t *euler = malloc(sizeof(int32_t) * (2 * nodes));
+    t->top = malloc(sizeof(int32_t) * nodes);
+    t->depth = malloc(sizeof(int32_t) * nodes);
+    t->first = malloc(sizeof(int32_t) * nodes);
+    int ok = count && kids && stack && next && euler && t->top && t->depth && t->first;
+    if (ok) {
+        for (int64_t b = 0; b < root; b++)
+            count[parent[b] + 1]++;
+        for (int64_t b = 0; b < nodes; b++)
+            count[b + 1] += count[b];
+        for (int64_t b = 0; b < nodes; b++)
+            next[b] = count[b];
+        for (int64_t b = 0; b < root; b++)
+            kids[next[parent[b]]++] = (int32_t)b;
+        for (int64_t b = 0; b < nodes; b++)
+            next[b] = count[b];
+        /* Iterative depth-first Euler tour from the root. */
+        int64_t sp = 0, len = 0;
+        stack[sp++] = (int32_t)root;
+        t->depth[root] = 0;
+        t->top[root] = (int32_t)root;
+        t->first[root] = 0;
+        euler[len++] = (int32_t)root;
+        while (sp) {
+            int32_t b = stack[sp - 1];
+            if (next[b] < count[b + 1]) {
+                int32_t c = kids[next[b]++];
+                t->depth[c] = t->depth[b] + 1;
+                t->top[c] = b == root ? c : t->top[b];
+                t->first[c] = (int32_t)len;
+                euler[len++] = c;
+                stack[sp++] = c;
+            } else {
+                sp--;
+                if (sp)
+                    euler[len++] = stack[sp - 1];
+            }
+        }
+        t->tour = len;
+        int levels = 1;
+        while ((1LL << levels) <= len)
+            levels++;
+        t->table = malloc(sizeof(int32_t) * levels * len);
+        ok = t->table != NULL;
+        if (ok) {
+            memcpy(t->table, euler, sizeof(int32_t) * len);
+            for (int l = 1; l < levels; l++) {
+                int32_t *row = t->table + l * len, *prev = row - len;
+                int64_t half = 1LL << (l - 1);
+                for (int64_t x = 0; x + (1LL << l) <= len; x++) {
+                    int32_t a = prev[x], b = prev[x + half];
+                    row[x] = t->depth[a] <= t->depth[b] ? a : b;
+                }
+            }
+        }
+    }
+    free(count);
+    free(kids);
+    free(stack);
+    free(next);
+    free(euler);
+    return ok ? 0 : -1;
+}
+
+static void tree_free(Tree *t) {
+    free(t->top);
+    free(t->depth);
+    free(t->first);
+    free(t->table);
+}
+
+/* violated(capsule, parts, k, elevels, place, top, y2 (16 bytes per player), owner (int64 per player),
+ *          parent (int64 per blossom, root = m), prefix (16 bytes per node, m + 1)) -> (bytes, count) */
+static PyObject *violated(PyObject *self, PyObject *args) {
+    PyObject *capsule;
+    int parts, k;
+    Py_ssize_t elevels;
+    Py_buffer place, top, y2, owner, parent, prefix;
+    if (!PyArg_ParseTuple(args, "Oiiny*y*y*y*y*y*", &capsule, &parts, &k, &elevels, &place, &top, &y2, &owner,
+                          &parent, &prefix))
+        return NULL;
+    PyObject *out = NULL, *keys = NULL;
+    Scan *s = scan_of(capsule);
+    Work works[2];
+    Tree tree;
+    memset(&tree, 0, sizeof(tree));
+    memset(works, 0, sizeof(works));
+    parts = parts > 1 ? 2 : 1;
+    int64_t nodes = prefix.len / 16;
+    if (s == NULL || k < 1 || elevels < 0 || nodes < 1 || !int128_ok(&place, elevels + 10, "place") ||
+        !int128_ok(&top, 1, "top") || !int128_ok(&y2, s->n, "y2") || !int128_ok(&prefix, nodes, "prefix") ||
+        buffer_of(&owner, s->n, 8, "owner") || buffer_of(&parent, nodes - 1, 8, "parent")) {
+        if (!PyErr_Occurred())
+            PyErr_SetString(PyExc_ValueError, "bad violated arguments");
+        goto done;
+    }
+    const int64_t *own = owner.buf, *par = parent.buf;
+    for (int64_t v = 0; v < s->n; v++)
+        if (own[v] < 0 || own[v] >= nodes) {
+            PyErr_SetString(PyExc_ValueError, "owner out of range");
+            goto done;
+        }
+    for (int64_t b = 0; b < nodes - 1; b++)
+        if (par[b] <= b || par[b] >= nodes) { /* parents are listed after their children */
+            PyErr_SetString(PyExc_ValueError, "parent out of order");
+            goto done;
+        }
+    tree.nodes = nodes;
+    tree.owner = own;
+    tree.prefix = prefix.buf;
+    if (build_tree(&tree, par, nodes) || works_init(works, parts, s, MODE_VIOLATED, k)) {
+        PyErr_NoMemory();
+        goto done;
+    }
+    i128 topv;
+    memcpy(&topv, top.buf, 16);
+    for (int t = 0; t < parts; t++) {
+        works[t].place = place.buf;
+        works[t].elevels = elevels;
+        works[t].top = topv;
+        works[t].y2 = y2.buf;
+        works[t].tree = &tree;
+    }
+    Py_BEGIN_ALLOW_THREADS
+    run_all(works, parts);
+    Py_END_ALLOW_THREADS
+    if (works[0].error) {
+        PyErr_SetString(PyExc_ValueError, "a pair's score gap is beyond the encoder's levels");
+        goto done;
+    }
+    keys = collect(&works[0]);
+    if (keys)
+        out = Py_BuildValue("OL", keys, (long long)works[0].count);
+done:
+    Py_XDECREF(keys);
+    tree_free(&tree);
+    works_free(works, parts);
+    PyBuffer_Release(&place);
+    PyBuffer_Release(&top);
+    PyBuffer_Release(&y2);
+    PyBuffer_Release(&owner);
+    PyBuffer_Release(&parent);
+    PyBuffer_Release(&prefix);
+    return out;
+}
+
+static PyMethodDef methods[] = {
+    {"prepare", prepare, METH_VARARGS, "Per-player fields of one round's scan, as a capsule."},
+    {"stats", stats, METH_VARARGS, "(count, column maxima, gaps, rematch-free count) of the pruned pairs."},
+    {"heaviest", heaviest, METH_VARARGS, "Keys i * n + j of every vertex's k heaviest pruned pairs."},
+    {"violated", violated, METH_VARARGS, "Keys of every vertex's k most violated pruned pairs, and their count."},
+    {NULL, NULL, 0, NULL},
+};
+
+static struct PyModuleDef module = {PyModuleDef_HEAD_INIT, "_scan_c", NULL, -1, methods};
 
 PyMODINIT_FUNC PyInit__scan_c(void) { return PyModule_Create(&module); }
