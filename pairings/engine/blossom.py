@@ -28,6 +28,15 @@ tree, so with a warm start that leaves few exposed vertices a stage costs
 what its tree costs, not ``O(n)``; the vertices of each blossom are cached
 (they never change while it exists).
 
+**Compiled kernel.** :func:`perfect_matching` and :func:`perfect_matching_arrays`
+run the C port of this module (``_blossom_c``: the same algorithm and warm
+starts on ``__int128`` integers) whenever it is built, :data:`USE_COMPILED` is
+true and every ``|w| < 2**100``; otherwise, or when a dual would leave the
+kernel's range (``2**124``), the pure-Python code below runs. Both return an
+optimum of equal weight with an optimal dual; among optima of equal weight
+they may pick different ones. Values cross into C as buffers: vertex ids as
+int64, weights and duals as 16-byte little-endian two's complement integers.
+
 References
 ----------
 J. Edmonds, "Maximum matching and a polyhedron with 0,1-vertices",
@@ -40,9 +49,28 @@ from __future__ import annotations
 
 import sys
 from dataclasses import dataclass
-from typing import Sequence
+from importlib import import_module
+from itertools import chain
+from types import ModuleType
+from typing import Any, Sequence
+
+import numpy as np
+from numpy.typing import NDArray
 
 Edge = tuple[int, int, int]
+
+_kernel: ModuleType | None
+try:  # optional compiled kernel (setup.py builds it when a C compiler is there)
+    _kernel = import_module("pairings.engine._blossom_c")
+except ImportError:  # pragma: no cover - depends on the build
+    _kernel = None
+
+USE_COMPILED = True
+"""Use the compiled kernel when it is built (tests set it False to force the pure-Python code)."""
+WEIGHT_BOUND = 2**100
+"""The kernel takes weights with ``|w| < WEIGHT_BOUND``."""
+DUAL_BOUND = 2**124
+"""... and carried duals below this; larger values run the pure-Python code."""
 
 
 @dataclass(frozen=True)
@@ -393,9 +421,18 @@ class _Blossom:
         return Dual(self.d[:self.n], out)
 
 
+def compiled() -> bool:
+    """True when :func:`perfect_matching` runs the compiled kernel (built and not switched off)."""
+    return _kernel is not None and USE_COMPILED
+
+
 def perfect_matching(n: int, edges: Sequence[Edge], warm: Sequence[int] = (), dual: Dual | None = None
                      ) -> tuple[list[tuple[int, int]], Dual] | None:
     """A maximum-weight perfect matching and an optimal dual, or None if there is none.
+
+    Edmonds (1965), Galil (1986): see the module notes. Runs the compiled
+    kernel when :func:`compiled` and the values fit, else :func:`python_perfect_matching`
+    (same parameters, same kind of result).
 
     Parameters
     ----------
@@ -412,6 +449,118 @@ def perfect_matching(n: int, edges: Sequence[Edge], warm: Sequence[int] = (), du
         An optimal dual of a previous solve on fewer edges (column
         generation), another heuristic start: see :func:`_carried`.
     """
+    if n % 2:
+        return None
+    if compiled():
+        m = len(edges)
+        u = np.fromiter((e[0] for e in edges), dtype=np.int64, count=m)
+        v = np.fromiter((e[1] for e in edges), dtype=np.int64, count=m)
+        w = _weights([e[2] for e in edges])
+        if w is not None:
+            try:
+                return _solve(n, u, v, w, np.asarray(warm, dtype=np.int64), np.zeros(0, dtype=np.int64), dual)
+            except _OutOfRange:
+                pass
+    return python_perfect_matching(n, edges, warm, dual)
+
+
+def perfect_matching_arrays(n: int, u: NDArray[np.int64], v: NDArray[np.int64], w: NDArray[Any],
+                            warm_pairs: Sequence[tuple[int, int]] = (), dual: Dual | None = None
+                            ) -> tuple[list[tuple[int, int]], Dual] | None:
+    """:func:`perfect_matching` of the edges ``(u[k], v[k], w[k])`` given as arrays.
+
+    ``u``, ``v``: int64 vertex arrays; ``w``: exact integers (dtype int64, or
+    object of Python ints). ``warm_pairs`` are vertex pairs ``(a, b)`` (either
+    order) of a good matching rather than edge indices; a pair that is no edge
+    is ignored. No Python tuple per edge is built on the compiled path.
+    """
+    if n % 2:
+        return None
+    uu = np.ascontiguousarray(u, dtype=np.int64)
+    vv = np.ascontiguousarray(v, dtype=np.int64)
+    if compiled():
+        ww = _weights(w)
+        if ww is not None:
+            flat = np.asarray(warm_pairs, dtype=np.int64).reshape(-1)
+            try:
+                return _solve(n, uu, vv, ww, np.zeros(0, dtype=np.int64), flat, dual)
+            except _OutOfRange:
+                pass
+    edges = list(zip(uu.tolist(), vv.tolist(), np.asarray(w).tolist()))
+    where = {(min(a, b), max(a, b)): k for k, (a, b, _) in enumerate(edges)}
+    warm = [where[key] for key in ((min(a, b), max(a, b)) for a, b in warm_pairs) if key in where]
+    return python_perfect_matching(n, edges, warm, dual)
+
+
+class _OutOfRange(Exception):
+    """A value beyond the compiled kernel's integers: run the pure-Python code."""
+
+
+def _weights(w: Sequence[int] | NDArray[Any], bound: int = WEIGHT_BOUND) -> bytes | None:
+    """``w`` as 16-byte little-endian integers, or None when some ``|w| >= bound``."""
+    arr = np.asarray(w)
+    if arr.dtype != object and arr.dtype.kind in "iu" and arr.dtype.itemsize <= 8 and \
+            (arr.dtype.kind == "i" or arr.dtype.itemsize < 8):
+        return _int128_bytes(arr.astype(np.int64))
+    values = arr.tolist() if isinstance(arr, np.ndarray) else list(w)
+    if not values:
+        return b""
+    top, low = max(values), min(values)
+    if -2**63 <= low and top < 2**63:
+        return _int128_bytes(np.array(values, dtype=np.int64))
+    if top >= bound or low <= -bound:
+        return None
+    return b"".join(x.to_bytes(16, "little", signed=True) for x in values)
+
+
+def _int128_bytes(x: NDArray[np.int64]) -> bytes:
+    """int64 values as 16-byte little-endian two's complement (low limb, then the sign limb)."""
+    return np.stack([x, x >> 63], axis=1).astype("<i8").tobytes()
+
+
+def _ints(buf: bytes) -> list[int]:
+    """Python ints of 16-byte little-endian two's complement values."""
+    limbs = np.frombuffer(buf, dtype="<i8").reshape(-1, 2)
+    lo, hi = limbs[:, 0], limbs[:, 1]
+    if bool((hi == lo >> 63).all()):
+        return lo.astype(np.int64).tolist()  # type: ignore[no-any-return]
+    return [int.from_bytes(buf[k:k + 16], "little", signed=True) for k in range(0, len(buf), 16)]
+
+
+def _solve(n: int, u: NDArray[np.int64], v: NDArray[np.int64], w: bytes, warm_edges: NDArray[np.int64],
+           warm_pairs: NDArray[np.int64], dual: Dual | None) -> tuple[list[tuple[int, int]], Dual] | None:
+    """The compiled kernel's answer as :func:`perfect_matching`'s; raises :class:`_OutOfRange`."""
+    assert _kernel is not None
+    y2 = members = offsets = z = b""
+    if dual is not None:
+        y2_or_none = _weights(dual.y2, DUAL_BOUND)
+        z_or_none = _weights([zb for _, zb in dual.blossoms], DUAL_BOUND)
+        if len(dual.y2) != n or y2_or_none is None or z_or_none is None:
+            raise _OutOfRange
+        y2, z = y2_or_none, z_or_none
+        sizes = [len(b) for b, _ in dual.blossoms]
+        members = np.fromiter(chain.from_iterable(b for b, _ in dual.blossoms), dtype=np.int64,
+                              count=sum(sizes)).tobytes()
+        offsets = np.concatenate([[0], np.cumsum(sizes, dtype=np.int64)]).astype(np.int64).tobytes()
+    try:
+        got = _kernel.solve(n, u, v, w, warm_edges, warm_pairs, dual is not None, y2, members, offsets, z)
+    except _kernel.Unsupported as exc:
+        raise _OutOfRange from exc
+    if got is None:
+        return None
+    partner_b, y2_b, members_b, offsets_b, z_b = got
+    partner = np.frombuffer(partner_b, dtype=np.int64)
+    rows = np.flatnonzero(partner > np.arange(n))
+    pairs = list(zip(rows.tolist(), partner[rows].tolist()))
+    flat = np.frombuffer(members_b, dtype=np.int64).tolist()
+    ends = np.frombuffer(offsets_b, dtype=np.int64).tolist()
+    blossoms = [(frozenset(flat[a:b]), zb) for a, b, zb in zip(ends, ends[1:], _ints(z_b))]
+    return pairs, Dual(_ints(y2_b), blossoms)
+
+
+def python_perfect_matching(n: int, edges: Sequence[Edge], warm: Sequence[int] = (), dual: Dual | None = None
+                            ) -> tuple[list[tuple[int, int]], Dual] | None:
+    """:func:`perfect_matching` in pure Python (the fallback without the compiled kernel)."""
     if n % 2:
         return None
     d = [0] * n
