@@ -6,9 +6,12 @@ requested byes; the history rounds are made by the simulator's fast pairer),
 folds it, drafts the next round with the engine and, up to
 ``--reference-limit`` players, with the reference solver (networkx on the full
 candidate graph) on the same weights. It prints one Markdown table row per
-size: draft time, peak memory (tracemalloc, a second run), the ratio
+size: draft time, peak resident memory of the process during the draft, the ratio
 reference/engine, how the engine's matching was found (``certified in k``:
-sparse solves until the dual certificate held on every pruned edge;
+sparse solves until the dual certificate held on every pruned edge, with
+the sparse graph's size and the number of pruned edges covered; ``listed``
+or ``implicit``: whether the pruned edges were held in arrays or walked by
+the compiled scan;
 ``fallback``: the compiled solver on every pruned edge), and asserts that the
 two cost vectors are equal. ``--fold N`` also times folding a whole
 ``--rounds``-round log of ``N`` players (:func:`pairings.fold.fold`).
@@ -22,7 +25,7 @@ import tracemalloc
 from typing import Callable, TypeVar
 
 from pairings.engine import draft_round
-from pairings.engine import candidates
+from pairings.engine import candidates, implicit
 from pairings.engine.criteria import Field
 from pairings.engine.solver import fast_available
 from pairings.fold import fold
@@ -38,12 +41,27 @@ def _timed(fn: Callable[[], T]) -> tuple[T, float]:
     return out, time.perf_counter() - start
 
 
-def _peak_mb(fn: Callable[[], object]) -> float:
-    tracemalloc.start()
-    fn()
-    _, peak = tracemalloc.get_traced_memory()
-    tracemalloc.stop()
-    return peak / 2**20
+def _peak_mb(fn: Callable[[], T]) -> tuple[T, float, float]:
+    """``fn()``, its time, and the process's peak resident memory in MB while it ran.
+
+    Linux: the high-water mark is reset first (``/proc/self/clear_refs``, value 5)
+    and read from ``VmHWM``; it counts everything the process holds (the folded
+    state too), compiled kernels' memory included. Elsewhere: tracemalloc's peak
+    (Python and numpy allocations only).
+    """
+    try:
+        with open("/proc/self/clear_refs", "w") as f:
+            f.write("5")
+    except OSError:
+        tracemalloc.start()
+        out, seconds = _timed(fn)
+        _, peak = tracemalloc.get_traced_memory()
+        tracemalloc.stop()
+        return out, seconds, peak / 2**20
+    out, seconds = _timed(fn)
+    with open("/proc/self/status") as f:
+        hwm = next(line for line in f if line.startswith("VmHWM:"))
+    return out, seconds, int(hwm.split()[1]) / 1024
 
 
 def bench_one(n: int, rounds: int, played: int, seed: int, reference_limit: int) -> str:
@@ -51,13 +69,14 @@ def bench_one(n: int, rounds: int, played: int, seed: int, reference_limit: int)
     log = simulate_events(n, rounds, played, seed)
     state: EventState
     state, fold_s = _timed(lambda: fold(enumerate(log, 1)))
-    draft, engine_s = _timed(lambda: draft_round(state))
+    del log  # the draft's peak memory should not count the simulator's events
+    draft, engine_s, peak = _peak_mb(lambda: draft_round(state))
     rnd = state.next_round_number
     fld = Field(state, rnd, state.available(rnd))  # the same field, again, for the route taken
-    _, _, route = candidates.engine_matching(fld, list(fld.order), ())
-    how = "full graph" if route is None else \
-        f"certified in {route.rounds}, {route.sparse_edges:,} edges" if route.certified else "fallback"
-    peak = _peak_mb(lambda: draft_round(state))
+    _, route, _ = candidates.engine_matching(fld, list(fld.order), ())
+    how = "full graph" if route is None else "fallback" if not route.certified else \
+        f"certified in {route.rounds}, {route.sparse_edges:,} of {route.pruned:,} edges, " \
+        f"{'implicit' if implicit.available() else 'listed'}"
     ref_cell, ratio_cell = "-", "-"
     if n <= reference_limit:
         ref, ref_s = _timed(lambda: draft_round(state, reference=True))

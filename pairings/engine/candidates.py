@@ -110,21 +110,25 @@ def full_graph(fld: Field, players: Sequence[PlayerId], no_bye: Collection[Playe
     return g
 
 
-def greedy(fld: Field, players: Sequence[PlayerId], no_bye: Collection[PlayerId]) -> list[Cost] | None:
-    """Costs of a feasible full pairing built greedily in rank order, or None if it fails.
+def greedy(fld: Field, players: Sequence[PlayerId], no_bye: Collection[PlayerId]
+           ) -> tuple[list[Cost], list[tuple[int, int]]] | None:
+    """A feasible full pairing built greedily in rank order: its costs and index pairs, or None.
 
-    The bye goes to the lowest-ranked player allowed one; then each player, top
-    down, takes the cheapest of the next ``GREEDY_WINDOW`` free players (all
-    of them when none of those is free of hard-rule relaxations).
+    The bye goes to the lowest-ranked player allowed one (pair ``(i, len(players))``);
+    then each player, top down, takes the cheapest of the next ``GREEDY_WINDOW``
+    free players (all of them when none of those is free of hard-rule relaxations).
     """
+    index = {p: k for k, p in enumerate(players)}
     free = list(players)
     out: list[Cost] = []
+    pairs: list[tuple[int, int]] = []
     if len(free) % 2:
         allowed = [p for p in free if p not in no_bye]
         if not allowed:
             return None
         by_cost = min(reversed(allowed), key=fld.bye)
         out.append(fld.bye(by_cost))
+        pairs.append((index[by_cost], len(players)))
         free.remove(by_cost)
     while free:
         p = free.pop(0)
@@ -141,8 +145,58 @@ def greedy(fld: Field, players: Sequence[PlayerId], no_bye: Collection[PlayerId]
         if best is None:
             return None
         out.append(best[0])
-        free.pop(best[1])
-    return out
+        pairs.append((index[p], index[free.pop(best[1])]))
+    return out, pairs
+
+
+@dataclass(frozen=True)
+class Bound:
+    """What a greedy pairing ``F`` proves about the optimum (module Notes, safe pruning)."""
+
+    totals: tuple[int, ...]
+    """``C(F)``: F's expanded cost totals (:meth:`weights.Encoder.expand`)."""
+    levels: int
+    """The largest score gap in F (the expanded gap levels)."""
+    max_gap: int | None
+    """Pairs further apart can be skipped unseen (None when F relaxes a hard rule)."""
+    pairs: tuple[tuple[int, int], ...]
+    """F itself, as index pairs (the bye vertex is ``len(players)``)."""
+
+
+def greedy_bound(fld: Field, players: Sequence[PlayerId], no_bye: Collection[PlayerId]) -> Bound | None:
+    """The safe-pruning bound of a greedy pairing; None when no greedy pairing is found."""
+    found = greedy(fld, players, no_bye)
+    if found is None:
+        return None
+    feasible, pairs = found
+    enc = weights.encoder(feasible, len(players) + 1)
+    totals = tuple(sum(col) for col in zip(*(enc.expand(c) for c in feasible)))
+    max_gap = max(c[weights.GAP_INDEX] for c in feasible) if not any(totals[:HARD]) else None
+    return Bound(totals, enc.levels, max_gap, tuple(pairs))
+
+
+def bye_rows(fld: Field, players: Sequence[PlayerId], no_bye: Collection[PlayerId], bound: Bound
+             ) -> tuple[IntArray, IntArray, IntArray]:
+    """The pruned bye edges ``(u, v, costs)``: players allowed the bye whose bye cost is within the bound."""
+    n = len(players)
+    if n % 2 == 0:
+        return np.zeros(0, dtype=np.int64), np.zeros(0, dtype=np.int64), np.zeros((0, WIDTH), dtype=np.int64)
+    byes = [(k, fld.bye(p)) for k, p in enumerate(players) if p not in no_bye]
+    rows = np.array([c for _, c in byes], dtype=np.int64).reshape(-1, WIDTH)
+    keep = _not_above(rows, bound.totals, bound.levels)
+    u = np.array([k for k, _ in byes], dtype=np.int64)[keep]
+    return u, np.full(len(u), n, dtype=np.int64), rows[keep]
+
+
+def admissible(arrays: Arrays, i: IntArray, j: IntArray, bound: Bound) -> tuple[IntArray, IntArray, IntArray]:
+    """The index pairs ``i < j`` that are pruned edges, with their cost rows."""
+    ok = arrays.allowed(i, j)
+    if bound.max_gap is not None:
+        ok &= arrays.units[i] - arrays.units[j] <= bound.max_gap
+    i, j = i[ok], j[ok]
+    rows = arrays.costs(i, j)
+    keep = _not_above(rows, bound.totals, bound.levels)
+    return i[keep], j[keep], rows[keep]
 
 
 @dataclass(frozen=True)
@@ -187,37 +241,29 @@ def _not_above(rows: IntArray, bound: Sequence[int], levels: int) -> NDArray[np.
     return keep
 
 
-def pruned_edges(fld: Field, players: Sequence[PlayerId], no_bye: Collection[PlayerId]) -> Pruned | None:
+def pruned_edges(fld: Field, players: Sequence[PlayerId], no_bye: Collection[PlayerId],
+                 bound: Bound | None = None) -> Pruned | None:
     """The full graph less the edges that cannot be in any optimum (module Notes), as arrays.
 
     None when no greedy pairing is found (the caller then uses the full graph).
+    ``bound`` is :func:`greedy_bound`'s, when the caller has it already.
     """
-    feasible = greedy(fld, players, no_bye)
-    if feasible is None:
+    bound = bound if bound is not None else greedy_bound(fld, players, no_bye)
+    if bound is None:
         return None
-    enc = weights.encoder(feasible, len(players) + 1)
-    bound = tuple(sum(col) for col in zip(*(enc.expand(c) for c in feasible)))
-    hard_free = not any(bound[:HARD])
-    max_gap = max(c[weights.GAP_INDEX] for c in feasible) if hard_free else None
     arrays = Arrays(fld, players)
     us, vs, cs = [], [], []
     for lo in range(0, len(players), CHUNK):
-        i, j = _index_pairs(arrays.units, max_gap, range(lo, min(lo + CHUNK, len(players))))
-        ok = arrays.allowed(i, j)
-        i, j = i[ok], j[ok]
-        rows = arrays.costs(i, j)
-        keep = _not_above(rows, bound, enc.levels)
-        us.append(i[keep])
-        vs.append(j[keep])
-        cs.append(rows[keep].astype(np.int32))  # small counts and ranks: half the memory
+        i, j, rows = admissible(arrays, *_index_pairs(arrays.units, bound.max_gap,
+                                                      range(lo, min(lo + CHUNK, len(players)))), bound)
+        us.append(i)
+        vs.append(j)
+        cs.append(rows.astype(np.int32))  # small counts and ranks: half the memory
+    bu, bv, brows = bye_rows(fld, players, no_bye, bound)
+    us.append(bu)
+    vs.append(bv)
+    cs.append(brows.astype(np.int32))
     n = len(players)
-    if n % 2:
-        byes = [(k, fld.bye(p)) for k, p in enumerate(players) if p not in no_bye]
-        rows = np.array([c for _, c in byes], dtype=np.int64).reshape(-1, WIDTH)
-        keep = _not_above(rows, bound, enc.levels)
-        us.append(np.array([k for k, _ in byes], dtype=np.int64)[keep])
-        vs.append(np.full(int(keep.sum()), n, dtype=np.int64))
-        cs.append(rows[keep].astype(np.int32))
     return Pruned(n + n % 2, np.concatenate(us), np.concatenate(vs), np.concatenate(cs), arrays)
 
 
@@ -296,6 +342,8 @@ class Route:
     rounds: int
     """Sparse solves made."""
     sparse_edges: int
+    pruned: int = 0
+    """Pruned edges the certificate covered (0: not counted)."""
 
 
 def _best_per_vertex(u: IntArray, v: IntArray, score: AnyArray, among: NDArray[np.bool_],
@@ -354,22 +402,40 @@ def certified_matching(n: int, u: IntArray, v: IntArray, w: AnyArray, rank: IntA
         rc = certificate.reduced_costs(u, v, w, dual, split)
         bad = rc < 0
         if not bad.any() and certificate.certify(n, u, v, w, pairs, dual, split):
-            return pairs, Route(True, attempt, len(idx))
+            return pairs, Route(True, attempt, len(idx), len(u))
         mask |= _best_per_vertex(u, v, -rc, bad, SPARSE_ADD)
     edges = list(zip(u.tolist(), v.tolist(), w.tolist()))
     return solver.matching(n, edges), Route(False, rounds, len(u))
 
 
+def _all_rematches(rematch: Sequence[int]) -> bool:
+    return len(rematch) > 0 and all(rematch)
+
+
 def engine_matching(fld: Field, players: Sequence[PlayerId], no_bye: Collection[PlayerId]
-                    ) -> tuple[Graph | Pruned, list[tuple[int, int]], Route | None]:
-    """The engine's path: pruned arrays and the certified sparse solve (full graph if no greedy)."""
-    pr = pruned_edges(fld, players, no_bye)
-    if pr is None:
+                    ) -> tuple[list[tuple[int, int]], Route | None, bool]:
+    """The engine's path: index pairs, how they were found, and whether every pruned pair is a rematch.
+
+    With the compiled kernels, the implicit certified solve (:mod:`implicit`);
+    else, or when it cannot certify, the listed pruned pairs and the certified
+    sparse solve; the full graph when no greedy pairing exists.
+    """
+    from pairings.engine import implicit  # it builds on this module
+
+    bound = greedy_bound(fld, players, no_bye)
+    if bound is None:
         g = full_graph(fld, players, no_bye)
-        return g, solve(g, False), None
+        real = [c[0] for (i, j), c in zip(g.edges, g.costs) if j != g.bye_vertex]
+        return solve(g, False), None, _all_rematches(real)
+    if implicit.available():
+        solved = implicit.implicit_matching(fld, players, no_bye, bound)
+        if solved is not None:
+            return solved.pairs, solved.route, solved.every_pair_a_rematch
+    pr = pruned_edges(fld, players, no_bye, bound)
+    assert pr is not None
     w = weights.weight_array(pr.costs, pr.n)
     pairs, route = certified_matching(pr.n, pr.u, pr.v, w, pr.costs[:, RANK_INDEX], seed=seed_mask(pr))
-    return pr, pairs, route
+    return pairs, route, _all_rematches(pr.costs[pr.v != len(players), 0].tolist())
 
 
 def solve(g: Graph, reference: bool) -> list[tuple[int, int]]:
@@ -394,17 +460,12 @@ def optimal_pairs(fld: Field, players: Sequence[PlayerId], no_bye: Collection[Pl
     if not players:
         return [], None
     if reference:
-        g: Graph | Pruned = full_graph(fld, players, no_bye)
-        assert isinstance(g, Graph)
-        real = [c[0] for (i, j), c in zip(g.edges, g.costs) if j != g.bye_vertex]
+        g = full_graph(fld, players, no_bye)
+        rematches = _all_rematches([c[0] for (i, j), c in zip(g.edges, g.costs) if j != g.bye_vertex])
         matched = solve(g, True)
     else:
-        g, matched, _ = engine_matching(fld, players, no_bye)
-        if isinstance(g, Graph):
-            real = [c[0] for (i, j), c in zip(g.edges, g.costs) if j != g.bye_vertex]
-        else:
-            real = g.costs[g.v != len(players), 0].tolist()
-    if len(players) > 1 and real and all(real):
+        matched, _, rematches = engine_matching(fld, players, no_bye)
+    if len(players) > 1 and rematches:
         raise NoPairingError(
             f"round {fld.round}: every player to pair has already met every other "
             f"(max meetings {fld.max_meetings}); no Swiss round can be paired"

@@ -100,10 +100,14 @@ class Field:
         self.unit = score_unit(state)
         initial = {pid: i for i, pid in enumerate(state.initial_rank())}
         recs = state.records
-        self.units: dict[PlayerId, int] = {
-            pid: int(round(Fraction(recs[pid].score_before(round_number)).limit_denominator(1000) / self.unit))
-            for pid in players
-        }
+        in_units: dict[float, int] = {}  # few distinct scores; Fraction arithmetic is slow per player
+
+        def units(score: float) -> int:
+            if score not in in_units:
+                in_units[score] = int(round(Fraction(score).limit_denominator(1000) / self.unit))
+            return in_units[score]
+
+        self.units: dict[PlayerId, int] = {pid: units(recs[pid].score_before(round_number)) for pid in players}
         # Rank during the event: score descending, then initial rank (rules.md).
         self.order: tuple[PlayerId, ...] = tuple(sorted(self.units, key=lambda p: (-self.units[p], initial[p])))
         self.index = {pid: i for i, pid in enumerate(self.order)}

@@ -102,6 +102,45 @@ def from_maxima(columns: Sequence[int], gaps: Collection[int], vertices: int) ->
     return Encoder(levels, tuple(place), 0)
 
 
+def _totals(enc: Encoder, costs: NDArray[np.int64]) -> AnyArray:
+    """:meth:`Encoder.cost` of every row of ``costs``: int64 when it fits, Python integers otherwise."""
+    gap = costs[:, GAP_INDEX]
+    levels = enc.levels
+    col_place = list(enc.place[:GAP_INDEX]) + list(enc.place[GAP_INDEX + levels:])
+    gap_place = [0] + [enc.place[GAP_INDEX + levels - d] for d in range(1, levels + 1)]
+    cols = [k for k in range(costs.shape[1]) if k != GAP_INDEX]
+    used = [(p, k) for p, k in zip(col_place, cols) if costs[:, k].any()]
+    bound = max(enc.top, sum(p * int(costs[:, k].max()) for p, k in used) + max(gap_place))
+    dtype = np.int64 if 2 * bound + 2 < 2**62 else object
+    total = np.array(gap_place, dtype=dtype)[gap]
+    for p, k in used:
+        total = total + costs[:, k].astype(dtype) * p
+    return np.asarray(total)
+
+
+def encode(enc: Encoder, costs: NDArray[np.int64]) -> AnyArray:
+    """:meth:`Encoder.weight` of every row of ``costs``, exact (int64 when it fits)."""
+    if len(costs) == 0:
+        return np.zeros(0, dtype=np.int64)
+    return np.asarray(enc.top - _totals(enc, costs))
+
+
+def bounding(maxima: Sequence[int], gaps: Collection[int], vertices: int) -> Encoder:
+    """:func:`from_maxima` with ``top`` one more than any cost those maxima allow.
+
+    For edge sets known only by their column maxima (the engine's implicit
+    pruned pairs): ``top`` bounds every edge's cost from above, so every weight
+    is positive; a common shift of all weights changes no comparison between
+    perfect matchings (they all have the same number of edges).
+    """
+    enc = from_maxima(maxima, gaps, vertices)
+    levels = enc.levels
+    rest = list(maxima[:GAP_INDEX]) + list(maxima[GAP_INDEX + 1:])
+    places = list(enc.place[:GAP_INDEX]) + list(enc.place[GAP_INDEX + levels:])
+    top = 1 + sum(p * m for p, m in zip(places, rest)) + (enc.place[GAP_INDEX] if levels else 0)
+    return Encoder(levels, enc.place, top)
+
+
 def weight_array(costs: NDArray[np.int64], vertices: int) -> AnyArray:
     """:meth:`Encoder.weight` of every row of ``costs`` under :func:`encoder` of those rows.
 
@@ -111,15 +150,5 @@ def weight_array(costs: NDArray[np.int64], vertices: int) -> AnyArray:
         return np.zeros(0, dtype=np.int64)
     gap = costs[:, GAP_INDEX]
     enc = from_maxima([int(x) for x in costs.max(axis=0)], set(np.unique(gap).tolist()), vertices)
-    levels = enc.levels
-    col_place = list(enc.place[:GAP_INDEX]) + list(enc.place[GAP_INDEX + levels:])
-    gap_place = [0] + [enc.place[GAP_INDEX + levels - d] for d in range(1, levels + 1)]
-    cols = [k for k in range(costs.shape[1]) if k != GAP_INDEX]
-    used = [(p, k) for p, k in zip(col_place, cols) if costs[:, k].any()]
-    bound = sum(p * int(costs[:, k].max()) for p, k in used) + max(gap_place)
-    dtype = np.int64 if 2 * bound + 2 < 2**62 else object
-    total = np.array(gap_place, dtype=dtype)[gap]
-    for p, k in used:
-        total = total + costs[:, k].astype(dtype) * p
-    top = 1 + max(total.tolist())
-    return np.asarray(top - total)
+    total = _totals(enc, costs)
+    return np.asarray(1 + max(total.tolist()) - total)

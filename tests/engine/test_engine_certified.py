@@ -15,7 +15,7 @@ from hypothesis import HealthCheck, given, settings
 from hypothesis import strategies as st
 
 from tests.engine.engine_support import random_history, state_of
-from pairings.engine import candidates, draft_round, solver
+from pairings.engine import candidates, draft_round, implicit, solver
 from pairings.engine.blossom import Dual, perfect_matching
 from pairings.engine.certificate import certify, reduced_costs
 from pairings.engine.criteria import Field
@@ -187,10 +187,11 @@ def test_fallback_engages_and_stays_exact(monkeypatch: pytest.MonkeyPatch) -> No
     _, route = candidates.certified_matching(pr.n, pr.u, pr.v, w, rank, rounds=1)
     assert not route.certified
     monkeypatch.setattr(candidates, "SPARSE_ROUNDS", 1)
+    monkeypatch.setattr(implicit, "available", lambda: False)  # the listed path (implicit: its own test)
     # Without the side-class seed edges, which make this field certify in one round.
     monkeypatch.setattr(candidates, "seed_mask", lambda pr: np.zeros(len(pr.u), dtype=bool))
     monkeypatch.setattr(candidates.certified_matching, "__defaults__", (candidates.SPARSE_WINDOW, 1))
-    _, _, used = candidates.engine_matching(fld, order, ())
+    _, used, _ = candidates.engine_matching(fld, order, ())
     assert used is not None and not used.certified
     assert draft_round(state).key() == draft_round(state, reference=True).key()
 
