@@ -498,11 +498,12 @@ class _OutOfRange(Exception):
 
 def _weights(w: Sequence[int] | NDArray[Any], bound: int = WEIGHT_BOUND) -> bytes | None:
     """``w`` as 16-byte little-endian integers, or None when some ``|w| >= bound``."""
-    arr = np.asarray(w)
-    if arr.dtype != object and arr.dtype.kind in "iu" and arr.dtype.itemsize <= 8 and \
-            (arr.dtype.kind == "i" or arr.dtype.itemsize < 8):
-        return _int128_bytes(arr.astype(np.int64))
-    values = arr.tolist() if isinstance(arr, np.ndarray) else list(w)
+    if isinstance(w, np.ndarray) and w.dtype != object:
+        if w.dtype.kind in "bi" or (w.dtype.kind == "u" and w.dtype.itemsize < 8):
+            return _int128_bytes(w.astype(np.int64))
+        if w.dtype.kind != "u":
+            raise TypeError(f"weights must be exact integers, not {w.dtype}")
+    values = w.tolist() if isinstance(w, np.ndarray) else list(w)
     if not values:
         return b""
     top, low = max(values), min(values)
@@ -510,7 +511,7 @@ def _weights(w: Sequence[int] | NDArray[Any], bound: int = WEIGHT_BOUND) -> byte
         return _int128_bytes(np.array(values, dtype=np.int64))
     if top >= bound or low <= -bound:
         return None
-    return b"".join(x.to_bytes(16, "little", signed=True) for x in values)
+    return b"".join(int(x).to_bytes(16, "little", signed=True) for x in values)
 
 
 def _int128_bytes(x: NDArray[np.int64]) -> bytes:

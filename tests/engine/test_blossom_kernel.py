@@ -246,3 +246,19 @@ def test_engine_fields_compiled_equals_python(n: int, seed: int) -> None:
     expected = networkx_perfect(nn, full) if nn <= 130 else None
     if expected is not None:
         assert weight(full, again[0]) == weight(full, expected)
+
+
+def test_weights_around_the_int64_edges() -> None:
+    # numpy would read [-1, 2**63] as float64: the wrapper must keep them exact.
+    edges = [(0, 1, -1), (2, 3, 2**63), (0, 2, 2**64 - 1), (1, 3, -2**63 - 1), (0, 3, 5), (1, 2, 2**63 - 1)]
+    expected = networkx_perfect(4, edges)
+    assert expected is not None
+    got = perfect_matching(4, edges)
+    assert got is not None and weight(edges, got[0]) == weight(edges, expected)
+    assert certifies(4, edges, got)
+    u, v, w = columns(edges)
+    again = perfect_matching_arrays(4, u, v, w)
+    assert again is not None and again[1].objective2() == got[1].objective2()
+    unsigned = perfect_matching_arrays(4, u, v, np.array([abs(e[2]) for e in edges], dtype=np.uint64))
+    plain = [(a, b, abs(x)) for a, b, x in edges]
+    assert unsigned is not None and weight(plain, unsigned[0]) == weight(plain, networkx_perfect(4, plain) or [])
