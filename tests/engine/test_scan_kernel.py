@@ -259,3 +259,32 @@ def test_crossing_sets_are_refused() -> None:
     crossing = Dual([0] * c.n, [(frozenset([0, 1, 2]), 1), (frozenset([2, 3, 4]), 1)])
     with pytest.raises(ValueError):
         c.scan.violated(c.enc, crossing, 2)
+
+
+@pytest.mark.parametrize(("n", "played", "seed", "shift"),
+                         [(60, 6, 7, 60), (80, 4, 7, 130), (60, 6, 0, 61), (60, 6, 0, 130), (60, 6, 2, 62)])
+def test_side_alternation_across_history_words(n: int, played: int, seed: int, shift: int) -> None:
+    # Renumbering the rounds keeps their order, so no side allocation changes; with the shift the
+    # rounds straddle the kernel's 64-round history words. These fields have sides and pruned pairs
+    # whose sides the alternation decides (seeds 0 and 2: some where that changes the side rule cost,
+    # the only column it can change: equal wishes of equal strength miss one preference either way).
+    fld = field("rough", n, played, seed)
+    c = case_of(fld)
+    assert c is not None and fld.sides and fits(c)
+    order = list(fld.order)
+    later = Arrays(fld, order)
+    rounds, size = later.history.shape
+    history = np.zeros((rounds + shift, size), dtype=np.int64)
+    history[1 + shift:] = later.history[1:]
+    later.history = history
+    assert (later.costs(c.u, c.v) == c.costs).all()  # the numpy reference agrees it is the same field
+    bound = candidates.greedy_bound(fld, order, ())
+    assert bound is not None
+    moved = Case(c.n, c.players, c.u, c.v, c.costs, c.w, c.enc,
+                 scan.PairScan(later, bound.max_gap, bound.totals, bound.levels), c.pruned)
+    check_stats(moved)
+    for k in (1, 3):
+        check_heaviest(moved, k)
+    rng = random.Random(seed)
+    for _ in range(4):  # many violated pairs per player: the count and lists see most pair weights
+        check_violated(moved, random_dual(c, rng), 40)
