@@ -2,7 +2,7 @@
 
 Everything else about the package is in pyproject.toml; this file only declares the C extensions,
 because setuptools reads extension modules from here. A machine without a C compiler still installs
-the package (``optional=True``); ``pairings.engine.kernels.available()`` then says False and the
+the package (``optional=True``); ``pairings.engine.implicit.available()`` then says False and the
 engine runs its pure-Python paths (same results, slower).
 """
 
