@@ -17,7 +17,7 @@
  *   stage, augmenting through nested blossoms) run on explicit heap stacks: blossoms nest up
  *   to n / 2 deep and the C stack is never at risk.
  *
- * Arithmetic: weights, duals and slacks are __int128. Every weight must satisfy |w| < 2**100
+ * Arithmetic: weights, duals and slacks are __int128. Every weight must satisfy |w| < 2**118
  * and every dual stays below 2**124 in absolute value (checked where a dual changes), so no
  * sum of the form d[u] + d[v] - 2 w can overflow; a dual beyond the bound raises
  * Unsupported and the Python wrapper runs the pure-Python code instead.
@@ -41,7 +41,7 @@ typedef __int128 i128;
 typedef unsigned __int128 u128;
 typedef int32_t idx; /* vertex, blossom, endpoint or edge id */
 
-#define WEIGHT_LIMIT ((i128)1 << 100)
+#define WEIGHT_LIMIT ((i128)1 << 118)
 #define DUAL_LIMIT ((i128)1 << 124)
 #define MAX_VERTICES ((Py_ssize_t)1 << 28)
 #define MAX_EDGES ((Py_ssize_t)1 << 29)
@@ -939,7 +939,7 @@ PyDoc_STRVAR(solve_doc,
 "\n"
 "Returns None when there is no perfect matching, else (partner, y2, members, offsets, z):\n"
 "partner is int64 per vertex, the rest as above for the blossoms with z > 0.\n"
-"Raises Unsupported when a self-loop, |w| >= 2**100 or a dual beyond 2**124 would be\n"
+"Raises Unsupported when a self-loop, |w| >= 2**118 or a dual beyond 2**124 would be\n"
 "needed (the caller then runs the Python version) and ValueError, IndexError on bad input.");
 
 static PyObject *solve(PyObject *self, PyObject *args) {
@@ -995,7 +995,7 @@ static PyObject *solve(PyObject *self, PyObject *args) {
             r.end[2 * k + 1] = (idx)pv[k];
             r.w[k] = read_i128(pw + 16 * k);
             if (r.w[k] >= WEIGHT_LIMIT || r.w[k] <= -WEIGHT_LIMIT) {
-                PyErr_SetString(Unsupported, "a weight of 2**100 or more");
+                PyErr_SetString(Unsupported, "a weight of 2**118 or more");
                 goto done;
             }
         }
@@ -1166,7 +1166,7 @@ PyMODINIT_FUNC PyInit__blossom_c(void) {
     if (!mod) return NULL;
     Unsupported = PyErr_NewExceptionWithDoc(
         "pairings.engine._blossom_c.Unsupported",
-        "A value out of the kernel's range (|w| >= 2**100, a dual of 2**124 or more, a self-loop).",
+        "A value out of the kernel's range (|w| >= 2**118, a dual of 2**124 or more, a self-loop).",
         PyExc_ArithmeticError, NULL);
     if (!Unsupported || PyModule_AddObjectRef(mod, "Unsupported", Unsupported) < 0) {
         Py_DECREF(mod);

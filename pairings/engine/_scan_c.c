@@ -208,6 +208,17 @@ static inline int not_above(const Scan *s, const int32_t *c) {
     return 1;
 }
 
+/* candidates.admissible's filter on the row the engine weighs (implicit.py): the side-rule column
+   less the players' unavoidable breaks (H3 broken whichever side they get; see the Notes of
+   candidates.py). The row keeps that net column for the visit. */
+static inline int admitted(const Scan *s, int64_t i, int64_t j, int32_t *c) {
+    if (s->sides) {
+        const Player *a = &s->p[i], *b = &s->p[j];
+        c[1] -= (a->breaks_first & a->breaks_second) + (b->breaks_first & b->breaks_second);
+    }
+    return not_above(s, c);
+}
+
 static inline int before(i128 key, int64_t pid, const Entry *e) {
     return key < e->key || (key == e->key && pid < e->pid);
 }
@@ -318,7 +329,7 @@ static void *run(void *arg) {
                 while (r < s->nrematch && s->rematch[r] < key)
                     r++;
                 cost_row(s, i, j, r < s->nrematch && s->rematch[r] == key, c);
-                if (not_above(s, c))
+                if (admitted(s, i, j, c))
                     visit(w, i, j, c);
             }
         }

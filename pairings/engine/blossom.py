@@ -31,7 +31,7 @@ what its tree costs, not ``O(n)``; the vertices of each blossom are cached
 **Compiled kernel.** :func:`perfect_matching` and :func:`perfect_matching_arrays`
 run the C port of this module (``_blossom_c``: the same algorithm and warm
 starts on ``__int128`` integers) whenever it is built, :data:`USE_COMPILED` is
-true and every ``|w| < 2**100``; otherwise, or when a dual would leave the
+true and every ``|w| < 2**118``; otherwise, or when a dual would leave the
 kernel's range (``2**124``), the pure-Python code below runs. Both return an
 optimum of equal weight with an optimal dual; among optima of equal weight
 they may pick different ones. Values cross into C as buffers: vertex ids as
@@ -67,7 +67,7 @@ except ImportError:  # pragma: no cover - depends on the build
 
 USE_COMPILED = True
 """Use the compiled kernel when it is built (tests set it False to force the pure-Python code)."""
-WEIGHT_BOUND = 2**100
+WEIGHT_BOUND = 2**118
 """The kernel takes weights with ``|w| < WEIGHT_BOUND``."""
 DUAL_BOUND = 2**124
 """... and carried duals below this; larger values run the pure-Python code."""

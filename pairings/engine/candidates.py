@@ -20,6 +20,29 @@ losing any optimum, and the pruned graph still contains ``F`` (so its maximum
 cardinality is unchanged). When ``F`` relaxes no hard rule and its largest gap
 is ``D`` units, every edge relaxing a hard rule or ``D`` + 1 units apart is
 pruned, so only score groups at most ``D`` apart are ever enumerated.
+
+**Unavoidable breaks.** A player whose side difference is already beyond the
+H3 limit (after an organiser's change, an imported history) breaks H3 on any
+board, so any pairing that relaxes nothing else still has a side-rule total,
+and the argument above would then keep every pair. Let ``f`` count those
+players and ``a(e)`` be an edge's side-rule cost less its players'
+unavoidable breaks (``a(e) >= 0``; a bye edge has no side). Any full pairing
+``P`` has side-rule total ``sum_P a(e) + f - [P's bye goes to one of them]``.
+From ``C(O) <= C(F)``: ``sum_O a(e) <= sum_F a(e) + s`` with ``s = 1`` when
+the field is odd, one of them may have the bye and ``F`` gives it to someone
+else, ``s = 0`` otherwise; the other columns are unchanged. So the argument
+holds with ``a(e)`` in place of the side-rule cost and ``sum_F a(e) + s`` in
+place of ``F``'s total (:func:`bound_of`); the greedy pairing gives the bye to
+such a player when it can, so that ``s = 0``.
+
+**The bye's share.** A pair ``e`` of ``O`` and ``O``'s bye edge ``b`` are
+disjoint parts of ``O``, so ``c(e) + c(b) <= C(O)`` componentwise, and
+``c(e) <= C(F) - m`` lexicographically for any ``m`` componentwise below every
+bye edge ``O`` may use. ``m`` is the componentwise least bye cost over the
+players allowed the bye, or over those with an unavoidable break when ``F``
+gives the bye to one of them and relaxes nothing else (then so must ``O``).
+Without this, a bye far above the lowest group in ``F`` (such a player's)
+would let every pair up to that gap through.
 """
 
 from __future__ import annotations
@@ -41,6 +64,8 @@ Pair = tuple[PlayerId, PlayerId]
 Sided = tuple[Pair | None, Pair]
 HARD = 3
 """Cost tuple positions 0..2 are the hard-rule relaxations (H1, H3, H2)."""
+SIDE_RULE = 1
+"""Position of ``side_rule`` (H3) in a cost tuple."""
 GREEDY_WINDOW = 24
 RANK_INDEX = 10
 """Position of ``rank_order`` in a cost tuple."""
@@ -126,7 +151,8 @@ def greedy(fld: Field, players: Sequence[PlayerId], no_bye: Collection[PlayerId]
         allowed = [p for p in free if p not in no_bye]
         if not allowed:
             return None
-        by_cost = min(reversed(allowed), key=fld.bye)
+        # A player who breaks H3 on any board is best off on the bye (H3 outranks the bye's rules).
+        by_cost = min(reversed(allowed), key=lambda p: (not fld.forced(p), fld.bye(p)))
         out.append(fld.bye(by_cost))
         pairs.append((index[by_cost], len(players)))
         free.remove(by_cost)
@@ -154,25 +180,60 @@ class Bound:
     """What a greedy pairing ``F`` proves about the optimum (module Notes, safe pruning)."""
 
     totals: tuple[int, ...]
-    """``C(F)``: F's expanded cost totals (:meth:`weights.Encoder.expand`)."""
+    """What a pair's expanded cost (:meth:`weights.Encoder.expand`) must not exceed: ``C(F)`` less
+    what the optimum's bye surely costs (module Notes)."""
     levels: int
     """The largest score gap in F (the expanded gap levels)."""
     max_gap: int | None
-    """Pairs further apart can be skipped unseen (None when F relaxes a hard rule)."""
+    """Pairs further apart can be skipped unseen (None when ``totals`` relaxes a hard rule)."""
     pairs: tuple[tuple[int, int], ...]
     """F itself, as index pairs (the bye vertex is ``len(players)``)."""
+    bye_totals: tuple[int, ...] = ()
+    """What a bye edge's expanded cost must not exceed: ``C(F)`` (``totals`` when empty)."""
 
 
 def greedy_bound(fld: Field, players: Sequence[PlayerId], no_bye: Collection[PlayerId]) -> Bound | None:
     """The safe-pruning bound of a greedy pairing; None when no greedy pairing is found."""
     found = greedy(fld, players, no_bye)
-    if found is None:
-        return None
-    feasible, pairs = found
-    enc = weights.encoder(feasible, len(players) + 1)
-    totals = tuple(sum(col) for col in zip(*(enc.expand(c) for c in feasible)))
-    max_gap = max(c[weights.GAP_INDEX] for c in feasible) if not any(totals[:HARD]) else None
-    return Bound(totals, enc.levels, max_gap, tuple(pairs))
+    return None if found is None else bound_of(fld, players, no_bye, *found)
+
+
+def bound_of(fld: Field, players: Sequence[PlayerId], no_bye: Collection[PlayerId],
+             feasible: Sequence[Cost], pairs: Sequence[tuple[int, int]]) -> Bound:
+    """The safe-pruning bound of any feasible full pairing of ``players`` (its costs and index pairs).
+
+    The side-rule total counts only avoidable breaks (module Notes); it is
+    one more when the field is odd, a player with an unavoidable break may
+    have the bye and this pairing gives it to someone else.
+    """
+    n = len(players)
+    enc = weights.encoder(feasible, n + 1)
+    totals = [sum(col) for col in zip(*(enc.expand(c) for c in feasible))]
+    totals[SIDE_RULE] -= sum(fld.forced(players[i]) + fld.forced(players[j]) for i, j in pairs if j < n)
+    bye = [i for i, j in pairs if j == n]
+    allowed = [p for p in players if p not in no_bye]
+    if bye and not fld.forced(players[bye[0]]) and any(fld.forced(p) for p in allowed):
+        totals[SIDE_RULE] += 1
+    pair_totals = totals
+    if bye:
+        # The optimum's bye: one of these players (module Notes), so pairs get C(F) less its least cost.
+        forced = [p for p in allowed if fld.forced(p)]
+        byes = forced if fld.forced(players[bye[0]]) and totals[SIDE_RULE] == 0 else allowed
+        least = [min(col) for col in zip(*(enc.expand(fld.bye(p)) for p in byes))]
+        pair_totals = [t - m for t, m in zip(totals, least)]
+    gaps = [d for d in range(enc.levels, 0, -1) if pair_totals[HARD + enc.levels - d]]
+    max_gap = max(gaps, default=0) if not any(pair_totals[:HARD]) else None
+    return Bound(tuple(pair_totals), enc.levels, max_gap, tuple(pairs), tuple(totals))
+
+
+def restricted(gap: int) -> Bound:
+    """A bound that admits exactly the pairs at most ``gap`` units apart with no avoidable hard-rule relaxation.
+
+    Not a safe-pruning bound (no pairing proves it): the engine uses it only to
+    look for a feasible pairing within it, whose own :func:`bound_of` then is one.
+    """
+    unlimited = 2**40
+    return Bound((0,) * HARD + (unlimited,) * (gap + WIDTH - HARD - 1), gap, gap, ())
 
 
 def bye_rows(fld: Field, players: Sequence[PlayerId], no_bye: Collection[PlayerId], bound: Bound
@@ -183,7 +244,7 @@ def bye_rows(fld: Field, players: Sequence[PlayerId], no_bye: Collection[PlayerI
         return np.zeros(0, dtype=np.int64), np.zeros(0, dtype=np.int64), np.zeros((0, WIDTH), dtype=np.int64)
     byes = [(k, fld.bye(p)) for k, p in enumerate(players) if p not in no_bye]
     rows = np.array([c for _, c in byes], dtype=np.int64).reshape(-1, WIDTH)
-    keep = _not_above(rows, bound.totals, bound.levels)
+    keep = _not_above(rows, bound.bye_totals or bound.totals, bound.levels)
     u = np.array([k for k, _ in byes], dtype=np.int64)[keep]
     return u, np.full(len(u), n, dtype=np.int64), rows[keep]
 
@@ -195,7 +256,7 @@ def admissible(arrays: Arrays, i: IntArray, j: IntArray, bound: Bound) -> tuple[
         ok &= arrays.units[i] - arrays.units[j] <= bound.max_gap
     i, j = i[ok], j[ok]
     rows = arrays.costs(i, j)
-    keep = _not_above(rows, bound.totals, bound.levels)
+    keep = _not_above(rows, bound.totals, bound.levels, arrays.forced[i] + arrays.forced[j])
     return i[keep], j[keep], rows[keep]
 
 
@@ -224,10 +285,16 @@ def _index_pairs(units: IntArray, max_gap: int | None, rows: range) -> tuple[Int
     return i, i + 1 + offsets
 
 
-def _not_above(rows: IntArray, bound: Sequence[int], levels: int) -> NDArray[np.bool_]:
-    """Rows whose expanded cost (:meth:`weights.Encoder.expand`) is lexicographically <= ``bound``."""
+def _not_above(rows: IntArray, bound: Sequence[int], levels: int, forced: IntArray | None = None
+               ) -> NDArray[np.bool_]:
+    """Rows whose expanded cost (:meth:`weights.Encoder.expand`) is lexicographically <= ``bound``.
+
+    ``forced`` (per row) is subtracted from the side-rule column first: the
+    unavoidable breaks of the pair's players (module Notes).
+    """
     gap = rows[:, weights.GAP_INDEX]
-    columns = [rows[:, k] for k in range(weights.GAP_INDEX)] \
+    columns = [rows[:, k] - forced if k == SIDE_RULE and forced is not None else rows[:, k]
+               for k in range(weights.GAP_INDEX)] \
         + [(gap == d).astype(np.int64) for d in range(levels, 0, -1)] \
         + [rows[:, k] for k in range(weights.GAP_INDEX + 1, rows.shape[1])]
     keep = np.ones(len(rows), dtype=bool)
@@ -267,16 +334,19 @@ def pruned_edges(fld: Field, players: Sequence[PlayerId], no_bye: Collection[Pla
     return Pruned(n + n % 2, np.concatenate(us), np.concatenate(vs), np.concatenate(cs), arrays)
 
 
-def ideal_partners(a: Arrays, near: int = SPARSE_CLASS) -> tuple[IntArray, IntArray]:
+def ideal_partners(a: Arrays, near: int = SPARSE_CLASS, wide: int | None = None) -> tuple[IntArray, IntArray]:
     """Pairs ``i < j`` of one score group where ``j`` is near ``i``'s rank-order ideal within its side class.
 
     For each player and each side-wish class (first, second, none) of its
     score group, the ``near`` players of that class on each side of the
-    ideal position (group rank plus or minus half the group, rules.md S6).
-    Side preferences (S4) outrank the rank order, so a player's partner in an
-    optimum is usually the nearest compatible one to the ideal, not the
-    nearest one. Floaters: the last ``2 * near`` players of a group with
-    the first ``2 * near`` of each class of the next group down.
+    ideal position (group rank plus or minus half the group, rules.md S6),
+    or the ``wide`` ones (default ``near``) when the class is compatible with
+    the player's own wish (no wish, or not the same side). Side preferences
+    (S4) outrank the rank order, so a player's partner in an optimum is
+    usually a compatible one near the ideal, not the nearest one; where the
+    wishes are unevenly spread over the group, several places away.
+    Floaters: the last ``2 * near`` players of a group with the first
+    ``2 * near`` of each class of the next group down.
     """
     n = a.n
     if n == 0:
@@ -289,15 +359,17 @@ def ideal_partners(a: Arrays, near: int = SPARSE_CLASS) -> tuple[IntArray, IntAr
     half = a.gsize // 2
     rows = np.arange(n, dtype=np.int64)
     us, vs = [], []
+    wide = near if wide is None else wide
     for c in range(3):
         block = (a.units * 3 + c) * span
         lo_pos = np.searchsorted(sorted_key, block, side="left")
         hi_pos = np.searchsorted(sorted_key, block + span, side="left")
+        reach = np.where((a.want != 0) & (a.want == c - 1), near, wide)
         for target in (a.grank + half, a.grank - half):
             at = np.searchsorted(sorted_key, block + np.clip(target, 0, n), side="left")
-            for off in range(-near, near):
+            for off in range(-max(near, wide), max(near, wide)):
                 pos = at + off
-                ok = (pos >= lo_pos) & (pos < hi_pos)
+                ok = (pos >= lo_pos) & (pos < hi_pos) & (off < reach) & (-off <= reach)
                 j = order[np.where(ok, pos, 0)]
                 us.append(rows[ok])
                 vs.append(j[ok])

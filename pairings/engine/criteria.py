@@ -147,6 +147,10 @@ class Field:
     def __len__(self) -> int:
         return len(self.order)
 
+    def forced(self, p: PlayerId) -> bool:
+        """H3 breaks for ``p`` whichever side they get (e.g. SD already beyond 2): unavoidable on any board."""
+        return self.sides and len(self.pref[p].breaks) == 2 and p not in self.exempt
+
     def forbidden(self, p: PlayerId, q: PlayerId) -> bool:
         """H5: the pair is on the do-not-pair list for this round (never relaxed)."""
         return frozenset((p, q)) in self._forbidden

@@ -31,12 +31,18 @@ from typing import Collection, Sequence
 import numpy as np
 
 from pairings.engine import blossom, candidates, certificate, scan, weights
-from pairings.engine.criteria import Field
-from pairings.engine.vector import AnyArray, Arrays, IntArray
+from pairings.engine.criteria import ABSOLUTE, MILD, STRONG, Field
+from pairings.engine.types import CRITERIA
+from pairings.engine.vector import WIDTH, AnyArray, Arrays, IntArray
 from pairings.state import PlayerId
 
 SPARSE_BEST = 3
 """Each player's heaviest pruned pairs in the first sparse graph."""
+SPARSE_NEAR = 4
+SPARSE_WIDE = 12
+"""... and the players this near the rank-order ideal (:func:`candidates.ideal_partners`: same wish, compatible)."""
+RESTRICTED_GAPS = (1, 2)
+"""Score gaps tried first when the greedy bound is weak (:func:`implicit_matching`)."""
 SPARSE_ADD = 2
 """Violated pairs added per player and round (the most violated first)."""
 SPARSE_ROUNDS = 12
@@ -53,6 +59,8 @@ class Solved:
     route: candidates.Route
     every_pair_a_rematch: bool
     """The pruned player pairs exist and all are rematches (the engine then refuses the round)."""
+    bound: candidates.Bound
+    """The limits the certificate covered (the greedy bound, or :func:`candidates.restricted` ones)."""
 
 
 class _Sparse:
@@ -68,6 +76,7 @@ class _Sparse:
         self.w: list[AnyArray] = []
 
     def add(self, i: IntArray, j: IntArray, rows: IntArray | None = None) -> None:
+        """Add the pairs not yet present, weighed by their cost rows (:func:`net` of them)."""
         keys = i * self.n + j
         fresh = np.array([k not in self.keys for k in keys.tolist()], dtype=bool)
         if not fresh.any():
@@ -76,40 +85,101 @@ class _Sparse:
         _, first = np.unique(keys, return_index=True)
         i, j = i[first], j[first]
         self.keys.update(keys[first].tolist())
-        rows = self.arrays.costs(i, j) if rows is None else rows[fresh][first]
         self.u.append(i)
         self.v.append(j)
-        self.w.append(weights.encode(self.enc, rows))
+        rows = self.arrays.costs(i, j) if rows is None else rows[fresh][first]
+        self.w.append(weights.encode(self.enc, net(self.arrays, i, j, rows)))
 
     def arrays_(self) -> tuple[IntArray, IntArray, AnyArray]:
         w = self.w
+        if not w:
+            return np.zeros(0, dtype=np.int64), np.zeros(0, dtype=np.int64), np.zeros(0, dtype=np.int64)
         dtype = object if any(x.dtype == object for x in w) else np.int64
         return np.concatenate(self.u), np.concatenate(self.v), np.concatenate([x.astype(dtype) for x in w])
 
 
-def implicit_matching(fld: Field, players: Sequence[PlayerId], no_bye: Collection[PlayerId],
-                      bound: candidates.Bound) -> Solved | None:
-    """The optimal index pairs of ``players`` with their certificate route; None: use the listed path."""
-    arrays = Arrays(fld, players)
+def net(arrays: Arrays, i: IntArray, j: IntArray, rows: IntArray) -> IntArray:
+    """The cost rows the engine weighs: the side-rule column net of unavoidable breaks.
+
+    A pair's side-rule cost less its players' unavoidable breaks
+    (:meth:`Field.forced`, the Notes of :mod:`candidates`); a bye edge
+    (``j == arrays.n``) gets 1 when its player has no unavoidable break and
+    some other player has one. Any full pairing's total in that column is then
+    its true side-rule total less a constant (the number of such players, less
+    one when the field is odd and some exist), so both rank every pairing
+    alike; the column is then usually 0 on every pair, which keeps the
+    weights short (:func:`weights.from_maxima`).
+    """
+    out = rows.copy()
+    if not arrays.fld.sides or not arrays.forced.any():
+        return out
+    bye = j == arrays.n
+    jj = np.where(bye, 0, j)
+    out[:, candidates.SIDE_RULE] -= np.where(bye, 0, arrays.forced[i] + arrays.forced[jj])
+    out[:, candidates.SIDE_RULE] += np.where(bye, 1 - arrays.forced[i], 0)
+    return out
+
+
+def shares(a: Arrays) -> dict[int, int]:
+    """The most all players together can add to each column counted player by player (see :func:`net`).
+
+    A preference can only be missed by a player who has one of that
+    strength; a repeated float only by a player who floated in that round; a
+    net side-rule break only by a player with a side H3 forbids and no
+    unavoidable break, plus one for the bye edge.
+    """
+    wish = a.want != 0
+    avoidable = (a.breaks_first | a.breaks_second) & (a.forced == 0)
+    column = CRITERIA.index
+    return {
+        column("side_rule"): int(avoidable.sum()) + 1,
+        column("pref_absolute"): int((wish & (a.strength == ABSOLUTE)).sum()),
+        column("pref_strong"): int((wish & (a.strength == STRONG)).sum()),
+        column("pref_mild"): int((wish & (a.strength == MILD)).sum()),
+        column("float_repeat"): int((a.down1 + a.up1 > 0).sum()),
+        column("float_repeat_2"): int((a.down2 + a.up2 > 0).sum()),
+    }
+
+
+def _start(fld: Field, players: Sequence[PlayerId], no_bye: Collection[PlayerId], arrays: Arrays,
+           bound: candidates.Bound) -> tuple[scan.PairScan, scan.Stats, _Sparse] | None:
+    """The scan of the pairs within ``bound``, and the first sparse graph; None beyond the kernels' integers.
+
+    The first sparse graph: the bye edges, each player's compatible partners
+    near the rank-order ideal (:func:`candidates.ideal_partners`), each
+    player's heaviest pairs, and the bound's own pairing, if any (so that the
+    sparse graph has a full pairing).
+    """
+    n = arrays.n
     try:
         pairscan = scan.PairScan(arrays, bound.max_gap, bound.totals, bound.levels)
-    except ValueError:  # values beyond the kernel's integers
-        return None
-    stats = pairscan.stats()
-    bu, bv, brows = candidates.bye_rows(fld, players, no_bye, bound)
-    maxima = [max(a, int(b)) for a, b in zip(stats.maxima, brows.max(axis=0) if len(brows) else stats.maxima)]
-    gaps = set(stats.gaps) | set(brows[:, weights.GAP_INDEX].tolist())
-    enc = weights.bounding(maxima, gaps, arrays.n + arrays.n % 2)
-    sparse = _Sparse(arrays, enc)
-    sparse.add(bu, bv, brows)
-    greedy = np.array([p for p in bound.pairs if p[1] < arrays.n], dtype=np.int64).reshape(-1, 2)
-    sparse.add(greedy[:, 0], greedy[:, 1])  # pruned edges by the bound's own argument
-    i, j, rows = candidates.admissible(arrays, *candidates.ideal_partners(arrays), bound)
-    sparse.add(i, j, rows)
-    try:
+        stats = pairscan.stats()
+        bu, bv, brows = candidates.bye_rows(fld, players, no_bye, bound)
+        bye_net = net(arrays, bu, bv, brows)
+        maxima = [max(a, int(b)) for a, b in zip(stats.maxima, bye_net.max(axis=0) if len(brows) else stats.maxima)]
+        bye_gaps = set(brows[:, weights.GAP_INDEX].tolist()) - set(stats.gaps)
+        bye_columns = [k for k in range(WIDTH) if stats.maxima[k] == 0]
+        enc = weights.bounding(maxima, set(stats.gaps) | bye_gaps, n + n % 2, bye_gaps, bye_columns,
+                               shares(arrays))
+        sparse = _Sparse(arrays, enc)
+        sparse.add(bu, bv, brows)
+        i, j, rows = candidates.admissible(arrays, *candidates.ideal_partners(arrays, SPARSE_NEAR, SPARSE_WIDE),
+                                           bound)
+        sparse.add(i, j, rows)
         sparse.add(*pairscan.heaviest(enc, SPARSE_BEST))
     except ValueError:
         return None
+    own = np.array(bound.pairs, dtype=np.int64).reshape(-1, 2)
+    own = own[own[:, 1] < n]  # its bye edge is among the bye edges
+    sparse.add(own[:, 0], own[:, 1])  # within the bound by the bound's own argument
+    return pairscan, stats, sparse
+
+
+def _certified(sparse: _Sparse, pairscan: scan.PairScan) -> tuple[list[tuple[int, int]], int] | None:
+    """The sparse solve repeated until its dual holds on every pair of the scan: the pairs and the solves made.
+
+    None when no certificate is reached within ``SPARSE_ROUNDS`` solves (or values leave the kernels' range).
+    """
     last: tuple[list[tuple[int, int]], blossom.Dual] | None = None
     for attempt in range(1, SPARSE_ROUNDS + 1):
         u, v, w = sparse.arrays_()
@@ -117,15 +187,57 @@ def implicit_matching(fld: Field, players: Sequence[PlayerId], no_bye: Collectio
             result = blossom.perfect_matching_arrays(sparse.n, u, v, w)
         else:
             result = blossom.perfect_matching_arrays(sparse.n, u, v, w, last[0], last[1])
-        if result is None:  # cannot happen: the greedy pairing is in the sparse graph
+        if result is None:  # the sparse graph has no full pairing (possible within restricted limits)
             return None
         pairs, dual = last = result
         try:
-            vi, vj, count = pairscan.violated(enc, dual, SPARSE_ADD)
+            vi, vj, count = pairscan.violated(sparse.enc, dual, SPARSE_ADD)
         except ValueError:
             return None
         if count == 0 and certificate.certify(sparse.n, u, v, w, pairs, dual):
-            route = candidates.Route(True, attempt, len(u), stats.count + len(bu))
-            return Solved(pairs, route, stats.count > 0 and stats.rematch_free == 0)
+            return pairs, attempt
         sparse.add(vi, vj)
+    return None
+
+
+def _proves_itself(fld: Field, players: Sequence[PlayerId], no_bye: Collection[PlayerId],
+                   pairs: Sequence[tuple[int, int]], gap: int) -> bool:
+    """True when the bound that ``pairs`` prove keeps only pairs within :func:`candidates.restricted` ``(gap)``."""
+    n = len(players)
+    costs = [fld.bye(players[i]) if j == n else fld.pair(players[i], players[j])[1] for i, j in pairs]
+    own = candidates.bound_of(fld, players, no_bye, costs, pairs)
+    hard = candidates.HARD
+    return not any(own.totals[:hard]) and not any(own.bye_totals[:hard]) and own.levels <= gap
+
+
+def implicit_matching(fld: Field, players: Sequence[PlayerId], no_bye: Collection[PlayerId],
+                      bound: candidates.Bound) -> Solved | None:
+    """The optimal index pairs of ``players`` with their certificate route; None: use the listed path.
+
+    When ``bound`` (the greedy pairing's) is weak, tries the
+    :func:`candidates.restricted` limits first (no avoidable hard-rule
+    relaxation, at most one, then two, units apart), then ``bound`` itself.
+    An optimum certified among the pairs within limits of ``g`` units is the
+    optimum when the safe-pruning bound it proves itself
+    (:func:`candidates.bound_of`) relaxes no hard rule and floats at most
+    ``g`` units: every pair that bound keeps lies within the limits, where
+    nothing beats it.
+    """
+    arrays = Arrays(fld, players)
+    tries = [candidates.restricted(g) for g in RESTRICTED_GAPS if bound.max_gap is None or g < bound.max_gap]
+    tries.append(bound)
+    for limits in tries:
+        started = _start(fld, players, no_bye, arrays, limits)
+        if started is None:
+            continue
+        pairscan, stats, sparse = started
+        found = _certified(sparse, pairscan)
+        if found is None:
+            continue
+        pairs, attempts = found
+        if limits is not bound and not _proves_itself(fld, players, no_bye, pairs, limits.levels):
+            continue
+        pruned = stats.count + int(np.count_nonzero(sparse.arrays_()[1] == arrays.n))
+        route = candidates.Route(True, attempts, sum(len(x) for x in sparse.u), pruned)
+        return Solved(pairs, route, stats.count > 0 and stats.rematch_free == 0, limits)
     return None

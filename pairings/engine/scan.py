@@ -170,6 +170,7 @@ class PairScan:
             raise ValueError("scores beyond the scan kernel's range")
         self.n = n
         self.threads = threads
+        self._stats: Stats | None = None
         want, strength = a.want, a.strength
         graded = (strength >= MILD) & (strength <= ABSOLUTE)
         miss_first = np.where((want == SECOND) & graded, PREF_COLUMN - strength, 0)
@@ -187,13 +188,24 @@ class PairScan:
 
     def stats(self) -> Stats:
         count, maxima, gaps, free = _scan_c.stats(self._scan, self.threads)
-        return Stats(count, tuple(maxima), frozenset(gaps), free)
+        self._stats = Stats(count, tuple(maxima), frozenset(gaps), free)
+        return self._stats
+
+    def _cost_bound(self, enc: weights.Encoder) -> int:
+        """An upper bound on any scanned pair's encoded cost under ``enc``."""
+        if self._stats is None:  # every cost column is at most 2 n (rank order) and a gap counts once
+            return max(2 * self.n, 2) * sum(enc.place)
+        maxima, levels = self._stats.maxima, enc.levels
+        columns = [k for k in range(WIDTH) if k != weights.GAP_INDEX]
+        places = list(enc.place[:weights.GAP_INDEX]) + list(enc.place[weights.GAP_INDEX + levels:])
+        gap = max((enc.place[weights.GAP_INDEX + levels - d] for d in self._stats.gaps if 0 < d <= levels),
+                  default=0)
+        return sum(p * maxima[k] for p, k in zip(places, columns)) + gap
 
     def _encoder(self, enc: weights.Encoder) -> tuple[bytes, bytes]:
         if len(enc.place) != enc.levels + WIDTH - 1 or not 0 < enc.top < COST_LIMIT or min(enc.place) < 0:
             raise ValueError("the encoder does not fit the scan kernel")
-        # Every cost column is at most 2 n (rank order) and a gap counts once: a bound on any cost.
-        if max(2 * self.n, 2) * sum(enc.place) >= COST_LIMIT:
+        if self._cost_bound(enc) >= COST_LIMIT:
             raise ValueError("place values beyond the scan kernel's integers")
         return _int128(enc.place, "a place value", COST_LIMIT), _int128([enc.top], "top", COST_LIMIT)
 

@@ -49,6 +49,8 @@ class Arrays:
         exempt = np.array([p in fld.exempt for p in players], dtype=bool)
         self.breaks_first = np.array([Side.FIRST in x.breaks for x in prefs], dtype=bool) & ~exempt
         self.breaks_second = np.array([Side.SECOND in x.breaks for x in prefs], dtype=bool) & ~exempt
+        self.forced = np.array([fld.forced(p) for p in players], dtype=np.int64)
+        """1 where H3 breaks whatever side the player gets (:meth:`Field.forced`)."""
         self.down1 = np.array([fld.prev_float[p] is Float.DOWN for p in players], dtype=np.int64)
         self.up1 = np.array([fld.prev_float[p] is Float.UP for p in players], dtype=np.int64)
         self.down2 = np.array([fld.prev_float_2[p] is Float.DOWN for p in players], dtype=np.int64)

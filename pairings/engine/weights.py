@@ -29,6 +29,15 @@ those of maximum cardinality (Edmonds' blossom algorithm with
 ``maxcardinality``) is the lexicographic minimum of the cost vector. S1 (pair as
 many as possible) is the cardinality itself.
 
+Two refinements keep the weights short. A matching has at most one bye edge,
+so for the bye's own components (``repeat_bye``, ``bye_rank``, zero on every
+pair), and for gap levels that only bye edges reach, ``T_k = m_k``; and a component with ``m_k = 0`` contributes nothing, so
+its place value is left 0 (its radix is 1, so it does not widen the others).
+A component that is a sum over the pair's two players (a preference missed, a
+repeated float, a side-rule break) totals at most what all players together
+can contribute, which may be far less than ``P * m_k`` (few players floated
+last round): ``T_k`` is then that sum.
+
 The weights are exact Python integers (no floats, any size); the fast solver
 path checks that they fit its integer type before it is used.
 """
@@ -36,7 +45,7 @@ path checks that they fit its integer type before it is used.
 from __future__ import annotations
 
 from dataclasses import dataclass
-from typing import Collection, Sequence
+from typing import Collection, Mapping, Sequence
 
 import numpy as np
 from numpy.typing import NDArray
@@ -46,6 +55,8 @@ from pairings.engine.vector import AnyArray
 
 GAP_INDEX = 3
 """Position of ``score_gap`` in a cost tuple."""
+BYE_ONLY = (2, 4)
+"""Positions of ``repeat_bye`` and ``bye_rank``: non-zero only on bye edges (:meth:`Field.pair` leaves them 0)."""
 
 
 @dataclass(frozen=True, slots=True)
@@ -90,16 +101,30 @@ def encoder(costs: Sequence[Cost], vertices: int) -> Encoder:
     return Encoder(enc.levels, enc.place, 1 + max(enc.cost(c) for c in costs))
 
 
-def from_maxima(columns: Sequence[int], gaps: Collection[int], vertices: int) -> Encoder:
-    """Place values from each criterion's largest value and the gaps present (``top`` left 0)."""
+def from_maxima(columns: Sequence[int], gaps: Collection[int], vertices: int,
+                bye_gaps: Collection[int] = (), bye_columns: Collection[int] = (),
+                shares: Mapping[int, int] | None = None) -> Encoder:
+    """Place values from each criterion's largest value and the gaps present (``top`` left 0).
+
+    A component that is 0 on every edge gets place value 0 (it never counts);
+    the bye's own components (:data:`BYE_ONLY`, and ``bye_columns`` when the
+    caller knows more), and the levels of ``bye_gaps`` (gaps that only bye
+    edges have), get radix ``m_k + 1`` (module Notes). ``shares`` maps a
+    column counted player by player to the most its players can add up to
+    over any pairing: its radix is at most that plus one.
+    """
     levels = columns[GAP_INDEX]
     maxima = list(columns[:GAP_INDEX]) + [1 if d in gaps else 0 for d in range(levels, 0, -1)] \
         + list(columns[GAP_INDEX + 1:])
+    bye_only = {k if k < GAP_INDEX else k - 1 + levels for k in (*BYE_ONLY, *bye_columns) if k != GAP_INDEX} \
+        | {GAP_INDEX + levels - d for d in bye_gaps if 0 < d <= levels}
     pairs = vertices // 2
     place = [1] * len(maxima)
+    limit = {k if k < GAP_INDEX else k - 1 + levels: v for k, v in (shares or {}).items() if k != GAP_INDEX}
     for k in range(len(maxima) - 2, -1, -1):
-        place[k] = place[k + 1] * (pairs * maxima[k + 1] + 1)
-    return Encoder(levels, tuple(place), 0)
+        most = maxima[k + 1] * (1 if k + 1 in bye_only else pairs)
+        place[k] = place[k + 1] * (min(most, limit.get(k + 1, most)) + 1)
+    return Encoder(levels, tuple(p if m else 0 for p, m in zip(place, maxima)), 0)
 
 
 def _totals(enc: Encoder, costs: NDArray[np.int64]) -> AnyArray:
@@ -125,7 +150,9 @@ def encode(enc: Encoder, costs: NDArray[np.int64]) -> AnyArray:
     return np.asarray(enc.top - _totals(enc, costs))
 
 
-def bounding(maxima: Sequence[int], gaps: Collection[int], vertices: int) -> Encoder:
+def bounding(maxima: Sequence[int], gaps: Collection[int], vertices: int,
+             bye_gaps: Collection[int] = (), bye_columns: Collection[int] = (),
+             shares: Mapping[int, int] | None = None) -> Encoder:
     """:func:`from_maxima` with ``top`` one more than any cost those maxima allow.
 
     For edge sets known only by their column maxima (the engine's implicit
@@ -133,7 +160,7 @@ def bounding(maxima: Sequence[int], gaps: Collection[int], vertices: int) -> Enc
     is positive; a common shift of all weights changes no comparison between
     perfect matchings (they all have the same number of edges).
     """
-    enc = from_maxima(maxima, gaps, vertices)
+    enc = from_maxima(maxima, gaps, vertices, bye_gaps, bye_columns, shares)
     levels = enc.levels
     rest = list(maxima[:GAP_INDEX]) + list(maxima[GAP_INDEX + 1:])
     places = list(enc.place[:GAP_INDEX]) + list(enc.place[GAP_INDEX + levels:])

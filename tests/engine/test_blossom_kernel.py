@@ -176,7 +176,7 @@ def test_no_perfect_matching_is_none() -> None:
 
 
 def test_weights_beyond_the_kernel_run_the_python_code() -> None:
-    # |w| >= 2**100 is outside the kernel's __int128 range guarantee: same answer, from Python.
+    # |w| >= 2**118 is outside the kernel's __int128 range guarantee: same answer, from Python.
     rng = random.Random(11)
     n = 12
     edges = [(i, j, rng.randint(0, 2**130)) for i in range(n) for j in range(i + 1, n)]

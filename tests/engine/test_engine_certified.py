@@ -212,7 +212,7 @@ def test_certified_path_at_1000(seed: int) -> None:
     assert weight(edges, pairs) == weight(edges, solver.matching(pr.n, edges))
 
 
-def ideal_partners_by_hand(a: Arrays, near: int) -> set[tuple[int, int]]:
+def ideal_partners_by_hand(a: Arrays, near: int, wide: int) -> set[tuple[int, int]]:
     """Brute force, player by player, of the rule in candidates.ideal_partners' docstring."""
     out = set()
     n = a.n
@@ -221,9 +221,10 @@ def ideal_partners_by_hand(a: Arrays, near: int) -> set[tuple[int, int]]:
         half = int(a.gsize[i]) // 2
         for c in (-1, 0, 1):
             members = [j for j in group if a.want[j] == c]  # group rank order
+            reach = near if a.want[i] != 0 and a.want[i] == c else wide
             for target in (a.grank[i] + half, a.grank[i] - half):
-                below = [j for j in members if a.grank[j] < target][-near:]
-                above = [j for j in members if a.grank[j] >= target][:near]
+                below = [j for j in members if a.grank[j] < target][-reach:]
+                above = [j for j in members if a.grank[j] >= target][:reach]
                 out |= {(min(i, j), max(i, j)) for j in below + above if j != i}
         lower = [j for j in range(n) if a.units[j] < a.units[i]]
         if a.grank[i] >= a.gsize[i] - 2 * near and lower:
@@ -237,9 +238,9 @@ def ideal_partners_by_hand(a: Arrays, near: int) -> set[tuple[int, int]]:
 def test_ideal_partners_equal_brute_force(n: int, played: int, seed: int, rough: bool) -> None:
     fld, order = field_of(n, played, seed, rough)
     a = Arrays(fld, order)
-    for near in (1, 2, 4):
-        i, j = candidates.ideal_partners(a, near)
-        assert set(zip(i.tolist(), j.tolist())) == ideal_partners_by_hand(a, near)
+    for near, wide in ((1, 1), (2, 2), (4, 4), (1, 3), (2, 7)):
+        i, j = candidates.ideal_partners(a, near, wide)
+        assert set(zip(i.tolist(), j.tolist())) == ideal_partners_by_hand(a, near, wide)
 
 
 @settings(max_examples=60, deadline=None)

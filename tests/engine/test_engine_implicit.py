@@ -48,9 +48,9 @@ def test_implicit_path_equals_listed_path_and_reference(n: int, played: int, see
         return
     TAKEN.append(True)
     assert solved.route.certified
-    pr = candidates.pruned_edges(fld, order, (), bound)
+    pr = candidates.pruned_edges(fld, order, (), solved.bound)
     assert pr is not None
-    assert solved.route.pruned == len(pr.u)  # the scan walked exactly the listed pruned edges
+    assert solved.route.pruned == len(pr.u)  # the scan walked exactly the edges the same limits list
     _listed(monkeypatch)
     assert draft_round(state).key() == fast.key()
 
@@ -71,7 +71,7 @@ def test_violated_pairs_are_added_until_the_certificate_holds(monkeypatch: pytes
     # graph misses optimal pairs; the scan must find violated pairs and the solve repeat.
     state = fold(enumerate(simulate_events(400, 9, 4, 5), 1))
     reference = draft_round(state, reference=True).key()
-    monkeypatch.setattr(candidates, "ideal_partners", lambda a, near=0: (a.units[:0], a.units[:0]))
+    monkeypatch.setattr(candidates, "ideal_partners", lambda a, near=0, wide=0: (a.units[:0], a.units[:0]))
     monkeypatch.setattr(implicit, "SPARSE_BEST", 1)
     rnd = state.next_round_number
     from pairings.engine.criteria import Field

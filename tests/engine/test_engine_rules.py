@@ -100,23 +100,29 @@ def test_round_one_side_lot_is_seeded_and_alternates() -> None:
 
 def test_weights_keep_strict_priority_at_the_extremes() -> None:
     # Every lower component at its bound must not outweigh one unit of the component above.
+    # repeat_bye and bye_rank are 0 on every pair (Field.pair), so only the one bye edge has them.
     width = len(CRITERIA)
     for n in (2, 11, 10_000):
         pairs = n // 2
-        low = (n, n, n, n, 2, 2, n)  # bye_rank .. rank_order at their largest
-        far = (1, 1, 1, 2) + low
+        low = (0, n, 2, 2, 2, 2, n)  # bye_rank .. rank_order at their largest on a pair
+        far = (1, 1, 0, 2) + low
         near = (0, 0, 0, 1) + low
-        enc = encoder([far, near, (0,) * width], n)
+        bye = (0, 0, 1, 2, n) + (0,) * (width - 5)
+        enc = encoder([far, near, bye, (0,) * width], n)
         assert len(enc.place) == width + 1  # score_gap expanded into two levels
+        expanded = [enc.expand(c) for c in (far, near, bye)]
         for k in range(len(enc.place) - 1):
-            lower_max = sum(pairs * max(enc.expand(c)[j] for c in (far, near)) * enc.place[j]
+            lower_max = sum((1 if j in (2, 5) else pairs) * max(e[j] for e in expanded) * enc.place[j]
                             for j in range(k + 1, len(enc.place)))
             assert enc.place[k] > lower_max
         # one pair 2 units apart is worse than every pair 1 unit apart with every lower cost.
         one_far = enc.cost((0, 0, 0, 2) + (0,) * (width - 4))
-        assert one_far > pairs * enc.cost(near)
+        # (A matching has at most `pairs` edges, one of which may be the bye.)
+        assert one_far > max(pairs * enc.cost(near),
+                             (pairs - 1) * enc.cost(near) + enc.cost((0, 0, 0, 0, n) + (0,) * (width - 5)))
         # one rematch is worse than every pair far apart with every lower cost.
-        assert enc.cost((1,) + (0,) * (width - 1)) > pairs * enc.cost((0,) + far[1:])
+        assert enc.cost((1,) + (0,) * (width - 1)) > max(pairs * enc.cost((0,) + far[1:]),
+                                                         (pairs - 1) * enc.cost((0,) + far[1:]) + enc.cost(bye))
         assert enc.top > enc.cost(far) and all(enc.weight(c) > 0 for c in (far, near))
 
 

@@ -17,7 +17,7 @@ import numpy as np
 import pytest
 
 from tests.engine.engine_support import random_history, state_of
-from pairings.engine import candidates, certificate, scan, solver, weights
+from pairings.engine import candidates, certificate, implicit, scan, solver, weights
 from pairings.engine.blossom import Dual, perfect_matching
 from pairings.engine.criteria import Field
 from pairings.engine.vector import WIDTH, Arrays
@@ -64,8 +64,9 @@ def case_of(fld: Field, threads: int = scan.THREADS) -> Case | None:
         return None
     pr = candidates.pruned_edges(fld, order, (), bound)
     assert pr is not None
-    w = weights.weight_array(pr.costs, pr.n)
-    costs = pr.costs.astype(np.int64)
+    # The scan's rows are what the engine weighs: side-rule net of unavoidable breaks (implicit.net).
+    costs = implicit.net(pr.arrays, pr.u, pr.v, pr.costs.astype(np.int64))
+    w = weights.weight_array(costs, pr.n)
     enc = weights.from_maxima([int(x) for x in costs.max(axis=0)], set(costs[:, weights.GAP_INDEX].tolist()), pr.n)
     enc = weights.Encoder(enc.levels, enc.place, int(w[0]) + enc.cost(tuple(costs[0].tolist())))
     real = pr.v < len(order)
@@ -277,7 +278,8 @@ def test_side_alternation_across_history_words(n: int, played: int, seed: int, s
     history = np.zeros((rounds + shift, size), dtype=np.int64)
     history[1 + shift:] = later.history[1:]
     later.history = history
-    assert (later.costs(c.u, c.v) == c.costs).all()  # the numpy reference agrees it is the same field
+    # The numpy reference agrees it is the same field.
+    assert (implicit.net(later, c.u, c.v, later.costs(c.u, c.v)) == c.costs).all()
     bound = candidates.greedy_bound(fld, order, ())
     assert bound is not None
     moved = Case(c.n, c.players, c.u, c.v, c.costs, c.w, c.enc,
