@@ -105,8 +105,9 @@ def main(argv: list[str] | None = None) -> None:
                         help="largest field also solved by networkx on the full graph (default %(default)s)")
     parser.add_argument("--fold", type=int, default=0, help="also time folding a whole log of this many players")
     args = parser.parse_args(argv)
-    print(f"solver: {'rustworkx (compiled)' if fast_available() else 'networkx'} on the pruned graph; "
-          "reference: networkx on the full graph")
+    engine = "compiled blossom and pair scan (implicit pruned pairs)" if implicit.available() else \
+        f"{'rustworkx (compiled)' if fast_available() else 'networkx'} on the listed pruned pairs"
+    print(f"engine: {engine}; reference: networkx on the full graph")
     print("| players | round | fold s | engine s | peak MB | reference s | ratio | route | round cost |")
     print("| ---: | :---: | ---: | ---: | ---: | ---: | ---: | :--- | :--- |")
     for n in (int(x) for x in args.sizes.split(",")):
