@@ -18,9 +18,11 @@ pruned edge (LP duality over Edmonds' perfect-matching polytope, see
 objectives), the bye edges are all in the sparse graph, and the scan finds no
 pruned player pair with a negative reduced cost. Otherwise the violated pairs
 are added and the solve repeats; after ``SPARSE_ROUNDS`` solves the caller
-falls back to the listed path. The weights are those of
-:func:`weights.bounding` (same place values as the listed path, ``top`` from
-the maxima), so the optimum is the same lexicographic optimum.
+falls back to the listed path. The weights are :func:`weights.bounding`'s
+over the :func:`net` cost rows, with radices from the pairs' maxima and
+:func:`shares`: another valid mixed-radix encoding of the same lexicographic
+order, so the optimum is the same lexicographic optimum (among optima of equal
+cost the two paths may choose differently).
 """
 
 from __future__ import annotations
