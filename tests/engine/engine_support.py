@@ -3,13 +3,42 @@
 from __future__ import annotations
 
 import random
-from typing import Sequence
+from typing import Any, Sequence
+
+import networkx as nx  # type: ignore[import-untyped]
+import numpy as np
 
 from pairings import events as ev
 from pairings.engine import Draft, draft_round
 from pairings.errors import NoPairingError
 from pairings.fold import fold
 from pairings.state import EventState, Result
+
+
+Edges = list[tuple[int, int, int]]
+
+
+def networkx_perfect(n: int, edges: Edges) -> list[tuple[int, int]] | None:
+    """networkx as independent solver: a perfect matching exists iff its maximum-cardinality one is perfect."""
+    g = nx.Graph()
+    g.add_nodes_from(range(n))
+    g.add_weighted_edges_from(edges)
+    m = nx.max_weight_matching(g, maxcardinality=True)
+    return None if 2 * len(m) < n else [(min(a, b), max(a, b)) for a, b in m]
+
+
+def weight(edges: Edges, pairs: Sequence[tuple[int, int]]) -> int:
+    table = {(min(u, v), max(u, v)): w for u, v, w in edges}
+    return sum(table[(min(u, v), max(u, v))] for u, v in pairs)
+
+
+def columns(edges: Edges) -> tuple[Any, Any, Any]:
+    """Edges as arrays ``u, v, w``: ``w`` int64 when every weight fits, Python integers otherwise."""
+    u = np.array([e[0] for e in edges], dtype=np.int64)
+    v = np.array([e[1] for e in edges], dtype=np.int64)
+    ws = [e[2] for e in edges]
+    exact = np.int64 if not ws or max(abs(x) for x in ws) < 2**62 else object
+    return u, v, np.array(ws, dtype=exact)
 
 
 def new_event(ratings: Sequence[int | None], rounds: int = 9, **settings: object) -> list[ev.Event]:

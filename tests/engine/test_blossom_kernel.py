@@ -10,12 +10,12 @@ from __future__ import annotations
 import random
 from typing import Any, Iterator
 
-import networkx as nx  # type: ignore[import-untyped]
 import numpy as np
 import pytest
 from hypothesis import HealthCheck, given, settings
 from hypothesis import strategies as st
 
+from tests.engine.engine_support import Edges, columns, networkx_perfect, weight
 from pairings.engine import blossom, candidates, certificate
 from pairings.engine.blossom import Dual, perfect_matching, perfect_matching_arrays
 from pairings.engine.criteria import Field
@@ -23,32 +23,9 @@ from pairings.engine.weights import weight_array
 from pairings.fold import fold
 from pairings.simulate import simulate_events
 
-Edges = list[tuple[int, int, int]]
 Result = tuple[list[tuple[int, int]], Dual] | None
 
 pytestmark = pytest.mark.skipif(blossom._kernel is None, reason="compiled blossom kernel not built")
-
-
-def networkx_perfect(n: int, edges: Edges) -> list[tuple[int, int]] | None:
-    # networkx as independent solver: a perfect matching exists iff its maximum-cardinality one is perfect.
-    g = nx.Graph()
-    g.add_nodes_from(range(n))
-    g.add_weighted_edges_from(edges)
-    m = nx.max_weight_matching(g, maxcardinality=True)
-    return None if 2 * len(m) < n else [(min(a, b), max(a, b)) for a, b in m]
-
-
-def weight(edges: Edges, pairs: list[tuple[int, int]]) -> int:
-    table = {(min(u, v), max(u, v)): w for u, v, w in edges}
-    return sum(table[(min(u, v), max(u, v))] for u, v in pairs)
-
-
-def columns(edges: Edges) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
-    u = np.array([e[0] for e in edges], dtype=np.int64)
-    v = np.array([e[1] for e in edges], dtype=np.int64)
-    ws = [e[2] for e in edges]
-    exact = np.int64 if not ws or max(abs(x) for x in ws) < 2**62 else object
-    return u, v, np.array(ws, dtype=exact)
 
 
 def certifies(n: int, edges: Edges, result: Result) -> bool:

@@ -8,13 +8,12 @@ from __future__ import annotations
 
 import random
 
-import networkx as nx  # type: ignore[import-untyped]
 import numpy as np
 import pytest
 from hypothesis import HealthCheck, given, settings
 from hypothesis import strategies as st
 
-from tests.engine.engine_support import random_history, state_of
+from tests.engine.engine_support import Edges, columns, networkx_perfect, random_history, state_of, weight
 from pairings.engine import candidates, draft_round, implicit, solver
 from pairings.engine.blossom import Dual, perfect_matching
 from pairings.engine.certificate import certify, reduced_costs
@@ -24,25 +23,6 @@ from pairings.engine.weights import encoder, weight_array
 from pairings.fold import fold
 from pairings.simulate import simulate_events
 
-Edges = list[tuple[int, int, int]]
-
-
-def arrays(edges: Edges) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
-    return (np.array([e[0] for e in edges], dtype=np.int64), np.array([e[1] for e in edges], dtype=np.int64),
-            np.array([e[2] for e in edges], dtype=np.int64))
-
-
-def networkx_perfect(n: int, edges: Edges) -> list[tuple[int, int]] | None:
-    g = nx.Graph()
-    g.add_nodes_from(range(n))
-    g.add_weighted_edges_from(edges)
-    m = nx.max_weight_matching(g, maxcardinality=True)
-    return None if 2 * len(m) < n else [tuple(sorted(p)) for p in m]
-
-
-def weight(edges: Edges, pairs: list[tuple[int, int]]) -> int:
-    table = {(min(u, v), max(u, v)): w for u, v, w in edges}
-    return sum(table[(min(u, v), max(u, v))] for u, v in pairs)
 
 
 graphs = st.integers(0, 10**6).map(lambda seed: _graph(seed))
@@ -71,13 +51,7 @@ def test_blossom_equals_networkx_and_its_dual_certifies(graph: tuple[int, Edges,
     assert got is not None
     pairs, dual = got
     assert weight(edges, pairs) == weight(edges, expected)
-    assert certify(n, *arrays(edges) if edges and max(e[2] for e in edges) < 2**62 else _objects(edges),
-                   pairs, dual)
-
-
-def _objects(edges: Edges) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
-    u, v, _ = arrays([(a, b, 0) for a, b, _ in edges])
-    return u, v, np.array([e[2] for e in edges], dtype=object)
+    assert certify(n, *columns(edges), pairs, dual)
 
 
 def test_certificate_rejects_a_matching_that_is_not_optimal() -> None:
@@ -88,7 +62,7 @@ def test_certificate_rejects_a_matching_that_is_not_optimal() -> None:
     got = perfect_matching(4, edges)
     assert got is not None
     pairs, dual = got
-    u, v, w = arrays(edges)
+    u, v, w = columns(edges)
     assert certify(4, u, v, w, pairs, dual)
     assert certify(4, u, v, w, best, dual)  # networkx's optimum passes with the same dual
     assert not certify(4, u, v, w, [(1, 2), (0, 3)], dual)  # weight 2 < dual objective
@@ -103,11 +77,11 @@ def test_certificate_rejects_an_infeasible_dual() -> None:
     got = perfect_matching(4, sub)
     assert got is not None
     pairs, dual = got
-    u, v, w = arrays(full)
+    u, v, w = columns(full)
     assert (reduced_costs(u, v, w, dual) < 0).any()
     assert not certify(4, u, v, w, pairs, dual)
-    assert not certify(4, *arrays(sub), pairs, Dual([0, 0, 0, 0], []))  # objective 0 != 10
-    assert not certify(4, *arrays(sub), pairs, Dual(dual.y2, [(frozenset({0, 1, 2}), -1)]))
+    assert not certify(4, *columns(sub), pairs, Dual([0, 0, 0, 0], []))  # objective 0 != 10
+    assert not certify(4, *columns(sub), pairs, Dual(dual.y2, [(frozenset({0, 1, 2}), -1)]))
 
 
 def test_triangle_blossom_dual_is_needed_and_checked() -> None:
@@ -119,8 +93,8 @@ def test_triangle_blossom_dual_is_needed_and_checked() -> None:
     pairs, dual = got
     assert weight(edges, pairs) == 21
     assert dual.blossoms, "no blossom dual: the bound could not be tight"
-    assert certify(6, *arrays(edges), pairs, dual)
-    assert not certify(6, *arrays(edges), pairs, Dual(dual.y2, []))
+    assert certify(6, *columns(edges), pairs, dual)
+    assert not certify(6, *columns(edges), pairs, Dual(dual.y2, []))
 
 
 def fields(count: int, seed: int, low: int = 2, top: int = 60) -> list[tuple[int, int, int, bool]]:
@@ -259,7 +233,7 @@ def test_reduced_costs_equal_python_integers(seed: int, top: int) -> None:
     else:  # any odd sets: the certificate's bound holds for every family
         sets = [rng.sample(range(n), 3) for _ in range(3)]
     blossoms = [(frozenset(b), rng.randint(0, top)) for b in sets]
-    u, v, _ = arrays([(a, b, 0) for a, b, _ in edges])
+    u, v, _ = columns([(a, b, 0) for a, b, _ in edges])
     w = np.array([e[2] for e in edges], dtype=object if top > 2**60 else np.int64)
     got = reduced_costs(u, v, w, Dual(y2, blossoms)).tolist()
     for (a, b, wt), rc in zip(edges, got):
