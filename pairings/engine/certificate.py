@@ -24,6 +24,7 @@ candidate edge.
 
 from __future__ import annotations
 
+from dataclasses import dataclass
 from typing import Sequence
 
 import numpy as np
@@ -97,6 +98,48 @@ def _each_z(n: int, u: IntArray, v: IntArray, dual: Dual, z: Limbs) -> Limbs:
     return zh, zl
 
 
+@dataclass(frozen=True)
+class Laminar:
+    """The blossoms of a dual as a tree: blossom ``b`` is node ``b``, node ``m`` a virtual root."""
+
+    owner: IntArray
+    """Per vertex: its innermost blossom, or the root ``m`` when it is in none."""
+    parent: IntArray
+    """Per node (``m + 1``): the smallest blossom holding it, or the root; the root's parent is itself."""
+    depth: IntArray
+    prefix: list[int]
+    """Per node: ``z`` of the blossom plus ``z`` of every blossom holding it (0 at the root)."""
+    order: list[int]
+    """The blossoms, every one after the blossoms holding it."""
+
+
+def laminar(n: int, dual: Dual) -> Laminar:
+    """The tree of ``dual.blossoms`` over vertices ``0..n-1``.
+
+    Raises ValueError when the sets are not laminar (not a blossom dual) or
+    hold a vertex outside the graph.
+    """
+    m = len(dual.blossoms)
+    order = sorted(range(m), key=lambda b: -len(dual.blossoms[b][0]))  # parents (larger) first
+    owner = np.full(n, m, dtype=np.int64)
+    parent = np.full(m + 1, m, dtype=np.int64)
+    depth = np.zeros(m + 1, dtype=np.int64)
+    prefix = [0] * (m + 1)
+    for b in order:
+        members, z = dual.blossoms[b]
+        idx = np.fromiter(members, dtype=np.int64, count=len(members))
+        p = m
+        if len(idx):
+            if idx.min() < 0 or idx.max() >= n:
+                raise ValueError("a blossom holds a vertex outside the graph")
+            p = int(owner[idx[0]])
+            if (owner[idx] != p).any():
+                raise ValueError("the blossoms are not laminar")
+            owner[idx] = b
+        parent[b], depth[b], prefix[b] = p, depth[p] + 1, prefix[p] + z
+    return Laminar(owner, parent, depth, prefix, order)
+
+
 def _common_z(n: int, u: IntArray, v: IntArray, dual: Dual, z: Limbs) -> Limbs | None:
     """``sum(z_B : u[k], v[k] in B)`` per edge, as limbs, by lowest common ancestors.
 
@@ -107,21 +150,15 @@ def _common_z(n: int, u: IntArray, v: IntArray, dual: Dual, z: Limbs) -> Limbs |
     once: a few array passes instead of one per blossom. None when the
     sets are not laminar (not a blossom dual; :func:`_each_z` then sums).
     """
-    m = len(dual.blossoms)
-    root = m  # a virtual root above every top-level blossom; vertices in no blossom sit at it
-    by_size = sorted(range(m), key=lambda b: -len(dual.blossoms[b][0]))
-    owner = np.full(n, root, dtype=np.int64)
-    parent = np.full(m + 1, root, dtype=np.int64)
-    depth = np.zeros(m + 1, dtype=np.int64)
-    ph, pl = np.zeros(m + 1, dtype=np.int64), np.zeros(m + 1, dtype=np.int64)
-    for b in by_size:  # parents (larger) first
-        members = np.fromiter(dual.blossoms[b][0], dtype=np.int64)
-        p = int(owner[members[0]])
-        if (owner[members] != p).any():
-            return None
-        parent[b], depth[b] = p, depth[p] + 1
-        ph[b], pl[b] = ph[p] + z[0][b], pl[p] + z[1][b]
-        owner[members] = b
+    try:
+        tree = laminar(n, dual)
+    except ValueError:
+        return None
+    sums = limbs(np.array(tree.prefix, dtype=object))
+    if sums is None:
+        return None
+    owner, parent, depth = tree.owner, tree.parent, tree.depth
+    ph, pl = sums
     up = [parent]
     while (1 << len(up)) <= int(depth.max()):
         up.append(up[-1][up[-1]])

@@ -43,7 +43,7 @@ from typing import Any, Sequence
 
 import numpy as np
 
-from pairings.engine import weights
+from pairings.engine import certificate, weights
 from pairings.engine.blossom import Dual
 from pairings.engine.criteria import ABSOLUTE, MILD
 from pairings.engine.vector import FIRST, SECOND, WIDTH, Arrays, IntArray
@@ -116,35 +116,22 @@ def _history_bits(history: IntArray, n: int) -> tuple[int, bytes, bytes]:
 
 
 def _tree(n: int, dual: Dual) -> tuple[bytes, bytes, bytes]:
-    """(owner per player, parent per blossom, prefix z sum per node) of the laminar blossoms.
+    """(owner per player, parent per blossom, prefix z sum per node) of :func:`certificate.laminar`.
 
-    Blossom nodes are numbered so that a parent comes after its children; node
-    ``m`` is a virtual root above every top-level blossom, and a player in no
+    Renumbered for the kernel so that a parent comes after its children; node
+    ``m`` is the virtual root above every top-level blossom, and a player in no
     blossom sits at it. ``ValueError`` when the family is not laminar.
     """
+    tree = certificate.laminar(max(len(dual.y2), n), dual)
     m = len(dual.blossoms)
-    size = max(len(dual.y2), n)
-    root = m
-    desc = sorted(range(m), key=lambda b: -len(dual.blossoms[b][0]))  # parents (larger) first
-    owner = np.full(size, root, dtype=np.int64)
-    parent = np.full(m, root, dtype=np.int64)
+    node = np.full(m + 1, m, dtype=np.int64)
+    node[tree.order] = m - 1 - np.arange(m, dtype=np.int64)
+    parent = np.empty(m, dtype=np.int64)
+    parent[node[:m]] = node[tree.parent[:m]]
     prefix = [0] * (m + 1)
-    for t, b in enumerate(desc):
-        members, z = dual.blossoms[b]
-        me = m - 1 - t
-        idx = np.fromiter(members, dtype=np.int64, count=len(members))
-        if len(idx) == 0:
-            prefix[me] = z
-            continue
-        if idx.min() < 0 or idx.max() >= size:
-            raise ValueError("a blossom holds a vertex outside the graph")
-        p = int(owner[idx[0]])
-        if (owner[idx] != p).any():
-            raise ValueError("the blossoms are not laminar")
-        parent[me] = p
-        prefix[me] = prefix[p] + z
-        owner[idx] = me
-    return _int64(owner[:n]), _int64(parent), _int128(prefix, "a blossom z sum")
+    for b in range(m):
+        prefix[int(node[b])] = tree.prefix[b]
+    return _int64(node[tree.owner[:n]]), _int64(parent), _int128(prefix, "a blossom z sum")
 
 
 class PairScan:
