@@ -695,18 +695,22 @@ static int run(Run *r) {
     }
 }
 
+/* Every array a run allocates: freed together, checked together (one list, so none is forgotten). */
+#define RUN_ARRAYS(r)                                                                                  \
+    {(r)->end, (r)->w, (r)->nbstart, (r)->nb, (r)->d, (r)->mate, (r)->top, (r)->parent, (r)->childs,   \
+     (r)->endps, (r)->nchild, (r)->first, (r)->last, (r)->next, (r)->base, (r)->unused, (r)->label,    \
+     (r)->labelend, (r)->best, (r)->bestlist, (r)->nbest, (r)->allowed, (r)->queue, (r)->touched,      \
+     (r)->is_touched, (r)->freeb, (r)->is_freeb, (r)->forest, (r)->fpos, (r)->opened, (r)->exposed,    \
+     (r)->spath, (r)->sendp, (r)->sforest, (r)->bt_edge, (r)->bt_slack, (r)->bt_keys, (r)->fstack_b,   \
+     (r)->fstack_i, (r)->astack}
+
 static void run_free(Run *r) {
     for (Py_ssize_t b = 0; b < 2 * (Py_ssize_t)r->n; b++) {
         if (r->childs) free(r->childs[b]);
         if (r->endps) free(r->endps[b]);
         if (r->bestlist) free(r->bestlist[b]);
     }
-    void *arrays[] = {r->end, r->w, r->nbstart, r->nb, r->d, r->mate, r->top, r->parent, r->childs,
-                      r->endps, r->nchild, r->first, r->last, r->next, r->base, r->unused, r->label,
-                      r->labelend, r->best, r->bestlist, r->nbest, r->allowed, r->queue, r->touched,
-                      r->is_touched, r->freeb, r->is_freeb, r->forest, r->fpos, r->opened,
-                      r->exposed, r->spath, r->sendp, r->sforest, r->bt_edge, r->bt_slack,
-                      r->bt_keys, r->fstack_b, r->fstack_i, r->astack};
+    void *arrays[] = RUN_ARRAYS(r);
     for (size_t q = 0; q < sizeof arrays / sizeof arrays[0]; q++) free(arrays[q]);
 }
 
@@ -756,12 +760,7 @@ static int run_alloc(Run *r, idx n, Py_ssize_t m) {
     r->astack = alloc((size_t)n + 2, sizeof(struct aframe));
     r->capqueue = n + 16;
     r->queue = alloc((size_t)r->capqueue, sizeof(idx));
-    void *arrays[] = {r->end, r->w, r->nbstart, r->nb, r->d, r->mate, r->top, r->parent, r->childs,
-                      r->endps, r->nchild, r->first, r->last, r->next, r->base, r->unused, r->label,
-                      r->labelend, r->best, r->bestlist, r->nbest, r->allowed, r->queue, r->touched,
-                      r->is_touched, r->freeb, r->is_freeb, r->forest, r->fpos, r->opened,
-                      r->exposed, r->spath, r->sendp, r->sforest, r->bt_edge, r->bt_slack,
-                      r->bt_keys, r->fstack_b, r->fstack_i, r->astack};
+    void *arrays[] = RUN_ARRAYS(r);
     for (size_t q = 0; q < sizeof arrays / sizeof arrays[0]; q++)
         if (!arrays[q]) return -1;
     for (idx x = 0; x < n; x++) {
