@@ -17,7 +17,7 @@ pruned edge (LP duality over Edmonds' perfect-matching polytope, see
 :func:`certificate.certify` on the sparse edges (dual feasible there, equal
 objectives), the bye edges are all in the sparse graph, and the scan finds no
 pruned player pair with a negative reduced cost. Otherwise the violated pairs
-are added and the solve repeats; after ``SPARSE_ROUNDS`` solves the caller
+are added and the solve repeats; after ``SOLVES`` solves the caller
 falls back to the listed path. The weights are :func:`weights.bounding`'s
 over the :func:`net` cost rows, with radices from the pairs' maxima and
 :func:`shares`: another valid mixed-radix encoding of the same lexicographic
@@ -38,16 +38,13 @@ from pairings.engine.types import CRITERIA
 from pairings.engine.vector import WIDTH, AnyArray, Arrays, IntArray
 from pairings.state import PlayerId
 
-SPARSE_BEST = 3
-"""Each player's heaviest pruned pairs in the first sparse graph."""
-SPARSE_NEAR = 4
 SPARSE_WIDE = 12
-"""... and the players this near the rank-order ideal (:func:`candidates.ideal_partners`: same wish, compatible)."""
+"""Players of a compatible side-wish class this near the rank-order ideal join the first sparse graph
+(:func:`candidates.ideal_partners`; ``candidates.SPARSE_CLASS`` of the player's own wish)."""
 RESTRICTED_GAPS = (1, 2)
 """Score gaps tried first when the greedy bound is weak (:func:`implicit_matching`)."""
-SPARSE_ADD = 2
-"""Violated pairs added per player and round (the most violated first)."""
-SPARSE_ROUNDS = 12
+SOLVES = 12
+"""Sparse solves before the caller falls back to the listed path."""
 
 
 def available() -> bool:
@@ -92,7 +89,7 @@ class _Sparse:
         rows = self.arrays.costs(i, j) if rows is None else rows[fresh][first]
         self.w.append(weights.encode(self.enc, net(self.arrays, i, j, rows)))
 
-    def arrays_(self) -> tuple[IntArray, IntArray, AnyArray]:
+    def edges(self) -> tuple[IntArray, IntArray, AnyArray]:
         w = self.w
         if not w:
             return np.zeros(0, dtype=np.int64), np.zeros(0, dtype=np.int64), np.zeros(0, dtype=np.int64)
@@ -144,8 +141,10 @@ def shares(a: Arrays) -> dict[int, int]:
 
 
 def _start(fld: Field, players: Sequence[PlayerId], no_bye: Collection[PlayerId], arrays: Arrays,
-           bound: candidates.Bound) -> tuple[scan.PairScan, scan.Stats, _Sparse] | None:
-    """The scan of the pairs within ``bound``, and the first sparse graph; None beyond the kernels' integers.
+           bound: candidates.Bound) -> tuple[scan.PairScan, scan.Stats, _Sparse, int] | None:
+    """The scan of the pairs within ``bound``, the first sparse graph and its bye edges' count.
+
+    None when values go beyond the kernels' integers.
 
     The first sparse graph: the bye edges, each player's compatible partners
     near the rank-order ideal (:func:`candidates.ideal_partners`), each
@@ -165,26 +164,26 @@ def _start(fld: Field, players: Sequence[PlayerId], no_bye: Collection[PlayerId]
                                shares(arrays))
         sparse = _Sparse(arrays, enc)
         sparse.add(bu, bv, brows)
-        i, j, rows = candidates.admissible(arrays, *candidates.ideal_partners(arrays, SPARSE_NEAR, SPARSE_WIDE),
-                                           bound)
+        near = candidates.ideal_partners(arrays, candidates.SPARSE_CLASS, SPARSE_WIDE)
+        i, j, rows = candidates.admissible(arrays, *near, bound)
         sparse.add(i, j, rows)
-        sparse.add(*pairscan.heaviest(enc, SPARSE_BEST))
+        sparse.add(*pairscan.heaviest(enc, candidates.SPARSE_BEST))
     except ValueError:
         return None
     own = np.array(bound.pairs, dtype=np.int64).reshape(-1, 2)
     own = own[own[:, 1] < n]  # its bye edge is among the bye edges
     sparse.add(own[:, 0], own[:, 1])  # within the bound by the bound's own argument
-    return pairscan, stats, sparse
+    return pairscan, stats, sparse, len(bu)
 
 
 def _certified(sparse: _Sparse, pairscan: scan.PairScan) -> tuple[list[tuple[int, int]], int] | None:
     """The sparse solve repeated until its dual holds on every pair of the scan: the pairs and the solves made.
 
-    None when no certificate is reached within ``SPARSE_ROUNDS`` solves (or values leave the kernels' range).
+    None when no certificate is reached within ``SOLVES`` solves (or values leave the kernels' range).
     """
     last: tuple[list[tuple[int, int]], blossom.Dual] | None = None
-    for attempt in range(1, SPARSE_ROUNDS + 1):
-        u, v, w = sparse.arrays_()
+    for attempt in range(1, SOLVES + 1):
+        u, v, w = sparse.edges()
         if last is None:
             result = blossom.perfect_matching_arrays(sparse.n, u, v, w)
         else:
@@ -193,7 +192,7 @@ def _certified(sparse: _Sparse, pairscan: scan.PairScan) -> tuple[list[tuple[int
             return None
         pairs, dual = last = result
         try:
-            vi, vj, count = pairscan.violated(sparse.enc, dual, SPARSE_ADD)
+            vi, vj, count = pairscan.violated(sparse.enc, dual, candidates.SPARSE_ADD)
         except ValueError:
             return None
         if count == 0 and certificate.certify(sparse.n, u, v, w, pairs, dual):
@@ -232,14 +231,13 @@ def implicit_matching(fld: Field, players: Sequence[PlayerId], no_bye: Collectio
         started = _start(fld, players, no_bye, arrays, limits)
         if started is None:
             continue
-        pairscan, stats, sparse = started
+        pairscan, stats, sparse, byes = started
         found = _certified(sparse, pairscan)
         if found is None:
             continue
         pairs, attempts = found
         if limits is not bound and not _proves_itself(fld, players, no_bye, pairs, limits.levels):
             continue
-        pruned = stats.count + int(np.count_nonzero(sparse.arrays_()[1] == arrays.n))
-        route = candidates.Route(True, attempts, sum(len(x) for x in sparse.u), pruned)
+        route = candidates.Route(True, attempts, sum(len(x) for x in sparse.u), stats.count + byes)
         return Solved(pairs, route, stats.count > 0 and stats.rematch_free == 0, limits)
     return None

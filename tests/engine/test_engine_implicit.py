@@ -74,7 +74,7 @@ def test_violated_pairs_are_added_until_the_certificate_holds(monkeypatch: pytes
     state = fold(enumerate(simulate_events(400, 9, 4, 5), 1))
     reference = draft_round(state, reference=True).key()
     monkeypatch.setattr(candidates, "ideal_partners", lambda a, near=0, wide=0: (a.units[:0], a.units[:0]))
-    monkeypatch.setattr(implicit, "SPARSE_BEST", 1)
+    monkeypatch.setattr(candidates, "SPARSE_BEST", 1)
     rnd = state.next_round_number
     fld = Field(state, rnd, state.available(rnd))
     order = list(fld.order)
@@ -84,7 +84,7 @@ def test_violated_pairs_are_added_until_the_certificate_holds(monkeypatch: pytes
     assert solved is not None and solved.route.certified and solved.route.rounds > 1
     assert draft_round(state).key() == reference
     # One round only: no certificate, so the engine falls back to the listed path, still exact.
-    monkeypatch.setattr(implicit, "SPARSE_ROUNDS", 1)
+    monkeypatch.setattr(implicit, "SOLVES", 1)
     assert implicit.implicit_matching(fld, order, (), bound) is None
     assert draft_round(state).key() == reference
 
