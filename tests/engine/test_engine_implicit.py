@@ -18,6 +18,7 @@ from pairings.engine.criteria import Field
 from pairings.errors import NoPairingError
 from pairings.fold import fold
 from pairings.simulate import simulate_events
+from pairings.state import EventState
 
 pytestmark = pytest.mark.skipif(not implicit.available(), reason="compiled kernels not built")
 
@@ -46,9 +47,7 @@ def test_implicit_path_equals_listed_path_and_reference(n: int, played: int, see
         return
     solved = implicit.implicit_matching(fld, order, (), bound)
     if solved is None:  # weights beyond the kernels' integers (many gap levels, hard rules relaxed)
-        TAKEN.append(False)
         return
-    TAKEN.append(True)
     assert solved.route.certified
     pr = candidates.pruned_edges(fld, order, (), solved.bound)
     assert pr is not None
@@ -57,15 +56,16 @@ def test_implicit_path_equals_listed_path_and_reference(n: int, played: int, see
     assert draft_round(state).key() == fast.key()
 
 
-TAKEN: list[bool] = []
-
-
 def test_most_fields_take_the_implicit_path() -> None:
-    # Runs after the parametrised test above (file order); fields that relax hard rules with
-    # many gap levels need weights beyond 100 bits and take the listed path instead.
-    if len(TAKEN) < 100:
-        pytest.skip("the parametrised comparison did not run in this session")
-    assert sum(TAKEN) >= 0.6 * len(TAKEN), f"{sum(TAKEN)} of {len(TAKEN)} fields took the implicit path"
+    # The fields of the comparison above: those that relax hard rules with many gap levels need
+    # weights beyond the kernels' integers and take the listed path instead; most must not.
+    taken = []
+    for n, played, seed, rough in fields(120, 11, 2, 90):
+        fld, order = field_of(n, played, seed, rough)
+        bound = candidates.greedy_bound(fld, order, ())
+        if bound is not None:
+            taken.append(implicit.implicit_matching(fld, order, (), bound) is not None)
+    assert sum(taken) >= 0.6 * len(taken), f"{sum(taken)} of {len(taken)} fields took the implicit path"
 
 
 def test_violated_pairs_are_added_until_the_certificate_holds(monkeypatch: pytest.MonkeyPatch) -> None:
@@ -98,6 +98,10 @@ def test_implicit_path_at_1000(seed: int, monkeypatch: pytest.MonkeyPatch) -> No
     assert draft_round(state).key() == fast.key()
 
 
+def _forced_state(n: int, played: int, seed: int) -> EventState:
+    return state_of(random_history(n, played, seed, withdraw=0.02))
+
+
 def _forced_fields(count: int) -> list[tuple[int, int, int]]:
     """Random-pairing histories (sides at random, so side differences beyond 2 are common) of odd and
     even sizes: the players who break H3 on any board exercise the net side-rule bound."""
@@ -110,10 +114,7 @@ def test_unavoidable_breaks_and_the_bye_keep_the_optimum(n: int, played: int, se
                                                         monkeypatch: pytest.MonkeyPatch) -> None:
     # The safe-pruning bound nets unavoidable H3 breaks out and gives pairs C(F) less the bye's least
     # cost (candidates.py Notes): networkx on the full graph must still agree, on both engine paths.
-    state = state_of(random_history(n, played, seed, withdraw=0.02))
-    rnd = state.next_round_number
-    fld = Field(state, rnd, state.available(rnd))
-    FORCED.append(sum(fld.forced(p) for p in fld.order))
+    state = _forced_state(n, played, seed)
     try:
         reference = draft_round(state, reference=True).key()
     except NoPairingError:
@@ -123,10 +124,11 @@ def test_unavoidable_breaks_and_the_bye_keep_the_optimum(n: int, played: int, se
     assert draft_round(state).key() == reference
 
 
-FORCED: list[int] = []
-
-
 def test_those_fields_have_players_with_unavoidable_breaks() -> None:
-    if len(FORCED) < 60:
-        pytest.skip("the parametrised comparison did not run in this session")
-    assert sum(1 for f in FORCED if f) >= 30, FORCED
+    forced = []
+    for n, played, seed in _forced_fields(60):
+        state = _forced_state(n, played, seed)
+        rnd = state.next_round_number
+        fld = Field(state, rnd, state.available(rnd))
+        forced.append(sum(fld.forced(p) for p in fld.order))
+    assert sum(1 for f in forced if f) >= 30, forced
