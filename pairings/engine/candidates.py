@@ -139,8 +139,9 @@ def greedy(fld: Field, players: Sequence[PlayerId], no_bye: Collection[PlayerId]
            ) -> tuple[list[Cost], list[tuple[int, int]]] | None:
     """A feasible full pairing built greedily in rank order: its costs and index pairs, or None.
 
-    The bye goes to the lowest-ranked player allowed one (pair ``(i, len(players))``);
-    then each player, top down, takes the cheapest of the next ``GREEDY_WINDOW``
+    The bye goes to a player with an unavoidable H3 break when one is allowed it
+    (:meth:`Field.forced`), else to the cheapest bye, lowest-ranked first (pair
+    ``(i, len(players))``); then each player, top down, takes the cheapest of the next ``GREEDY_WINDOW``
     free players (all of them when none of those is free of hard-rule relaxations).
     """
     index = {p: k for k, p in enumerate(players)}
