@@ -10,6 +10,8 @@ import numpy as np
 
 from pairings import events as ev
 from pairings.engine import Draft, draft_round
+from pairings.engine.blossom import Dual, perfect_matching
+from pairings.engine.certificate import certify
 from pairings.errors import NoPairingError
 from pairings.fold import fold
 from pairings.state import EventState, Result
@@ -39,6 +41,23 @@ def columns(edges: Edges) -> tuple[Any, Any, Any]:
     ws = [e[2] for e in edges]
     exact = np.int64 if not ws or max(abs(x) for x in ws) < 2**62 else object
     return u, v, np.array(ws, dtype=exact)
+
+
+def checked_perfect(n: int, edges: Edges, warm: Sequence[int]) -> tuple[list[tuple[int, int]], Dual] | None:
+    """``blossom.perfect_matching`` checked against networkx (independent solver) and weak LP duality.
+
+    None exactly when networkx finds no perfect matching either.
+    """
+    expected = networkx_perfect(n, edges)
+    got = perfect_matching(n, edges, warm)
+    if expected is None:
+        assert got is None
+        return None
+    assert got is not None
+    pairs, dual = got
+    assert weight(edges, pairs) == weight(edges, expected)
+    assert certify(n, *columns(edges), pairs, dual)
+    return got
 
 
 def new_event(ratings: Sequence[int | None], rounds: int = 9, **settings: object) -> list[ev.Event]:

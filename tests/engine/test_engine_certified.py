@@ -13,7 +13,9 @@ import pytest
 from hypothesis import HealthCheck, given, settings
 from hypothesis import strategies as st
 
-from tests.engine.engine_support import Edges, columns, networkx_perfect, random_history, state_of, weight
+from tests.engine.engine_support import (
+    Edges, checked_perfect, columns, networkx_perfect, random_history, state_of, weight,
+)
 from pairings.engine import candidates, draft_round, implicit, solver
 from pairings.engine.blossom import Dual, perfect_matching
 from pairings.engine.certificate import certify, reduced_costs
@@ -42,16 +44,7 @@ def _graph(seed: int) -> tuple[int, Edges, list[int]]:
 @given(graphs)
 def test_blossom_equals_networkx_and_its_dual_certifies(graph: tuple[int, Edges, list[int]]) -> None:
     # networkx max_weight_matching as independent solver; weak LP duality as the check.
-    n, edges, warm = graph
-    expected = networkx_perfect(n, edges)
-    got = perfect_matching(n, edges, warm)
-    if expected is None:
-        assert got is None
-        return
-    assert got is not None
-    pairs, dual = got
-    assert weight(edges, pairs) == weight(edges, expected)
-    assert certify(n, *columns(edges), pairs, dual)
+    checked_perfect(*graph)
 
 
 def test_certificate_rejects_a_matching_that_is_not_optimal() -> None:
