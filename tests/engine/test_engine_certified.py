@@ -7,6 +7,7 @@ own full-graph path (compiled solver on every pruned edge) for the larger fields
 from __future__ import annotations
 
 import random
+from typing import Any
 
 import numpy as np
 import pytest
@@ -24,6 +25,7 @@ from pairings.engine.vector import Arrays
 from pairings.engine.weights import encoder, weight_array
 from pairings.fold import fold
 from pairings.simulate import simulate_events
+from pairings.state import EventState
 
 
 
@@ -138,16 +140,21 @@ def test_certified_path_equals_full_graph_path(n: int, played: int, seed: int, r
     assert weight(edges, seeded) == weight(edges, full)
 
 
-def test_fallback_engages_and_stays_exact(monkeypatch: pytest.MonkeyPatch) -> None:
-    # One sparse round only on a 300-player field whose first sparse optimum fails the
-    # certificate: the compiled solver on every pruned edge must take over, same cost vector.
-    state = fold(enumerate(simulate_events(300, 9, 4, 2), 1))
+def simulated_pruned(n: int, seed: int) -> tuple[EventState, Field, list[str], candidates.Pruned, Any]:
+    """A simulated field drafting round 5 of 9: state, field, rank order, listed pruned graph, weights."""
+    state = fold(enumerate(simulate_events(n, 9, 4, seed), 1))
     rnd = state.next_round_number
     fld = Field(state, rnd, state.available(rnd))
     order = list(fld.order)
     pr = candidates.pruned_edges(fld, order, ())
     assert pr is not None
-    w = weight_array(pr.costs, pr.n)
+    return state, fld, order, pr, weight_array(pr.costs, pr.n)
+
+
+def test_fallback_engages_and_stays_exact(monkeypatch: pytest.MonkeyPatch) -> None:
+    # One sparse round only on a 300-player field whose first sparse optimum fails the
+    # certificate: the compiled solver on every pruned edge must take over, same cost vector.
+    state, fld, order, pr, w = simulated_pruned(300, 2)
     rank = pr.costs[:, candidates.RANK_INDEX]
     _, first = candidates.certified_matching(pr.n, pr.u, pr.v, w, rank)
     assert first.certified and first.rounds > 1  # the first sparse solve alone was not optimal
@@ -166,13 +173,7 @@ def test_fallback_engages_and_stays_exact(monkeypatch: pytest.MonkeyPatch) -> No
 @pytest.mark.full
 @pytest.mark.parametrize("seed", range(3))
 def test_certified_path_at_1000(seed: int) -> None:
-    state = fold(enumerate(simulate_events(1000, 9, 4, seed), 1))
-    rnd = state.next_round_number
-    fld = Field(state, rnd, state.available(rnd))
-    order = list(fld.order)
-    pr = candidates.pruned_edges(fld, order, ())
-    assert pr is not None
-    w = weight_array(pr.costs, pr.n)
+    _, _, _, pr, w = simulated_pruned(1000, seed)
     pairs, route = candidates.certified_matching(pr.n, pr.u, pr.v, w, pr.costs[:, candidates.RANK_INDEX])
     edges = list(zip(pr.u.tolist(), pr.v.tolist(), w.tolist()))
     assert route.certified
