@@ -11,9 +11,9 @@ from typing import Annotated, Literal, Union
 
 from pydantic import BaseModel, ConfigDict, Field, TypeAdapter
 
-from pairings.state import ByeKind, Result, System, Unplayed
+from pairings.state import Acceleration, ByeKind, Result, System, Unplayed
 
-SCHEMA_VERSION = 1
+SCHEMA_VERSION = 2
 
 
 class _Event(BaseModel):
@@ -42,6 +42,8 @@ class EventCreated(_Event):
     system: System = System.SWISS
     double_round: bool = False
     seed: int = 0
+    acceleration: Acceleration = Acceleration.NONE
+    forfeit_is_meeting: bool = True
 
 
 class SettingsChanged(_Event):
@@ -54,6 +56,12 @@ class SettingsChanged(_Event):
     unplayed: Unplayed | None = None
     bye_points: float | None = None
     requested_bye_points: float | None = None
+    scoring: ScoringModel | None = None
+    system: System | None = None
+    acceleration: Acceleration | None = None
+    forfeit_is_meeting: bool | None = None
+    max_meetings: int | None = Field(default=None, ge=1)
+    final_round_side_exception: bool | None = None
 
 
 class PlayerRegistered(_Event):

@@ -67,6 +67,8 @@ def _(e: ev.EventCreated, b: _Builder) -> None:
         system=e.system,
         double_round=e.double_round,
         seed=e.seed,
+        acceleration=e.acceleration,
+        forfeit_is_meeting=e.forfeit_is_meeting,
     )
 
 
@@ -76,6 +78,8 @@ def _(e: ev.SettingsChanged, b: _Builder) -> None:
     changes = {k: v for k, v in e.model_dump(exclude={"type"}).items() if v is not None}
     if "tiebreaks" in changes:
         changes["tiebreaks"] = tuple(changes["tiebreaks"])
+    if e.scoring is not None:
+        changes["scoring"] = Scoring(e.scoring.win, e.scoring.draw, e.scoring.loss)
     b.settings = replace(b.settings, **changes)
 
 

@@ -52,8 +52,21 @@ class Float(StrEnum):
 
 
 class System(StrEnum):
+    """The event's pairing system (stored values; the command line's names are in ``SYSTEM_NAMES``)."""
+
     SWISS = "swiss"
+    """Our whole-round optimum Swiss system (docs/engine.md), named ``whole-round`` to users."""
+    DUTCH = "dutch"
+    """The FIDE (Dutch) System, C.04.3."""
     ROUND_ROBIN = "round_robin"
+
+
+class Acceleration(StrEnum):
+    """An accelerated-pairing method applied on top of a Swiss system."""
+
+    NONE = "none"
+    BAKU = "baku"
+    """C.04.5.1 Baku Acceleration: virtual points for the top group in the first rounds."""
 
 
 class Unplayed(StrEnum):
@@ -149,6 +162,9 @@ class Settings:
     system: System = System.SWISS
     double_round: bool = False
     seed: int = 0
+    acceleration: Acceleration = Acceleration.NONE
+    forfeit_is_meeting: bool = True
+    """A pairing that ended in a forfeit counts as a meeting (the current Handbook's rule, from memory)."""
 
 
 @dataclass(frozen=True, slots=True)
