@@ -64,6 +64,19 @@ class SettingsChanged(_Event):
     final_round_side_exception: bool | None = None
 
 
+class PlayerDetailsModel(_Event):
+    """Stored form of :class:`pairings.state.PlayerDetails`."""
+
+    title: str | None = None
+    federation: str | None = None
+    fide_id: str | None = None
+    national_id: str | None = None
+    birth: str | None = None
+    sex: Literal["m", "f"] | None = None
+    ratings: dict[str, int] = Field(default_factory=dict)
+    categories: tuple[str, ...] = ()
+
+
 class PlayerRegistered(_Event):
     type: Literal["player-registered"] = "player-registered"
     id: str
@@ -71,6 +84,7 @@ class PlayerRegistered(_Event):
     rating: int | None = None
     club: str | None = None
     entry_round: int = Field(default=1, ge=1)
+    details: PlayerDetailsModel | None = None
 
 
 class PlayerEdited(_Event):
@@ -79,6 +93,8 @@ class PlayerEdited(_Event):
     name: str
     rating: int | None = None
     club: str | None = None
+    details: PlayerDetailsModel | None = None
+    """None keeps the player's details as they are; a value replaces them whole."""
 
 
 class PlayerWithdrawn(_Event):

@@ -23,6 +23,7 @@ from pairings.state import (
     ForbiddenPair,
     Game,
     Player,
+    PlayerDetails,
     PlayerId,
     PlayerRecord,
     Round,
@@ -88,14 +89,25 @@ def _(e: ev.PlayerRegistered, b: _Builder) -> None:
     pid = PlayerId(e.id)
     b.players[pid] = Player(
         id=pid, name=e.name, rating=e.rating, club=e.club, status=Status.ACTIVE,
-        order=len(b.players), entry_round=e.entry_round,
+        order=len(b.players), entry_round=e.entry_round, details=_details(e.details),
     )
 
 
 @_apply.register
 def _(e: ev.PlayerEdited, b: _Builder) -> None:
     pid = PlayerId(e.id)
-    b.players[pid] = replace(b.players[pid], name=e.name, rating=e.rating, club=e.club)
+    old = b.players[pid]
+    details = old.details if e.details is None else _details(e.details)
+    b.players[pid] = replace(old, name=e.name, rating=e.rating, club=e.club, details=details)
+
+
+def _details(m: ev.PlayerDetailsModel | None) -> PlayerDetails:
+    if m is None:
+        return PlayerDetails()
+    return PlayerDetails(
+        title=m.title, federation=m.federation, fide_id=m.fide_id, national_id=m.national_id,
+        birth=m.birth, sex=m.sex, ratings=tuple(sorted(m.ratings.items())), categories=tuple(m.categories),
+    )
 
 
 @_apply.register

@@ -168,6 +168,26 @@ class Settings:
 
 
 @dataclass(frozen=True, slots=True)
+class PlayerDetails:
+    """What rated events and category prizes need beyond name, rating and club (all optional)."""
+
+    title: str | None = None
+    """FIDE title as its usual abbreviation (GM, IM, WGM, FM, WIM, CM, WFM, WCM)."""
+    federation: str | None = None
+    """Three-letter federation code, upper case."""
+    fide_id: str | None = None
+    national_id: str | None = None
+    birth: str | None = None
+    """Birth year ``YYYY`` or date ``YYYY-MM-DD``."""
+    sex: str | None = None
+    """``m`` or ``f``."""
+    ratings: tuple[tuple[str, int], ...] = ()
+    """One rating per list the event uses (e.g. ``("fide", 2010), ("national", 1980)``), sorted by list name."""
+    categories: tuple[str, ...] = ()
+    """Free category labels given by hand."""
+
+
+@dataclass(frozen=True, slots=True)
 class Player:
     id: PlayerId
     name: str
@@ -180,6 +200,7 @@ class Player:
     """First round the player can be paired in (late entries)."""
     withdrawn_from: int | None = None
     """First round the player is no longer paired in, when withdrawn."""
+    details: PlayerDetails = PlayerDetails()
 
 
 @dataclass(frozen=True, slots=True)
