@@ -13,13 +13,22 @@ An event file is one SQLite database with two tables:
 Every append is one ``BEGIN IMMEDIATE`` transaction that first checks the
 sequence number the caller expects (optimistic concurrency); the file runs in
 WAL mode with ``synchronous=FULL`` so an acknowledged append survives a crash.
+
+A file that cannot be opened for writing (a read-only medium or folder, a full
+disk) is still read: SQLite's read-only mode, or its ``immutable`` mode where not
+even the WAL index can be created and there is no write-ahead log to apply
+(the SQLite documentation, "Read-Only Databases" of wal.html and "URI filenames").
+Such a recorder refuses every append with the reason.
 """
 
 from __future__ import annotations
 
 import hashlib
 import json
+import os
+import shutil
 import sqlite3
+import tempfile
 from dataclasses import dataclass
 from datetime import datetime, timezone
 from pathlib import Path
@@ -84,27 +93,32 @@ def _utc_now() -> str:
 class Recorder:
     """Inserts and selects event rows; nothing else."""
 
-    def __init__(self, path: Path, conn: sqlite3.Connection, clock: Callable[[], str] = _utc_now) -> None:
+    def __init__(self, path: Path, conn: sqlite3.Connection, clock: Callable[[], str] = _utc_now,
+                 read_only: bool = False) -> None:
         self.path = path
         self._conn = conn
         self._clock = clock
+        self.read_only = read_only
+        """True when the file could only be opened for reading; :meth:`append` then refuses."""
+        self._scratch: Path | None = None  # the private copy read instead (see _open_copy)
 
     # -- opening ---------------------------------------------------------------------------
 
     @staticmethod
-    def _connect(path: Path, *, create: bool) -> sqlite3.Connection:
-        mode = "rwc" if create else "rw"
+    def _connect(path: Path, mode: str) -> sqlite3.Connection:
+        """A connection in SQLite URI ``mode``; raises :class:`sqlite3.Error` as SQLite does."""
+        conn = sqlite3.connect(
+            f"file:{path.as_posix()}?mode={mode}", uri=True, timeout=10.0, isolation_level=None,
+            check_same_thread=False,
+        )
         try:
-            conn = sqlite3.connect(
-                f"file:{path.as_posix()}?mode={mode}", uri=True, timeout=10.0, isolation_level=None,
-                check_same_thread=False,
-            )
             # A stored byte changed into invalid UTF-8 must still read, so the chain check can name it.
             conn.text_factory = lambda raw: raw.decode("utf-8", "surrogateescape")
             conn.execute("PRAGMA busy_timeout = 10000")
             conn.execute("PRAGMA synchronous = FULL")
-        except sqlite3.Error as exc:
-            raise NotAnEventFileError(f"{path}: cannot open as an event file ({exc})") from None
+        except BaseException:
+            conn.close()
+            raise
         return conn
 
     @classmethod
@@ -113,7 +127,10 @@ class Recorder:
             raise StoreError(f"{path}: already exists; choose another name or open it")
         if not path.parent.exists():
             raise NotAnEventFileError(f"{path.parent}: no such folder")
-        conn = cls._connect(path, create=True)
+        try:
+            conn = cls._connect(path, "rwc")
+        except sqlite3.Error as exc:
+            raise NotAnEventFileError(f"{path}: cannot create ({exc})") from None
         try:
             conn.execute("PRAGMA journal_mode = WAL")
             conn.execute("BEGIN IMMEDIATE")
@@ -131,17 +148,14 @@ class Recorder:
 
     @classmethod
     def open(cls, path: Path) -> "Recorder":
+        if path.is_dir():
+            raise NotAnEventFileError(f"{path}: is a folder, not an event file")
         if not path.is_file():
             raise NotAnEventFileError(f"{path}: no such event file")
         with open(path, "rb") as fh:
             if fh.read(16) != b"SQLite format 3\x00":
                 raise NotAnEventFileError(f"{path}: not an event file (not an SQLite database)")
-        conn = cls._connect(path, create=False)
-        try:
-            meta = dict(conn.execute("SELECT key, value FROM meta").fetchall())
-        except sqlite3.Error:
-            conn.close()
-            raise NotAnEventFileError(f"{path}: not an event file (no event log inside)") from None
+        conn, meta, mode = cls._open_readable(path)
         if meta.get("format") != FORMAT:
             conn.close()
             raise NotAnEventFileError(f"{path}: not an event file (format {meta.get('format')!r})")
@@ -156,10 +170,64 @@ class Recorder:
                 f"{path}: written by a newer version of the desk (schema {version}, this one reads up to "
                 f"{SCHEMA_VERSION}); upgrade pairings to open it"
             )
-        return cls(path, conn)
+        recorder = cls(path, conn, read_only=mode != "rw")
+        recorder._scratch = Path(mode.removeprefix("copy:")) if mode.startswith("copy:") else None
+        return recorder
+
+    @classmethod
+    def _open_readable(cls, path: Path) -> tuple[sqlite3.Connection, dict[str, str], str]:
+        """A connection that can read the file, its meta table and the mode that worked.
+
+        Read-write first where the file and its folder look writable; a folder that
+        cannot be written (or a full disk, where SQLite cannot create the WAL index)
+        falls back to read-only, then to ``immutable`` when there is no write-ahead
+        log whose events it would miss.
+        """
+        wal = Path(f"{path}-wal")
+        pending = wal.exists() and wal.stat().st_size > 0
+        modes = ["rw"] if os.access(path, os.W_OK) and os.access(path.parent, os.W_OK) else []
+        modes += ["ro"] if pending else ["ro", "ro&immutable=1"]
+        failure = ""
+        for mode in modes:
+            try:
+                conn = cls._connect(path, mode)
+            except sqlite3.Error as exc:
+                failure = str(exc)
+                continue
+            try:
+                return conn, dict(conn.execute("SELECT key, value FROM meta").fetchall()), mode
+            except sqlite3.DatabaseError as exc:
+                conn.close()
+                if not isinstance(exc, sqlite3.OperationalError) or "no such table" in str(exc):
+                    raise NotAnEventFileError(f"{path}: not an event file (no event log inside)") from None
+                failure = str(exc)  # cannot open, read-only, I/O: the next mode may still read it
+        if pending:
+            return cls._open_copy(path)
+        raise NotAnEventFileError(f"{path}: cannot read ({failure})")
+
+    @classmethod
+    def _open_copy(cls, path: Path) -> tuple[sqlite3.Connection, dict[str, str], str]:
+        """Read a file whose write-ahead log cannot be used where it lies from a private copy of both.
+
+        SQLite needs the WAL index (``-shm``) beside the log to read it; on a read-only
+        medium without one, a copy in a temporary folder is the only way to see every event.
+        """
+        scratch = Path(tempfile.mkdtemp(prefix="pairings-read-"))
+        copy = scratch / path.name
+        try:
+            shutil.copyfile(path, copy)
+            shutil.copyfile(f"{path}-wal", f"{copy}-wal")
+            conn = cls._connect(copy, "ro")
+            meta = dict(conn.execute("SELECT key, value FROM meta").fetchall())
+        except (OSError, sqlite3.Error) as exc:
+            shutil.rmtree(scratch, ignore_errors=True)
+            raise NotAnEventFileError(f"{path}: cannot read, not even from a copy ({exc})") from None
+        return conn, meta, f"copy:{scratch}"
 
     def close(self) -> None:
         self._conn.close()
+        if self._scratch is not None:
+            shutil.rmtree(self._scratch, ignore_errors=True)
 
     # -- reading ---------------------------------------------------------------------------
 
@@ -230,6 +298,11 @@ class Recorder:
         """
         if not events:
             return expected
+        if self.read_only:
+            raise StoreError(
+                f"{self.path}: can only be read here (a read-only medium or folder, or a full disk); "
+                "nothing written; copy it to a writable folder to change it"
+            )
         conn = self._conn
         try:
             conn.execute("BEGIN IMMEDIATE")
