@@ -212,11 +212,9 @@ def _report(a: argparse.Namespace, kind: str) -> None:
     with _open(a.event) as store:
         out = render(store.state, kind, a.format, getattr(a, "round", None))
     if a.output:
-        data = out.encode("utf-8") if isinstance(out, str) else out
-        try:
-            Path(a.output).write_bytes(data)
-        except OSError as exc:
-            raise InputError(f"{a.output}: cannot write ({exc.strerror})") from None
+        from pairings.reports.files import write_file
+
+        write_file(Path(a.output), out)
         _say(f"wrote {a.output}")
     elif isinstance(out, bytes):
         raise InputError(f"{a.format} output is binary: give -o FILE")

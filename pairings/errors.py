@@ -45,6 +45,10 @@ class NoPairingError(InputError):
     """The engine cannot pair this field (too few players, bad pins, ...)."""
 
 
+class OutputError(InputError):
+    """A printout or web page could not be written (full disk, refused folder); the old file is kept."""
+
+
 class StoreError(PairingsError):
     """Problems with the event file itself."""
 

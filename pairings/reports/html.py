@@ -17,6 +17,7 @@ from jinja2 import Environment, FileSystemLoader, StrictUndefined
 
 from pairings.errors import InputError
 from pairings.reports.clean import PREVAIL, plain, show, stamp
+from pairings.reports.files import write_files
 from pairings.reports.sheets import Builder, Sheet, crosstable_sheet, name_sheet, pairing_sheet, standings_sheet
 from pairings.state import EventState, RoundState
 
@@ -66,7 +67,9 @@ def _or_message(state: EventState, build: Builder, title: str, now: datetime) ->
 def publish_web(state: EventState, directory: Path, now: datetime | None = None) -> list[Path]:
     """Write index, pairings (boards and the by-name list), standings and crosstable pages.
 
-    Only published and complete rounds appear. Returns the files written, in order.
+    Only published and complete rounds appear. Every page is written beside its
+    target first and renamed into place (:mod:`.files`), so a failure (a full disk)
+    leaves the pages that were there whole. Returns the files written, in order.
     """
     moment = now or datetime.now().astimezone()
     public = _published(state)
@@ -80,21 +83,14 @@ def publish_web(state: EventState, directory: Path, now: datetime | None = None)
         "standings.html": _or_message(public, standings_sheet, "Standings", moment),
         "crosstable.html": _or_message(public, crosstable_sheet, "Crosstable", moment),
     }
-    written: list[Path] = []
-
-    def write(name: str, text: str) -> None:
-        path = directory / name
-        path.write_text(text, encoding="utf-8")
-        written.append(path)
-
     last = public.rounds[-1].number if public.rounds else 0
     summary = f"Round {last} of {state.settings.rounds}" if last else f"{state.settings.rounds} rounds, none published yet"
     index = _ENV.get_template("index.html").render(
         event=plain(state.settings.name), summary=summary, printed=stamp(moment), prevail=PREVAIL,
-        pages=[(href, label, f"{pages[href].title} — {pages[href].round_label}") for href, label in NAV[1:]],
+        pages=[(href, label, pages[href].round_label) for href, label in NAV[1:]],
     )
-    write("index.html", index)
-    for name, sheet in pages.items():
-        write(name, _page(sheet, nav=NAV, css_href="style.css"))
-    write("style.css", stylesheet())
-    return written
+    files = [(directory / "index.html", index)]
+    files += [(directory / name, _page(sheet, nav=NAV, css_href="style.css")) for name, sheet in pages.items()]
+    files.append((directory / "style.css", stylesheet()))
+    write_files(files)
+    return [path for path, _ in files]

@@ -94,9 +94,9 @@ def run(state: EventState, job: Job) -> Outcome:
 def write_report(state: EventState, kind: str, fmt: str, number: int | None, path: str) -> None:
     """Render a printout (pairings.reports) and write it to ``path``."""
     from pairings.reports import render
+    from pairings.reports.files import write_file
 
-    out = render(state, kind, fmt, number)
-    Path(path).write_bytes(out.encode("utf-8") if isinstance(out, str) else out)
+    write_file(Path(path), render(state, kind, fmt, number))
 
 
 def state_at(path: Path, head: int) -> EventState:

@@ -14,9 +14,6 @@ from __future__ import annotations
 import os
 import shlex
 import shutil
-import subprocess
-import sys
-from functools import cache
 from pathlib import Path
 
 import pytest
@@ -28,40 +25,7 @@ from pairings.store import recorder as recorder_module
 
 from .conftest import snapshot
 from .fuzzkit import base_events
-
-ROOT = Path(__file__).parents[2]
-
-
-@cache
-def _namespaces() -> bool:
-    if not shutil.which("unshare") or not shutil.which("mount"):
-        return False
-    probe = subprocess.run(["unshare", "-m", "sh", "-c", "mount -t tmpfs tmpfs /mnt"], capture_output=True, timeout=30)
-    return probe.returncode == 0
-
-
-needs_mounts = pytest.mark.skipif("not _namespaces()", reason="no mount namespace here (unshare -m)")
-
-
-def _in_namespace(setup: str, commands: list[list[str]]) -> list[subprocess.CompletedProcess[str]]:
-    """Run ``setup`` (mounts) and then each pairings command inside one private mount namespace."""
-    script = [setup]
-    for n, command in enumerate(commands):
-        args = " ".join(shlex.quote(a) for a in command)
-        script.append(f'rc=0; {shlex.quote(sys.executable)} -m pairings {args} >"$OUT/{n}.out" 2>"$OUT/{n}.err" '
-                      f'|| rc=$?; echo $rc >"$OUT/{n}.rc"')
-    out = Path(os.environ.get("TMPDIR", "/tmp")) / f"pairings-ns-{os.getpid()}"
-    shutil.rmtree(out, ignore_errors=True)
-    out.mkdir()
-    try:
-        env = dict(os.environ, PYTHONPATH=str(ROOT), OUT=str(out))
-        proc = subprocess.run(["unshare", "-m", "sh", "-ec", "\n".join(script)], env=env, capture_output=True,
-                              text=True, timeout=120)
-        assert proc.returncode == 0, proc.stderr
-        return [subprocess.CompletedProcess(c, int((out / f"{n}.rc").read_text()), (out / f"{n}.out").read_text(),
-                                            (out / f"{n}.err").read_text()) for n, c in enumerate(commands)]
-    finally:
-        shutil.rmtree(out, ignore_errors=True)
+from .namespaces import in_namespace, needs_mounts
 
 
 def _event(folder: Path) -> Path:
@@ -77,7 +41,7 @@ def test_read_only_medium_reads_and_refuses_writes(tmp_path: Path) -> None:
     path = _event(tmp_path / "stick")
     before = snapshot(path)
     folder = shlex.quote(str(path.parent))
-    ran = _in_namespace(
+    ran = in_namespace(
         f"mount --bind {folder} {folder}; mount -o remount,bind,ro {folder}; ! touch {folder}/probe 2>/dev/null",
         [["standings", str(path)], ["log", str(path)], ["verify", str(path)], ["player", "list", str(path)],
          ["player", "add", str(path), "--name", "Late Entry"]],
@@ -104,7 +68,7 @@ def test_read_only_medium_with_an_unapplied_write_ahead_log(tmp_path: Path) -> N
             shutil.copyfile(f"{source}{suffix}", stick / f"club.pairings{suffix}")
     path = stick / "club.pairings"
     folder = shlex.quote(str(stick))
-    (log,) = _in_namespace(f"mount --bind {folder} {folder}; mount -o remount,bind,ro {folder}", [["log", str(path)]])
+    (log,) = in_namespace(f"mount --bind {folder} {folder}; mount -o remount,bind,ro {folder}", [["log", str(path)]])
     assert log.returncode == 0, log
     assert "Only In The Log" in log.stdout.splitlines()[-1]
 
@@ -117,7 +81,7 @@ def test_full_disk_still_reads(tmp_path: Path) -> None:
     inside = f"{disk}/club.pairings"
     setup = (f"mount -t tmpfs -o size=300k tmpfs {disk}; cp {shlex.quote(str(path))} {inside}; "
              f"dd if=/dev/zero of={disk}/filler bs=4k 2>/dev/null || true")
-    standings, add = _in_namespace(setup, [["standings", inside], ["player", "add", inside, "--name", "Late Entry"]])
+    standings, add = in_namespace(setup, [["standings", inside], ["player", "add", inside, "--name", "Late Entry"]])
     assert standings.returncode == 0 and "Dee Marsh" in standings.stdout, standings
     assert add.returncode == 2 and inside in add.stderr, add
     assert add.stderr.count("\n") == 1
@@ -143,3 +107,25 @@ def test_a_folder_given_as_the_event_file_says_so(tmp_path: Path, capsys: pytest
 
     assert main(["standings", str(tmp_path)]) == 2
     assert capsys.readouterr().err == f"pairings: {tmp_path}: is a folder, not an event file\n"
+
+
+@needs_mounts
+def test_printout_and_web_folder_on_a_really_full_disk(tmp_path: Path) -> None:
+    """The old PDF and the old web pages survive a write that meets a full disk."""
+    path = _event(tmp_path / "event")
+    disk = tmp_path / "full"
+    disk.mkdir()
+    d = shlex.quote(str(disk))
+    setup = (f"mount -t tmpfs -o size=400k tmpfs {d}; printf 'old pdf' >{d}/sheet.pdf; mkdir {d}/site; "
+             f"printf 'old index' >{d}/site/index.html; dd if=/dev/zero of={d}/filler bs=4k 2>/dev/null || true")
+    seen = tmp_path / "seen"  # outside the tmpfs, kept after the namespace is gone
+    seen.mkdir()
+    s = shlex.quote(str(seen))
+    after = f"cp {d}/sheet.pdf {d}/site/index.html {s}/; ls -A {d} {d}/site >{s}/listing"
+    pdf, web = in_namespace(setup, [["print", str(path), "standings", "--format", "pdf", "-o", f"{disk}/sheet.pdf"],
+                                    ["publish-web", str(path), f"{disk}/site"]], after)
+    assert pdf.returncode == 2 and pdf.stderr.startswith(f"pairings: {disk}/sheet.pdf: cannot write ("), pdf
+    assert web.returncode == 2 and f"{disk}/site/" in web.stderr and web.stderr.count("\n") == 1, web
+    assert "the file there is unchanged" in pdf.stderr
+    assert (seen / "sheet.pdf").read_text() == "old pdf" and (seen / "index.html").read_text() == "old index"
+    assert ".part" not in (seen / "listing").read_text()

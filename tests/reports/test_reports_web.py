@@ -61,3 +61,10 @@ def test_folder_of_an_event_without_rounds(tmp_path: Path, now: datetime) -> Non
     standings = " ".join(parse(tmp_path / "standings.html").text)
     assert "No standings yet" in standings and "Quiet Cup" in standings
     assert "none published yet" in (tmp_path / "index.html").read_text(encoding="utf-8")
+
+
+def test_index_names_each_page_once(hostile: Any, tmp_path: Path, now: datetime) -> None:
+    publish_web(hostile, tmp_path, now=now)
+    items = [" ".join(line.split()) for line in " ".join(parse(tmp_path / "index.html").text).split("\n")]
+    listed = [line for line in items if line.startswith(("Pairings", "Standings", "Crosstable"))]
+    assert listed == ["Pairings — Round 2", "Standings — After round 2", "Crosstable — After round 2"]
