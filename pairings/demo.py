@@ -1,10 +1,13 @@
 """The demo scenario: the Harrowgate Chess Circle's Winter Weekend Open (invented club, invented names).
 
-``events/winter-open.events.json`` holds the scenario as a list of our own
-events (three rounds played, round 4 published with some results in, an
-announced bye and a withdrawal). :func:`make_demo` copies it into a fresh event
-file; the data file itself is never modified. :func:`build_scenario` rebuilt it
-with this version's engine (``python -m pairings.demo --rebuild``).
+``pairings/scenario/winter-open.events.json`` holds the scenario as a list of our
+own events (three rounds played, round 4 published with some results in, an
+announced bye and a withdrawal). It is package data, so an installed wheel carries
+it; the checkout's ``events/`` folder keeps an identical copy where the project
+layout puts the demo data (tests/test_demo.py checks they match). :func:`make_demo`
+copies the scenario into a fresh event file; the data file itself is never
+modified. :func:`build_scenario` rebuilt both files with this version's engine
+(``python -m pairings.demo --rebuild``).
 """
 
 from __future__ import annotations
@@ -24,7 +27,9 @@ from pairings.fold import fold
 from pairings.state import ByeKind, EventState, Result
 from pairings.store import EventStore
 
-SCENARIO = Path(__file__).resolve().parent.parent / "events" / "winter-open.events.json"
+SCENARIO = Path(__file__).resolve().parent / "scenario" / "winter-open.events.json"
+LAYOUT_COPY = Path(__file__).resolve().parent.parent / "events" / SCENARIO.name
+"""The copy in the checkout's ``events/`` folder (absent from an installed package)."""
 
 # Invented given names and surnames, combined by a fixed rule: nobody real is meant.
 _GIVEN = (
@@ -103,8 +108,10 @@ def make_demo(path: Path | None = None) -> Path:
 
 def _write_scenario() -> None:
     data: list[Any] = [ev.dump_event(e) for e in build_scenario()]
-    SCENARIO.write_text(json.dumps(data, indent=1, ensure_ascii=False) + "\n", encoding="utf-8")
-    print(f"wrote {SCENARIO} ({len(data)} events)")
+    text = json.dumps(data, indent=1, ensure_ascii=False) + "\n"
+    for target in (SCENARIO, LAYOUT_COPY) if LAYOUT_COPY.parent.is_dir() else (SCENARIO,):
+        target.write_text(text, encoding="utf-8")
+        print(f"wrote {target} ({len(data)} events)")
 
 
 if __name__ == "__main__":

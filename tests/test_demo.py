@@ -5,9 +5,10 @@ from __future__ import annotations
 import hashlib
 import json
 from pathlib import Path
+from typing import Any
 
 from pairings import events as ev
-from pairings.demo import SCENARIO, build_scenario, make_demo
+from pairings.demo import LAYOUT_COPY, SCENARIO, build_scenario, make_demo
 from pairings.state import ByeKind, RoundState, Status
 from pairings.store import EventStore
 
@@ -35,3 +36,22 @@ def test_scenario_file_is_what_this_engine_drafts() -> None:
     stored = json.loads(SCENARIO.read_text(encoding="utf-8"))
     rebuilt = [ev.dump_event(e) for e in build_scenario()]
     assert rebuilt == stored
+
+
+def test_checkout_copy_in_events_matches_the_packaged_scenario() -> None:
+    """events/ keeps the project layout's copy; the package carries the one the demo reads."""
+    assert SCENARIO.is_relative_to(Path(__file__).parents[1] / "pairings")
+    assert LAYOUT_COPY.read_bytes() == SCENARIO.read_bytes()
+
+
+def test_rebuild_writes_the_packaged_scenario_and_the_checkout_copy(tmp_path: Path, monkeypatch: Any) -> None:
+    import pairings.demo as demo
+
+    (tmp_path / "pkg").mkdir()
+    (tmp_path / "events").mkdir()
+    monkeypatch.setattr(demo, "SCENARIO", tmp_path / "pkg" / "s.json")
+    monkeypatch.setattr(demo, "LAYOUT_COPY", tmp_path / "events" / "s.json")
+    monkeypatch.setattr(demo, "build_scenario", lambda: [ev.EventCreated(name="Tiny", rounds=1, seed=1)])
+    demo._write_scenario()
+    written = demo.SCENARIO.read_bytes()
+    assert json.loads(written)[0]["name"] == "Tiny" and demo.LAYOUT_COPY.read_bytes() == written
