@@ -30,6 +30,13 @@ class _Parser(argparse.ArgumentParser):
         raise InputError(f"{command}: {message}" if command else message)
 
 
+def _path(text: str) -> str:
+    """A path argument; a NUL byte (possible only in-process, never from a shell) is refused as bad input."""
+    if "\0" in text:
+        raise argparse.ArgumentTypeError("a path cannot contain a NUL byte")
+    return text
+
+
 def _open(path: str) -> EventStore:
     return EventStore.open(Path(path))
 
@@ -311,7 +318,7 @@ def build_parser() -> argparse.ArgumentParser:
     def add(name: str, fn: Callable[[argparse.Namespace], None], help_: str, event: bool = True) -> argparse.ArgumentParser:
         sp = sub.add_parser(name, help=help_, description=help_)
         if event:
-            sp.add_argument("event", metavar="EVENT", help="the event file")
+            sp.add_argument("event", metavar="EVENT", help="the event file", type=_path)
         sp.set_defaults(fn=fn)
         return sp
 
@@ -330,7 +337,7 @@ def build_parser() -> argparse.ArgumentParser:
 
     def padd(name: str, fn: Callable[[argparse.Namespace], None], help_: str) -> argparse.ArgumentParser:
         sp = psub.add_parser(name, help=help_, description=help_)
-        sp.add_argument("event", metavar="EVENT")
+        sp.add_argument("event", metavar="EVENT", type=_path)
         sp.set_defaults(fn=fn)
         return sp
 
@@ -345,7 +352,7 @@ def build_parser() -> argparse.ArgumentParser:
     sp.add_argument("--rating", type=int)
     sp.add_argument("--club")
     sp = padd("import", cmd_player_import, "register every player of a CSV roster (header row)")
-    sp.add_argument("roster", metavar="ROSTER.csv")
+    sp.add_argument("roster", metavar="ROSTER.csv", type=_path)
     sp = padd("list", cmd_player_list, "list the roster")
     sp.add_argument("--json", action="store_true")
     for name, kind, help_ in (
@@ -387,24 +394,24 @@ def build_parser() -> argparse.ArgumentParser:
     sp.add_argument("--correct", action="store_true", help="change a result already entered")
     sp = add("standings", cmd_standings, "the standings with the event's tiebreaks")
     sp.add_argument("--format", default="text", choices=("text", "csv", "json", "html", "pdf"))
-    sp.add_argument("-o", "--output", metavar="FILE")
+    sp.add_argument("-o", "--output", metavar="FILE", type=_path)
     sp = add("print", cmd_print, "a printout: pairings, names, slips, standings, crosstable")
     sp.add_argument("kind", choices=("pairings", "names", "slips", "standings", "crosstable"))
     sp.add_argument("--round", type=int)
     sp.add_argument("--format", default="text", choices=("text", "csv", "json", "html", "pdf"))
-    sp.add_argument("-o", "--output", metavar="FILE")
+    sp.add_argument("-o", "--output", metavar="FILE", type=_path)
     sp = add("publish-web", cmd_publish_web, "write static web pages (pairings, standings) to a folder")
-    sp.add_argument("directory", metavar="DIR")
+    sp.add_argument("directory", metavar="DIR", type=_path)
     add("export", cmd_export, "print the event as one JSON document")
     sp = add("restore", cmd_restore, "rebuild an event file from an exported JSON document", event=False)
-    sp.add_argument("file", metavar="FILE.json")
-    sp.add_argument("event", metavar="EVENT")
+    sp.add_argument("file", metavar="FILE.json", type=_path)
+    sp.add_argument("event", metavar="EVENT", type=_path)
     add("log", cmd_log, "the event's history")
     add("undo", cmd_undo, "take back the last action still in effect")
     add("verify", cmd_verify, "check the hash chain and every round against the pairing rules")
     add("open", cmd_open, "the full-screen desk on an event file")
     sp = add("demo", cmd_demo, "the full-screen desk on a fresh copy of the demo event", event=False)
-    sp.add_argument("--file", help="where to write the demo copy (default: a new temporary folder)")
+    sp.add_argument("--file", type=_path, help="where to write the demo copy (default: a new temporary folder)")
     sp.add_argument("--no-desk", action="store_true", help="print the demo's round instead of opening the desk")
     return p
 

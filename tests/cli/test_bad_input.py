@@ -112,3 +112,14 @@ def test_verify_reports_a_clean_event(event: Path, cli) -> None:  # type: ignore
     assert ran.code == 0, ran
     assert "hash chain: ok" in ran.out
     assert "Berge" in ran.out
+
+
+@pytest.mark.parametrize("args", [
+    ("log", "{nul}"), ("player", "import", "{event}", "{nul}"), ("restore", "{nul}", "{new}"),
+    ("restore", "{event}", "{nul}"), ("publish-web", "{event}", "{nul}"),
+    ("print", "{event}", "names", "-o", "{nul}"), ("demo", "--no-desk", "--file", "{nul}"),
+])
+def test_nul_byte_in_a_path(event: Path, tmp_path: Path, cli, args: tuple[str, ...]) -> None:  # type: ignore[no-untyped-def]
+    filled = [a.format(nul=f"{tmp_path}/bad\x00name", event=event, new=tmp_path / "new.pairings") for a in args]
+    refused(cli, event, *filled, says="a path cannot contain a NUL byte")
+    assert sorted(p.name for p in tmp_path.iterdir()) == ["club.pairings"]
