@@ -16,6 +16,7 @@ from pairings import events as ev
 from pairings.errors import AmbiguousPlayerError, InputError, RoundStateError, UnknownPlayerError
 from pairings.state import ByeKind, EventState, PlayerId, Result, Round, RoundState, Status, System
 from pairings.store import StoredEvent, undo_target
+from pairings.text import counted
 
 if TYPE_CHECKING:  # the engine (and networkx) load only for the commands that pair
     from pairings.engine import Draft, Overrides
@@ -208,7 +209,7 @@ def draft_next(state: EventState, overrides: Overrides | None = None) -> Draft:
     last = state.last_round
     if last is not None and last.state is RoundState.PUBLISHED:
         raise RoundStateError(
-            f"round {last.number} is not finished ({len(last.open_boards)} boards without a result)"
+            f"round {last.number} is not finished ({counted(len(last.open_boards), 'board')} without a result)"
         )
     if state.next_round_number > state.settings.rounds:
         raise RoundStateError(f"all {state.settings.rounds} rounds have been paired")

@@ -10,6 +10,7 @@ from __future__ import annotations
 
 import argparse
 import json
+import os
 import sys
 from pathlib import Path
 from typing import Any, Callable, NoReturn, Sequence
@@ -19,7 +20,7 @@ from pairings.errors import InputError, PairingsError
 from pairings.events import Undone
 from pairings.state import ByeKind, EventState
 from pairings.store import EventStore
-from pairings.text import one_line, plain
+from pairings.text import counted, one_line, plain
 
 PREVAIL = "The event's regulations and the chief arbiter's decision prevail over this tool."
 
@@ -92,7 +93,7 @@ def cmd_player_import(a: argparse.Namespace) -> None:
         raise InputError(f"{a.roster}: cannot read ({exc.strerror})") from None
     text = decode(data)
     state = _run(a.event, lambda s: import_roster(s, text))
-    _say(f"imported; {len(state.players)} players registered")
+    _say(f"imported; {counted(len(state.players), 'player')} registered")
 
 
 def _bye_command(kind: ByeKind | None) -> Callable[[argparse.Namespace], None]:
@@ -202,7 +203,7 @@ def cmd_result(a: argparse.Namespace) -> None:
     state = _run(a.event, lambda s: actions.record_result(s, a.board, result, a.round, a.correct))
     rnd = actions.results_round(state, a.round)
     left = len(rnd.open_boards)
-    _say(f"round {rnd.number} board {a.board}: {code}; " + (f"{left} boards open" if left else "round complete"))
+    _say(f"round {rnd.number} board {a.board}: {code}; " + (f"{counted(left, 'board')} open" if left else "round complete"))
 
 
 def cmd_standings(a: argparse.Namespace) -> None:
@@ -234,7 +235,7 @@ def cmd_publish_web(a: argparse.Namespace) -> None:
 
     with _open(a.event) as store:
         written = publish_web(store.state, Path(a.directory))
-    _say(f"wrote {len(written)} files to {a.directory}")
+    _say(f"wrote {counted(len(written), 'file')} to {a.directory}")
 
 
 def cmd_export(a: argparse.Namespace) -> None:
@@ -393,6 +394,7 @@ def build_parser() -> argparse.ArgumentParser:
     sp.add_argument("--round", type=int)
     sp.add_argument("--correct", action="store_true", help="change a result already entered")
     sp = add("standings", cmd_standings, "the standings with the event's tiebreaks")
+    sp.add_argument("--round", type=int, help="the standings after this round (default: the last published one)")
     sp.add_argument("--format", default="text", choices=("text", "csv", "json", "html", "pdf"))
     sp.add_argument("-o", "--output", metavar="FILE", type=_path)
     sp = add("print", cmd_print, "a printout: pairings, names, slips, standings, crosstable")
@@ -430,10 +432,27 @@ def _protect_result_codes(argv: list[str]) -> list[str]:
     return [argv[0]] + [_CODE_MARK + a if a in ("-+", "--") else a for a in argv[1:]]
 
 
+def _reader_gone() -> int:
+    """The program reading our output stopped (``| head``): end quietly, as Unix tools do.
+
+    Further output goes nowhere, and the status is 128 + SIGPIPE, the one a shell
+    reports for a tool that the signal ended (common practice, no source).
+    """
+    try:
+        devnull = os.open(os.devnull, os.O_WRONLY)
+        os.dup2(devnull, sys.stdout.fileno())
+    except (OSError, ValueError):  # a stdout without a descriptor (in-process capture)
+        pass
+    return 128 + 13  # SIGPIPE is 13 on every POSIX system; the signal module lacks it on Windows
+
+
 def main(argv: Sequence[str] | None = None) -> int:
     try:
         args = build_parser().parse_args(_protect_result_codes(list(sys.argv[1:] if argv is None else argv)))
         args.fn(args)
+        sys.stdout.flush()  # here, so that a reader gone away (`| head`) is seen below, not at exit
+    except BrokenPipeError:
+        return _reader_gone()
     except PairingsError as exc:
         print(f"pairings: {one_line(str(exc))}", file=sys.stderr)
         return 2

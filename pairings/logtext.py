@@ -5,7 +5,7 @@ from __future__ import annotations
 from functools import singledispatch
 
 from pairings import events as ev
-from pairings.text import plain
+from pairings.text import counted, plain
 
 
 def describe(event: ev.Event) -> str:
@@ -77,7 +77,7 @@ def _(e: ev.PairForbidden) -> str:
 def _(e: ev.RoundDrafted) -> str:
     what = {"engine": "drafted", "override": "changed by the organiser", "restored": "restored"}[e.source]
     why = f": {e.reason}" if e.reason else ""
-    return f"round {e.round} {what} ({len(e.boards)} boards, {len(e.byes)} byes){why}"
+    return f"round {e.round} {what} ({counted(len(e.boards), 'board')}, {counted(len(e.byes), 'bye')}){why}"
 
 
 @_line.register

@@ -33,3 +33,8 @@ def plain(text: str) -> str:
 def one_line(text: str) -> str:
     """An error message as exactly one printable line (control characters shown escaped)."""
     return "".join(c if c.isprintable() else repr(c)[1:-1] for c in text.replace("\n", " ").replace("\r", " "))
+
+
+def counted(n: int, word: str, plural: str | None = None) -> str:
+    """``n`` and the noun agreeing with it: ``1 bye``, ``2 byes``, ``0 boards``, ``1 match``/``2 matches``."""
+    return f"{n} {word if n == 1 else plural or word + 's'}"
