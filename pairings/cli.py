@@ -20,7 +20,7 @@ from pairings.errors import InputError, PairingsError
 from pairings.events import Undone
 from pairings.state import ByeKind, EventState
 from pairings.store import EventStore
-from pairings.text import counted, one_line, plain
+from pairings.text import cells, counted, fit, one_line, plain
 
 PREVAIL = "The event's regulations and the chief arbiter's decision prevail over this tool."
 
@@ -128,8 +128,8 @@ def cmd_player_list(a: argparse.Namespace) -> None:
         return
     for p in s.players.values():
         rating = str(p.rating) if p.rating is not None else "-"
-        name, club = plain(p.name)[:40], plain(p.club or "")[:20]
-        _say(f"{plain(p.id):>6}  {name:<40} {rating:>5}  {club:<20} {s.score(p.id):>4g}  {p.status.value}")
+        name, club = fit(plain(p.name), 40), fit(plain(p.club or ""), 20)
+        _say(f"{plain(p.id):>6}  {_pad(name, 40)} {rating:>5}  {_pad(club, 20)} {s.score(p.id):>4g}  {p.status.value}")
 
 
 def _draft_json(state: EventState, rnd_number: int) -> dict[str, Any]:
@@ -144,6 +144,11 @@ def _draft_json(state: EventState, rnd_number: int) -> dict[str, Any]:
     return doc  # type: ignore[no-any-return]
 
 
+def _pad(text: str, width: int) -> str:
+    """``text`` padded to ``width`` terminal cells (a wide character takes two)."""
+    return text + " " * max(0, width - cells(text))
+
+
 def print_round(state: EventState, number: int) -> None:
     rnd = state.rounds[number - 1]
     sides = state.settings.sides or ("", "")
@@ -154,8 +159,8 @@ def print_round(state: EventState, number: int) -> None:
         res = g.result.value if g.result else ""
         flags = " ".join(g.flags)
         _say(
-            f"{g.board:>4}  {first[:28]:<28} {before[g.first]:>4g}  -  "
-            f"{second[:28]:<28} {before[g.second]:>4g}  {res:<7} {flags}"
+            f"{g.board:>4}  {_pad(fit(first, 28), 28)} {before[g.first]:>4g}  -  "
+            f"{_pad(fit(second, 28), 28)} {before[g.second]:>4g}  {res:<7} {flags}"
         )
     for y in rnd.byes:
         _say(f"  bye  {plain(state.players[y.player].name)} ({y.kind.value}, {y.points:g})")

@@ -2,9 +2,11 @@
 
 Every page repeats the event, the sheet, the round and the printing time at the
 top and the line that the regulations prevail at the bottom. Tables wrap long
-names inside their column; result slips come eight to an A4 page, to cut along
-the dashed lines. The creation date is the printing time, so the same state and
-time give the same file.
+names inside their column at spaces and after hyphens, inside a word only when
+the word alone is wider than the column (:func:`pairings.text.wrap`, measured in
+the font); result slips come eight to an A4 page, to cut along the dashed lines.
+The creation date is the printing time, so the same state and time give the same
+file.
 """
 
 from __future__ import annotations
@@ -21,11 +23,13 @@ from fontTools.ttLib import TTFont  # type: ignore[import-untyped]
 
 from pairings.reports.clean import PREVAIL, plain, show
 from pairings.reports.sheets import Sheet, Table
+from pairings.text import fit, wrap
 
 _FONTS = Path(__file__).parent / "fonts"
 _FAMILY = "DejaVu"
 _WEIGHT = {"name": 5.0, "points": 1.5, "number": 1.1, "rank": 1.4, "result": 2.2, "text": 2.0}
 _ALIGN = {"points": "RIGHT", "number": "RIGHT", "rank": "RIGHT"}
+_PADDING = 0.8
 _SLIP_NAME = 80
 """Characters of a name kept on a result slip; longer names end in an ellipsis."""
 
@@ -66,7 +70,8 @@ class _Document(FPDF):
     def header(self) -> None:
         s = self.sheet
         self.set_font(_FAMILY, "B", 12)
-        self.multi_cell(0, 6, printable(s.event), new_x=XPos.LMARGIN, new_y=YPos.NEXT, wrapmode=WrapMode.CHAR)
+        self.multi_cell(0, 6, "\n".join(wrap(printable(s.event), self.epw - 1, self.get_string_width)),
+                        new_x=XPos.LMARGIN, new_y=YPos.NEXT)
         self.set_font(_FAMILY, "", 9)
         self.cell(0, 5, printable(f"{s.title} — {s.round_label} · printed {s.printed}"), new_x=XPos.LMARGIN, new_y=YPos.NEXT)
         self.ln(2)
@@ -86,22 +91,24 @@ def _table(pdf: _Document, table: Table, size: float) -> None:
     pdf.set_font(_FAMILY, "B", size + 1)
     pdf.cell(0, 6, table.caption, new_x=XPos.LMARGIN, new_y=YPos.NEXT)
     pdf.set_font(_FAMILY, "", size)
+    # The text width of each column: its share of the page less the padding and a margin for the rules.
+    room = [pdf.epw * w / sum(widths) - 2 * _PADDING - 1.0 for w in widths]
     with pdf.table(col_widths=widths, text_align=[_ALIGN.get(k, "LEFT") for k in kinds],
-                   wrapmode=WrapMode.CHAR, line_height=size * 0.5, width=pdf.epw, repeat_headings=1,
-                   headings_style=FontFace(family=_FAMILY, emphasis="BOLD"), padding=0.8) as grid:
+                   wrapmode=WrapMode.WORD, line_height=size * 0.5, width=pdf.epw, repeat_headings=1,
+                   headings_style=FontFace(family=_FAMILY, emphasis="BOLD"), padding=_PADDING) as grid:
         head = grid.row()
         for i in shown:
             head.cell(printable(table.columns[i].label))
         for values in table.rows:
             row = grid.row()
-            for i in shown:
-                row.cell(printable(show(values[i], table.columns[i].kind)))
+            for n, i in enumerate(shown):
+                text = printable(show(values[i], table.columns[i].kind))
+                row.cell("\n".join(wrap(text, room[n], pdf.get_string_width)) if kinds[n] == "name" else text)
     pdf.ln(4)
 
 
 def _slip_name(name: object) -> str:
-    text = printable(show(name, "name"))
-    return text if len(text) <= _SLIP_NAME else text[: _SLIP_NAME - 1] + "…"
+    return fit(printable(show(name, "name")), _SLIP_NAME, len)
 
 
 def _slips(pdf: _Document) -> None:
@@ -121,12 +128,12 @@ def _slips(pdf: _Document) -> None:
         pdf.set_font(_FAMILY, "B", 10)
         pdf.cell(w - 6, 5, f"Board {row[0]} · Round {sheet.round_number}", new_x=XPos.LEFT, new_y=YPos.NEXT)
         pdf.set_font(_FAMILY, "", 7.5)
-        pdf.multi_cell(w - 6, 3.5, printable(sheet.event)[:120], new_x=XPos.LEFT, new_y=YPos.NEXT,
-                       wrapmode=WrapMode.CHAR)
+        event = wrap(fit(printable(sheet.event), 120, len), w - 7, pdf.get_string_width)
+        pdf.multi_cell(w - 6, 3.5, "\n".join(event), new_x=XPos.LEFT, new_y=YPos.NEXT)
         pdf.set_font(_FAMILY, "", 9)
         for label, name in ((first, row[2]), (second, row[4])):
-            pdf.multi_cell(w - 6, 4.5, f"{label}: {_slip_name(name)}", new_x=XPos.LEFT, new_y=YPos.NEXT,
-                           wrapmode=WrapMode.CHAR)
+            lines = wrap(f"{label}: {_slip_name(name)}", w - 7, pdf.get_string_width)
+            pdf.multi_cell(w - 6, 4.5, "\n".join(lines), new_x=XPos.LEFT, new_y=YPos.NEXT)
         pdf.set_xy(x + 3, y + h - 17)
         pdf.cell(w - 6, 5, "Result:   ☐ 1-0     ☐ ½-½     ☐ 0-1", new_x=XPos.LEFT, new_y=YPos.NEXT)
         pdf.set_font(_FAMILY, "", 7.5)
@@ -143,7 +150,8 @@ def render_pdf(sheet: Sheet, now: datetime) -> bytes:
     pdf.add_page()
     pdf.set_font(_FAMILY, "", 8.5)
     for note in sheet.notes:
-        pdf.multi_cell(0, 4, printable(note), new_x=XPos.LMARGIN, new_y=YPos.NEXT, wrapmode=WrapMode.CHAR)
+        pdf.multi_cell(0, 4, "\n".join(wrap(printable(note), pdf.epw - 1, pdf.get_string_width)),
+                       new_x=XPos.LMARGIN, new_y=YPos.NEXT)
     pdf.ln(2)
     if sheet.kind == "slips":
         _slips(pdf)

@@ -1,7 +1,9 @@
 """Terminal text of a sheet, laid out with rich and returned as a plain string.
 
 Names reach rich as :class:`rich.text.Text` (never as markup), already stripped
-of control characters and escape sequences, and fold inside a bounded column.
+of control characters and escape sequences, and wrapped in a bounded column by
+:func:`pairings.text.wrap` (at spaces and after hyphens; inside a word only when
+the word alone is wider than the column), the same rule as the PDF.
 """
 
 from __future__ import annotations
@@ -11,12 +13,19 @@ import io
 from rich import box
 from rich.console import Console
 from rich.table import Table as RichTable
+from rich.cells import cell_len
 from rich.text import Text
 
 from pairings.reports.clean import PREVAIL, plain, show
 from pairings.reports.sheets import Sheet, Table
+from pairings.text import wrap
 
 NAME_WIDTH = 32
+
+
+def _cell(value: object, kind: str) -> str:
+    text = show(value, kind)
+    return "\n".join(wrap(text, NAME_WIDTH, cell_len)) if kind == "name" else text
 
 
 def _table(table: Table) -> RichTable:
@@ -25,14 +34,14 @@ def _table(table: Table) -> RichTable:
     for i in shown:
         col = table.columns[i]
         right = col.kind in ("number", "points", "rank")
-        if col.kind == "name":
-            out.add_column(Text(plain(col.label)), max_width=NAME_WIDTH, overflow="fold")
+        if col.kind == "name":  # wrapped by us (pairings.text.wrap), the same rule as the PDF
+            out.add_column(Text(plain(col.label)), no_wrap=True)
         elif col.kind == "result":
             out.add_column(Text(plain(col.label)), min_width=9)
         else:
             out.add_column(Text(plain(col.label)), justify="right" if right else "left", no_wrap=True)
     for row in table.rows:
-        out.add_row(*(Text(show(row[i], table.columns[i].kind)) for i in shown))
+        out.add_row(*(Text(_cell(row[i], table.columns[i].kind)) for i in shown))
     return out
 
 
