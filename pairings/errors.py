@@ -53,6 +53,10 @@ class StoreError(PairingsError):
     """Problems with the event file itself."""
 
 
+class ReadOnlyError(StoreError, InputError):
+    """The event file could only be opened for reading (a read-only medium or folder, a full disk)."""
+
+
 class NotAnEventFileError(StoreError, InputError):
     """The file is missing, not SQLite, or not one of our event files."""
 

@@ -34,7 +34,9 @@ from datetime import datetime, timezone
 from pathlib import Path
 from typing import Callable, Iterator, Sequence
 
-from pairings.errors import ChainBrokenError, ConflictError, NewerSchemaError, NotAnEventFileError, StoreError
+from pairings.errors import (
+    ChainBrokenError, ConflictError, NewerSchemaError, NotAnEventFileError, ReadOnlyError, StoreError,
+)
 from pairings.events import SCHEMA_VERSION, Event, dump_event, parse_event
 
 FORMAT = "pairings-event-log"
@@ -299,7 +301,7 @@ class Recorder:
         if not events:
             return expected
         if self.read_only:
-            raise StoreError(
+            raise ReadOnlyError(
                 f"{self.path}: can only be read here (a read-only medium or folder, or a full disk); "
                 "nothing written; copy it to a writable folder to change it"
             )

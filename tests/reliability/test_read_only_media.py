@@ -19,7 +19,7 @@ from pathlib import Path
 import pytest
 
 from pairings import events as ev
-from pairings.errors import StoreError
+from pairings.errors import InputError, ReadOnlyError
 from pairings.store import EventStore
 from pairings.store import recorder as recorder_module
 
@@ -96,8 +96,9 @@ def test_folder_that_cannot_be_written_opens_read_only(tmp_path: Path, monkeypat
     with EventStore.open(path) as store:
         assert store._recorder.read_only
         assert len(store.state.players) == 4 and store.check_chain().ok
-        with pytest.raises(StoreError, match="can only be read here"):
+        with pytest.raises(ReadOnlyError, match="can only be read here") as refused:
             store.append([ev.PlayerRegistered(id="p5", name="Late Entry")])
+        assert isinstance(refused.value, InputError)  # the desk shows it as a notice, like any refusal
     data, wal = snapshot(path)
     assert data == before[0] and not wal  # nothing written (SQLite may leave an empty -wal beside it)
 
@@ -129,3 +130,35 @@ def test_printout_and_web_folder_on_a_really_full_disk(tmp_path: Path) -> None:
     assert "the file there is unchanged" in pdf.stderr
     assert (seen / "sheet.pdf").read_text() == "old pdf" and (seen / "index.html").read_text() == "old index"
     assert ".part" not in (seen / "listing").read_text()
+
+
+def test_desk_on_a_read_only_file_refuses_a_change_with_a_notice(tmp_path: Path,
+                                                                 monkeypatch: pytest.MonkeyPatch) -> None:
+    """The desk opens a file it can only read, and a change is refused with the reason, not a crash."""
+    import asyncio
+
+    from pairings import actions
+    from pairings.tui.app import DeskApp
+
+    path = _event(tmp_path / "backup")
+    before = snapshot(path)[0]
+    real = os.access
+    monkeypatch.setattr(recorder_module.os, "access", lambda p, mode: False if mode & os.W_OK else real(p, mode))
+    notices: list[str] = []
+
+    async def drive() -> bool:
+        with EventStore.open(path) as store:
+            app = DeskApp(store, poll_seconds=3600)
+            app.notify = lambda message, **kw: notices.append(str(message))  # type: ignore[method-assign]
+            try:
+                async with app.run_test(size=(100, 32)) as pilot:
+                    await pilot.pause()
+                    return app.apply(lambda s: actions.add_player(s, "Late Entry", 1500, None), "added",
+                                     store.state.head)
+            finally:
+                app.offload.close()
+
+    assert asyncio.run(drive()) is False
+    assert any("can only be read here" in n for n in notices), notices
+    data, wal = snapshot(path)
+    assert data == before and not wal
