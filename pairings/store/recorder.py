@@ -88,6 +88,10 @@ class ChainReport:
         return self.broken_at is None
 
 
+_CANNOT_WRITE_HERE = {3, 8, 10, 13, 14}
+"""SQLite's primary result codes PERM, READONLY, IOERR, FULL and CANTOPEN: the file may still be read another way."""
+
+
 def _utc_now() -> str:
     return datetime.now(timezone.utc).isoformat(timespec="microseconds")
 
@@ -157,7 +161,7 @@ class Recorder:
         with open(path, "rb") as fh:
             if fh.read(16) != b"SQLite format 3\x00":
                 raise NotAnEventFileError(f"{path}: not an event file (not an SQLite database)")
-        conn, meta, mode = cls._open_readable(path)
+        conn, meta, mode, scratch = cls._open_readable(path)
         if meta.get("format") != FORMAT:
             conn.close()
             raise NotAnEventFileError(f"{path}: not an event file (format {meta.get('format')!r})")
@@ -173,17 +177,17 @@ class Recorder:
                 f"{SCHEMA_VERSION}); upgrade pairings to open it"
             )
         recorder = cls(path, conn, read_only=mode != "rw")
-        recorder._scratch = Path(mode.removeprefix("copy:")) if mode.startswith("copy:") else None
+        recorder._scratch = scratch
         return recorder
 
     @classmethod
-    def _open_readable(cls, path: Path) -> tuple[sqlite3.Connection, dict[str, str], str]:
-        """A connection that can read the file, its meta table and the mode that worked.
+    def _open_readable(cls, path: Path) -> tuple[sqlite3.Connection, dict[str, str], str, Path | None]:
+        """A connection that can read the file, its meta table, the mode that worked and the private copy if any.
 
         Read-write first where the file and its folder look writable; a folder that
         cannot be written (or a full disk, where SQLite cannot create the WAL index)
         falls back to read-only, then to ``immutable`` when there is no write-ahead
-        log whose events it would miss.
+        log whose events it would miss, then to a private copy (:meth:`_open_copy`).
         """
         wal = Path(f"{path}-wal")
         pending = wal.exists() and wal.stat().st_size > 0
@@ -191,24 +195,25 @@ class Recorder:
         modes += ["ro"] if pending else ["ro", "ro&immutable=1"]
         failure = ""
         for mode in modes:
+            conn: sqlite3.Connection | None = None
             try:
                 conn = cls._connect(path, mode)
-            except sqlite3.Error as exc:
-                failure = str(exc)
-                continue
-            try:
-                return conn, dict(conn.execute("SELECT key, value FROM meta").fetchall()), mode
+                return conn, dict(conn.execute("SELECT key, value FROM meta").fetchall()), mode, None
             except sqlite3.DatabaseError as exc:
-                conn.close()
-                if not isinstance(exc, sqlite3.OperationalError) or "no such table" in str(exc):
-                    raise NotAnEventFileError(f"{path}: not an event file (no event log inside)") from None
-                failure = str(exc)  # cannot open, read-only, I/O: the next mode may still read it
+                if conn is not None:
+                    conn.close()
+                if (exc.sqlite_errorcode & 0xFF) not in _CANNOT_WRITE_HERE:
+                    if "no such table" in str(exc) or not isinstance(exc, sqlite3.OperationalError):
+                        raise NotAnEventFileError(f"{path}: not an event file (no event log inside)") from None
+                    raise NotAnEventFileError(f"{path}: cannot read ({exc})") from None
+                failure = str(exc)
         if pending:
-            return cls._open_copy(path)
+            conn, meta, scratch = cls._open_copy(path)
+            return conn, meta, "ro", scratch
         raise NotAnEventFileError(f"{path}: cannot read ({failure})")
 
     @classmethod
-    def _open_copy(cls, path: Path) -> tuple[sqlite3.Connection, dict[str, str], str]:
+    def _open_copy(cls, path: Path) -> tuple[sqlite3.Connection, dict[str, str], Path]:
         """Read a file whose write-ahead log cannot be used where it lies from a private copy of both.
 
         SQLite needs the WAL index (``-shm``) beside the log to read it; on a read-only
@@ -224,7 +229,7 @@ class Recorder:
         except (OSError, sqlite3.Error) as exc:
             shutil.rmtree(scratch, ignore_errors=True)
             raise NotAnEventFileError(f"{path}: cannot read, not even from a copy ({exc})") from None
-        return conn, meta, f"copy:{scratch}"
+        return conn, meta, scratch
 
     def close(self) -> None:
         self._conn.close()
