@@ -135,7 +135,7 @@ def _future_round(state: EventState, round_number: int | None) -> int:
     if number < first_open:
         raise RoundStateError(f"round {number} is already published; the earliest round to change is {first_open}")
     if number > state.settings.rounds:
-        raise InputError(f"round {number} does not exist (the event has {state.settings.rounds} rounds)")
+        raise InputError(f"round {number} does not exist (the event has {counted(state.settings.rounds, 'round')})")
     return number
 
 

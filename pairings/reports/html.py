@@ -20,6 +20,7 @@ from pairings.reports.clean import PREVAIL, plain, show, stamp
 from pairings.reports.files import write_files
 from pairings.reports.sheets import Builder, Sheet, crosstable_sheet, name_sheet, pairing_sheet, standings_sheet
 from pairings.state import EventState, RoundState
+from pairings.text import counted
 
 _TEMPLATES = Path(__file__).parent / "templates"
 _ENV = Environment(loader=FileSystemLoader(_TEMPLATES), autoescape=True, undefined=StrictUndefined,
@@ -84,7 +85,7 @@ def publish_web(state: EventState, directory: Path, now: datetime | None = None)
         "crosstable.html": _or_message(public, crosstable_sheet, "Crosstable", moment),
     }
     last = public.rounds[-1].number if public.rounds else 0
-    summary = f"Round {last} of {state.settings.rounds}" if last else f"{state.settings.rounds} rounds, none published yet"
+    summary = f"Round {last} of {state.settings.rounds}" if last else f"{counted(state.settings.rounds, 'round')}, none published yet"
     index = _ENV.get_template("index.html").render(
         event=plain(state.settings.name), summary=summary, printed=stamp(moment), prevail=PREVAIL,
         pages=[(href, label, pages[href].round_label) for href, label in NAV[1:]],

@@ -68,3 +68,9 @@ def test_index_names_each_page_once(hostile: Any, tmp_path: Path, now: datetime)
     items = [" ".join(line.split()) for line in " ".join(parse(tmp_path / "index.html").text).split("\n")]
     listed = [line for line in items if line.startswith(("Pairings", "Standings", "Crosstable"))]
     assert listed == ["Pairings — Round 2", "Standings — After round 2", "Crosstable — After round 2"]
+
+
+def test_index_of_a_one_round_event_says_one_round(tmp_path: Path, now: datetime) -> None:
+    state = fold(enumerate([ev.EventCreated(name="Lightning Final", rounds=1, seed=1)], 1))
+    publish_web(state, tmp_path, now=now)
+    assert "1 round, none published yet" in " ".join(parse(tmp_path / "index.html").text)
