@@ -13,7 +13,7 @@ from pydantic import BaseModel, ConfigDict, Field, TypeAdapter
 
 from pairings.state import Acceleration, ByeKind, Result, System, Unplayed
 
-SCHEMA_VERSION = 2
+SCHEMA_VERSION = 3
 
 
 class _Event(BaseModel):
@@ -170,6 +170,8 @@ class DraftDiscarded(_Event):
 class RoundPublished(_Event):
     type: Literal["round-published"] = "round-published"
     round: int = Field(ge=1)
+    accepted: str = ""
+    """The organiser's reason for publishing a draft that breaks a hard rule (empty: it breaks none)."""
 
 
 class RoundUnpublished(_Event):
@@ -184,6 +186,27 @@ class ResultRecorded(_Event):
     board: int = Field(ge=1)
     result: Result | None
     """None clears a result."""
+
+
+class ResultCorrected(_Event):
+    """A result changed after later rounds were paired on it (C.04.2, from memory: the correction
+    counts from now on and changes no pairing already made); ``reason`` goes into the log."""
+
+    type: Literal["result-corrected"] = "result-corrected"
+    round: int = Field(ge=1)
+    board: int = Field(ge=1)
+    result: Result
+    reason: str
+    paired_rounds: tuple[int, ...] = ()
+    """The later rounds already drafted or published on the old result (for the log line)."""
+
+
+class NoShowKept(_Event):
+    """The organiser keeps a player in the event after a double forfeit (no-show) in ``round``."""
+
+    type: Literal["no-show-kept"] = "no-show-kept"
+    player: str
+    round: int = Field(ge=1)
 
 
 class Undone(_Event):
@@ -210,6 +233,8 @@ Event = Annotated[
         RoundPublished,
         RoundUnpublished,
         ResultRecorded,
+        ResultCorrected,
+        NoShowKept,
         Undone,
     ],
     Field(discriminator="type"),

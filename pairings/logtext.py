@@ -88,7 +88,8 @@ def _(e: ev.DraftDiscarded) -> str:
 
 @_line.register
 def _(e: ev.RoundPublished) -> str:
-    return f"round {e.round} published"
+    accepted = f", hard-rule breach accepted: {e.accepted}" if e.accepted else ""
+    return f"round {e.round} published{accepted}"
 
 
 @_line.register
@@ -101,6 +102,18 @@ def _(e: ev.ResultRecorded) -> str:
     if e.result is None:
         return f"round {e.round} board {e.board}: result cleared"
     return f"round {e.round} board {e.board}: {e.result.value}"
+
+
+@_line.register
+def _(e: ev.ResultCorrected) -> str:
+    rounds = ", ".join(str(n) for n in e.paired_rounds)
+    later = f"; round{'s' if len(e.paired_rounds) > 1 else ''} {rounds} paired on the old score" if rounds else ""
+    return f"round {e.round} board {e.board}: corrected to {e.result.value} ({e.reason}){later}"
+
+
+@_line.register
+def _(e: ev.NoShowKept) -> str:
+    return f"player {e.player} kept in the event after the double forfeit of round {e.round}"
 
 
 @_line.register
