@@ -404,15 +404,16 @@ def stale_draft(state: EventState) -> list[str]:
     out = [f"{name[p]} is not in it" for p in state.available(rnd.number) if p not in paired and p not in on_bye]
     for pid in paired:
         if pid in asked:
-            out.append(f"{name[pid]} is paired but has {'an absence' if asked[pid] is ByeKind.ABSENCE else 'a requested bye'}")
+            what = "an absence" if asked[pid] is ByeKind.ABSENCE else "a requested bye"
+            out.append(f"{name[pid]} is paired but has {what} announced")
         elif pid not in available:
             out.append(f"{name[pid]} is paired but cannot play this round (withdrawn or not yet entered)")
     for pid, kind in on_bye.items():
         if asked.get(pid) is not kind and (pid in available or pid in asked or kind is ByeKind.REQUESTED):
-            out.append(f"{name[pid]} has a {kind.value} bye in it that is not announced")
-    for pid, kind in asked.items():
+            out.append(f"{name[pid]} has a {kind.value} bye in it, but none is announced")
+    for pid, announced in asked.items():
         if pid not in on_bye and pid not in paired and state.players[pid].status is Status.ACTIVE:
-            out.append(f"{name[pid]}'s {kind.value} bye is not in it")
+            out.append(f"{name[pid]}'s {announced.value} bye is not in it")
     out += [f"paired before the correction {note}" for note in rnd.paired_before]
     return out
 

@@ -39,6 +39,17 @@ def _run(path: str, action: Callable[[EventState], Sequence[Any]]) -> EventState
         return store.apply(action)
 
 
+def _run_kept(path: str, action: Callable[[EventState], Sequence[Any]]) -> tuple[EventState, Sequence[Any]]:
+    """As :func:`_run`, also returning the events written (for the confirmation)."""
+    written: list[Any] = []
+
+    def act(state: EventState) -> Sequence[Any]:
+        written.extend(action(state))
+        return written
+
+    return _run(path, act), written
+
+
 def _say(text: str) -> None:
     print(text)
 
@@ -118,8 +129,7 @@ def _bye_command(kind: ByeKind | None) -> Callable[[argparse.Namespace], None]:
             pid = actions.find_player(state, a.player)
             _say(f"{_who(state, pid)} withdrawn from round {state.players[pid].withdrawn_from} on")
         else:
-            events: list[Any] = []
-            state = _run(a.event, lambda s: events.extend(actions.announce_bye(s, a.player, kind, a.round)) or events)
+            state, events = _run_kept(a.event, lambda s: actions.announce_bye(s, a.player, kind, a.round))
             what = "absent" if kind is ByeKind.ABSENCE else "on a requested bye"
             _say(f"{_who(state, events[0].player)} is {what} in round {events[0].round}")
         _say_stale(state)
@@ -135,8 +145,7 @@ def cmd_player_reinstate(a: argparse.Namespace) -> None:
 
 
 def cmd_player_cancel_bye(a: argparse.Namespace) -> None:
-    events: list[Any] = []
-    state = _run(a.event, lambda s: events.extend(actions.cancel_bye(s, a.player, a.round)) or events)
+    state, events = _run_kept(a.event, lambda s: actions.cancel_bye(s, a.player, a.round))
     _say(f"{_who(state, events[0].player)}: the bye in round {events[0].round} is cancelled")
     _say_stale(state)
 
@@ -205,8 +214,7 @@ def cmd_swap(a: argparse.Namespace) -> None:
 
 
 def cmd_discard(a: argparse.Namespace) -> None:
-    events: list[Any] = []
-    _run(a.event, lambda s: events.extend(actions.discard(s, a.reason or "")) or events)
+    _, events = _run_kept(a.event, lambda s: actions.discard(s, a.reason or ""))
     _say(f"the draft of round {events[0].round} is discarded")
 
 
