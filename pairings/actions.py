@@ -435,7 +435,8 @@ def publish(state: EventState, accept: str = "") -> list[ev.Event]:
             f"the draft of round {rnd.number} breaks a hard rule the engine's pairing keeps "
             f"({'; '.join(breaches[:3])}); give --accept --reason TEXT to publish it anyway"
         )
-    return [ev.RoundPublished(round=rnd.number, accepted=why if breaches else "")]
+    accepted: list[ev.Event] = [ev.BreachAccepted(round=rnd.number, reason=why, breaches=tuple(breaches))]
+    return (accepted if breaches else []) + [ev.RoundPublished(round=rnd.number)]
 
 
 _HARD_COSTS = {"H1": "rematch", "H2": "repeat_bye", "H3": "side_rule"}

@@ -170,8 +170,6 @@ class DraftDiscarded(_Event):
 class RoundPublished(_Event):
     type: Literal["round-published"] = "round-published"
     round: int = Field(ge=1)
-    accepted: str = ""
-    """The organiser's reason for publishing a draft that breaks a hard rule (empty: it breaks none)."""
 
 
 class RoundUnpublished(_Event):
@@ -199,6 +197,16 @@ class ResultCorrected(_Event):
     reason: str
     paired_rounds: tuple[int, ...] = ()
     """The later rounds already drafted or published on the old result (for the log line)."""
+
+
+class BreachAccepted(_Event):
+    """The organiser publishes their changed draft although it breaks hard rules (written just before
+    the round's :class:`RoundPublished`); ``breaches`` as the check named them."""
+
+    type: Literal["breach-accepted"] = "breach-accepted"
+    round: int = Field(ge=1)
+    reason: str
+    breaches: tuple[str, ...] = ()
 
 
 class NoShowKept(_Event):
@@ -234,6 +242,7 @@ Event = Annotated[
         RoundUnpublished,
         ResultRecorded,
         ResultCorrected,
+        BreachAccepted,
         NoShowKept,
         Undone,
     ],

@@ -212,8 +212,7 @@ def _(e: ev.DraftDiscarded, b: _Builder) -> None:
 
 @_apply.register
 def _(e: ev.RoundPublished, b: _Builder) -> None:
-    r = b.rounds[e.round - 1].changed()
-    r.published, r.accepted = True, e.accepted
+    b.rounds[e.round - 1].changed().published = True
 
 
 @_apply.register
@@ -237,6 +236,11 @@ def _(e: ev.ResultCorrected, b: _Builder) -> None:
     note = f"round {e.round} board {e.board}: {old.value if old else 'no result'} → {e.result.value} ({e.reason})"
     for later in b.rounds[e.round:]:
         later.changed().paired_before += (note,)
+
+
+@_apply.register
+def _(e: ev.BreachAccepted, b: _Builder) -> None:
+    b.rounds[e.round - 1].changed().accepted = e.reason
 
 
 @_apply.register

@@ -88,8 +88,7 @@ def _(e: ev.DraftDiscarded) -> str:
 
 @_line.register
 def _(e: ev.RoundPublished) -> str:
-    accepted = f", hard-rule breach accepted: {e.accepted}" if e.accepted else ""
-    return f"round {e.round} published{accepted}"
+    return f"round {e.round} published"
 
 
 @_line.register
@@ -109,6 +108,11 @@ def _(e: ev.ResultCorrected) -> str:
     rounds = ", ".join(str(n) for n in e.paired_rounds)
     later = f"; round{'s' if len(e.paired_rounds) > 1 else ''} {rounds} paired on the old score" if rounds else ""
     return f"round {e.round} board {e.board}: corrected to {e.result.value} ({e.reason}){later}"
+
+
+@_line.register
+def _(e: ev.BreachAccepted) -> str:
+    return f"round {e.round}: hard-rule breach accepted ({e.reason}): {'; '.join(e.breaches)}"
 
 
 @_line.register

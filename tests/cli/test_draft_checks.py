@@ -69,7 +69,8 @@ def test_swap_says_its_cost_and_publish_wants_an_accepted_reason(event: Path, cl
     refused(cli, event, "publish", event, "--accept", says="--accept needs --reason")
     refused(cli, event, "publish", event, "--reason", "x", says="--reason goes with --accept")
     assert cli("publish", event, "--accept", "--reason", "the players agreed").code == 0
-    assert "hard-rule breach accepted: the players agreed" in cli("log", event).out
+    assert "round 2: hard-rule breach accepted (the players agreed): H1: board 2: Fay Orrin and Cy Rill" \
+        in cli("log", event).out
     assert cli("result", event, "1", "1-0").code == 0
     ran = cli("verify", event)
     assert "breach: H1" in ran.out and "accepted the breaches when publishing: the players agreed" in ran.out
