@@ -161,7 +161,7 @@ def refuse_duplicates(state: EventState, events: list[ev.Event], allow: bool = F
         more = f" and {len(found) - 3} more" if len(found) > 3 else ""
         raise DuplicatePlayerError(
             f"{len(found)} likely duplicate{'s' if len(found) != 1 else ''} ({'; '.join(found[:3])}{more}); "
-            "nothing registered: give --allow-duplicates to register anyway"
+            "nothing registered (--allow-duplicates registers them anyway)"
         )
     return events
 
@@ -373,11 +373,11 @@ def swap(state: EventState, a: str, b: str, reason: str) -> list[ev.Event]:
     return [_draft_event(changed, "override", f"swap {state.players[pa].name} and {state.players[pb].name}: {why}")]
 
 
-def against_optimum(state: EventState) -> str:
+def against_optimum(state: EventState, optimum: Draft | None = None) -> str:
     """The open draft's cost against the engine's optimum, in words (as the desk's override preview)."""
     from pairings import engine
 
-    return engine.compare(draft_next(state), draft_of(state)).describe()
+    return engine.compare(optimum or draft_next(state), draft_of(state)).describe()
 
 
 def discard(state: EventState, reason: str = "") -> list[ev.Event]:
@@ -443,7 +443,7 @@ _HARD_COSTS = {"H1": "rematch", "H2": "repeat_bye", "H3": "side_rule"}
 """The engine's cost criteria that count the relaxations of each hard rule (H5 is never relaxed)."""
 
 
-def override_breaches(state: EventState) -> list[str]:
+def override_breaches(state: EventState, optimum: Draft | None = None) -> list[str]:
     """The hard-rule breaches (H1-H5) of the open draft that the organiser's changes brought in.
 
     A draft the engine made relaxes a hard rule only when no pairing keeps it (flagged); one the
@@ -459,7 +459,7 @@ def override_breaches(state: EventState) -> list[str]:
     if not breaches:
         return []
     try:
-        best = engine.draft_round(state).cost
+        best = (optimum or engine.draft_round(state)).cost
     except NoPairingError:
         return list(breaches)
     over = {rule for rule, key in _HARD_COSTS.items() if rnd.cost.get(key, 0) > best.get(key, 0)}

@@ -15,7 +15,7 @@ from pathlib import Path
 from typing import Any, Callable, NoReturn, Sequence
 
 from pairings import actions
-from pairings.errors import InputError, PairingsError
+from pairings.errors import InputError, NoPairingError, PairingsError
 from pairings.events import Undone
 from pairings.state import ByeKind, EventState
 from pairings.store import EventStore
@@ -207,8 +207,13 @@ def cmd_pair(a: argparse.Namespace) -> None:
 def cmd_swap(a: argparse.Namespace) -> None:
     state = _run(a.event, lambda s: actions.swap(s, a.a, a.b, a.reason))
     print_round(state, state.rounds[-1].number)
-    _say(f"against the optimum: {actions.against_optimum(state)}")
-    breaches = actions.override_breaches(state)
+    try:
+        optimum = actions.draft_next(state)
+    except NoPairingError as exc:  # the swap is written; only the comparison is missing
+        _say(f"against the optimum: no engine pairing to compare with ({plain(str(exc))})")
+        return
+    _say(f"against the optimum: {actions.against_optimum(state, optimum)}")
+    breaches = actions.override_breaches(state, optimum)
     if breaches:
         _say(f"breaks a hard rule ({plain('; '.join(breaches[:3]))}): publish needs --accept --reason TEXT")
 

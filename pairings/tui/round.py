@@ -134,6 +134,8 @@ class RoundPlace(Place):
         what += " · cost: " + (", ".join(costs) if costs else "none")
         if rnd.paired_before:
             what += f" · paired on scores since corrected ({len(rnd.paired_before)}: see the Log)"
+        if rnd.state is RoundState.DRAFT and actions.stale_draft(state):
+            what += " · out of date: press n to draft again"
         status.update(cell(what))
         shape = (rnd.number, tuple((g.board, g.first, g.second, g.flags, g.result) for g in rnd.games))
         if shape != self._boards:

@@ -118,3 +118,23 @@ def test_a_late_entrant_is_in_the_desks_standings(tmp_path: Path) -> None:
             assert app.screen.query_one("#standings", Grid).row_count == 5
 
     asyncio.run(run())
+
+
+def test_the_desk_refuses_to_import_a_roster_twice(tmp_path: Path) -> None:
+    store = new_event(tmp_path / "desk.pairings")
+    roster = tmp_path / "roster.csv"
+    roster.write_text("name,rating\nAnsel Ash,1910\nBrisa Bray,1785\n", encoding="utf-8")
+
+    async def run() -> None:
+        app = DeskApp(store, poll_seconds=3600, start="roster")
+        async with app.run_test(size=(100, 32)) as pilot:
+            for _ in range(2):
+                await pilot.press("i")
+                await type_text(pilot, str(roster))
+                await pilot.press("enter")
+                await settle(app, pilot)
+            assert len(app.state.players) == 2
+            assert isinstance(app.screen, FormDialog)
+            assert "likely duplicates" in str(app.screen.query_one("#problem", Label).content)
+
+    asyncio.run(run())
