@@ -183,8 +183,6 @@ def _future_round(state: EventState, round_number: int | None) -> int:
     _round_exists(state, number)
     if number < first_open:
         raise RoundStateError(f"round {number} is already published; the earliest round to change is {first_open}")
-    if number > state.settings.rounds:
-        raise InputError(f"round {number} does not exist (the event has {state.settings.rounds} rounds)")
     return number
 
 
@@ -193,7 +191,8 @@ def withdraw(state: EventState, player: str, round_number: int | None = None, re
     if state.players[pid].status is Status.WITHDRAWN:
         raise InputError(f"{state.players[pid].name} is already withdrawn")
     number = entry_round(state) if round_number is None else round_number
-    _round_exists(state, number)
+    if round_number is not None:
+        _round_exists(state, number)
     if number < entry_round(state):
         raise RoundStateError(f"round {number} is already published; withdraw from round {entry_round(state)} on")
     return [ev.PlayerWithdrawn(player=pid, from_round=number, reason=reason)]
@@ -324,7 +323,7 @@ def no_shows(state: EventState) -> tuple[PlayerId, ...]:
     not asked about again.
     """
     previous = state.round(state.next_round_number - 1)
-    if previous is None or state.next_round_number > state.settings.rounds:
+    if previous is None or previous.state is not RoundState.COMPLETE or state.next_round_number > state.settings.rounds:
         return ()
     available = set(state.available(state.next_round_number))
     out = [p for g in previous.games if g.result is Result.DOUBLE_FORFEIT for p in (g.first, g.second)]

@@ -17,7 +17,7 @@ from typing import Any, Callable, NoReturn, Sequence
 from pairings import actions
 from pairings.errors import InputError, NoPairingError, PairingsError
 from pairings.events import Undone
-from pairings.state import ByeKind, EventState
+from pairings.state import ByeKind, EventState, RoundState
 from pairings.store import EventStore
 from pairings.text import one_line, plain
 
@@ -254,10 +254,12 @@ def cmd_result(a: argparse.Namespace) -> None:
     _say(f"round {rnd.number} board {a.board}: {code}; "
          + (f"{left} board{'s' if left != 1 else ''} open" if left else "round complete"))
     later = [r.number for r in state.rounds if rnd.number < r.number and r.paired_before]
-    if later:
-        many = len(later) > 1
-        _say(f"standings follow the correction; round{'s' if many else ''} {', '.join(map(str, later))} "
+    kept = [r.number for r in state.rounds if r.number in later and r.state is not RoundState.DRAFT]
+    if kept:
+        many = len(kept) > 1
+        _say(f"standings follow the correction; round{'s' if many else ''} {', '.join(map(str, kept))} "
              f"{'stay' if many else 'stays'} as paired on the old score")
+    if later:
         _say_stale(state)
 
 

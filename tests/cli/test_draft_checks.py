@@ -108,3 +108,9 @@ def test_a_double_forfeit_asks_before_the_next_draft(tmp_path: Path, cli) -> Non
         rnd = store.state.rounds[1]
     assert any("p1" in (g.first, g.second) for g in rnd.games)
     assert all("p4" not in (g.first, g.second) for g in rnd.games)
+
+
+def test_an_unfinished_round_is_named_before_any_no_show(tmp_path: Path, cli) -> None:  # type: ignore[no-untyped-def]
+    event = six_players(cli, tmp_path / "open.pairings")
+    play_round(cli, event, "--")
+    refused(cli, event, "pair", event, says="round 1 is not finished (2 boards without a result)")
