@@ -528,7 +528,7 @@ def record_result(
             f"round {later[0]} is already paired on this result: give --reason TEXT to correct it "
             "(the later rounds stay as paired)"
         )
-    if why and code is not None:
+    if why and game.result is not None and code is not None:
         return [ev.ResultCorrected(round=rnd.number, board=board, result=code, reason=why, paired_rounds=later)]
     return [ev.ResultRecorded(round=rnd.number, board=board, result=code)]
 
