@@ -10,10 +10,14 @@ the desk both call these; neither holds any rule of its own.
 from __future__ import annotations
 
 import secrets
-from typing import TYPE_CHECKING, Sequence
+import unicodedata
+from typing import TYPE_CHECKING, Iterable, Sequence
 
 from pairings import events as ev
-from pairings.errors import AmbiguousPlayerError, InputError, RoundStateError, UnknownPlayerError
+from pairings.errors import (
+    AmbiguousPlayerError, DuplicatePlayerError, HardRuleError, InputError, NoPairingError, NoShowError,
+    RoundStateError, UnknownPlayerError,
+)
 from pairings.state import ByeKind, EventState, PlayerId, Result, Round, RoundState, Status, System
 from pairings.store import StoredEvent, undo_target
 from pairings.text import counted
@@ -109,18 +113,58 @@ def _player_fields(name: str, rating: int | None, club: str | None) -> tuple[str
 
 
 def add_player(
-    state: EventState, name: str, rating: int | None = None, club: str | None = None, pid: str | None = None
+    state: EventState, name: str, rating: int | None = None, club: str | None = None, pid: str | None = None,
+    allow_duplicates: bool = False,
 ) -> list[ev.Event]:
     name, club = _player_fields(name, rating, club)
     if pid is not None:
         pid = clean_text(pid, "id", limit=40)
         if pid in state.players:
             raise InputError(f"id {pid!r} is already taken by {state.players[PlayerId(pid)].name}")
-    return [
+    events: list[ev.Event] = [
         ev.PlayerRegistered(
             id=pid or new_id(state), name=name, rating=rating, club=club, entry_round=entry_round(state)
         )
     ]
+    return refuse_duplicates(state, events, allow_duplicates)
+
+
+def folded_name(name: str) -> str:
+    """A name as duplicates are compared: accents dropped, case folded, spaces collapsed."""
+    bare = "".join(c for c in unicodedata.normalize("NFKD", name) if not unicodedata.combining(c))
+    return " ".join(bare.casefold().split())
+
+
+def likely_duplicates(state: EventState, events: Iterable[ev.Event]) -> list[str]:
+    """Registrations among ``events`` that look like a player already there, or an earlier one of them.
+
+    Likely the same person: the same folded name (:func:`folded_name`) or the same id
+    (common practice, no source: a roster imported twice, a name typed twice).
+    """
+    seen = {folded_name(p.name): f"{p.name} ({p.id})" for p in state.players.values()}
+    ids = set(state.players)
+    found: list[str] = []
+    for e in events:
+        if not isinstance(e, ev.PlayerRegistered):
+            continue
+        key = folded_name(e.name)
+        if key in seen or e.id in ids:
+            found.append(f"{e.name} looks like {seen.get(key) or e.id}")
+        seen.setdefault(key, f"{e.name} ({e.id})")
+        ids.add(PlayerId(e.id))
+    return found
+
+
+def refuse_duplicates(state: EventState, events: list[ev.Event], allow: bool = False) -> list[ev.Event]:
+    """``events`` unchanged, unless they register likely duplicates and ``allow`` is not given."""
+    found = [] if allow else likely_duplicates(state, events)
+    if found:
+        more = f" and {len(found) - 3} more" if len(found) > 3 else ""
+        raise DuplicatePlayerError(
+            f"{len(found)} likely duplicate{'s' if len(found) != 1 else ''} ({'; '.join(found[:3])}{more}); "
+            "nothing registered (--allow-duplicates registers them anyway)"
+        )
+    return events
 
 
 def edit_player(state: EventState, player: str, name: str, rating: int | None, club: str | None) -> list[ev.Event]:
@@ -129,13 +173,17 @@ def edit_player(state: EventState, player: str, name: str, rating: int | None, c
     return [ev.PlayerEdited(id=pid, name=name, rating=rating, club=club)]
 
 
+def _round_exists(state: EventState, number: int) -> None:
+    if not 1 <= number <= state.settings.rounds:
+        raise InputError(f"round {number} does not exist (the event has rounds 1-{state.settings.rounds})")
+
+
 def _future_round(state: EventState, round_number: int | None) -> int:
     first_open = entry_round(state)
     number = first_open if round_number is None else round_number
+    _round_exists(state, number)
     if number < first_open:
         raise RoundStateError(f"round {number} is already published; the earliest round to change is {first_open}")
-    if number > state.settings.rounds:
-        raise InputError(f"round {number} does not exist (the event has {counted(state.settings.rounds, 'round')})")
     return number
 
 
@@ -144,6 +192,8 @@ def withdraw(state: EventState, player: str, round_number: int | None = None, re
     if state.players[pid].status is Status.WITHDRAWN:
         raise InputError(f"{state.players[pid].name} is already withdrawn")
     number = entry_round(state) if round_number is None else round_number
+    if round_number is not None:
+        _round_exists(state, number)
     if number < entry_round(state):
         raise RoundStateError(f"round {number} is already published; withdraw from round {entry_round(state)} on")
     return [ev.PlayerWithdrawn(player=pid, from_round=number, reason=reason)]
@@ -181,6 +231,12 @@ def forbid_pair(
         raise InputError("a do-not-pair entry needs two different players")
     if until_round is not None and until_round < 1:
         raise InputError("--until must be a round number of 1 or more")
+    for entry in state.forbidden:
+        covers = entry.until_round is None or (until_round is not None and entry.until_round >= until_round)
+        if {entry.a, entry.b} == {pa, pb} and covers:
+            until = f" up to round {entry.until_round}" if entry.until_round else ""
+            raise InputError(f"{state.players[pa].name} and {state.players[pb].name} are already on the "
+                             f"do-not-pair list{until}: nothing recorded")
     return [ev.PairForbidden(a=pa, b=pb, until_round=until_round, reason=reason)]
 
 
@@ -216,9 +272,63 @@ def draft_next(state: EventState, overrides: Overrides | None = None) -> Draft:
     return engine.draft_round(state, overrides or engine.Overrides())
 
 
-def pair(state: EventState, overrides: Overrides | None = None, reason: str = "") -> list[ev.Event]:
+def pair(
+    state: EventState, overrides: Overrides | None = None, reason: str = "", *, replace: bool = False,
+    keep: Sequence[str] = (),
+) -> list[ev.Event]:
+    """Draft the next round (or the open one again).
+
+    Refused over a draft the organiser changed unless ``replace`` (the override would be lost), and
+    while players who lost the last round by double forfeit wait for a decision: ``keep`` names
+    those who stay in (recorded), the others are withdrawn with ``player withdraw`` (:func:`no_shows`).
+    """
+    last = state.last_round
+    if last is not None and last.state is RoundState.DRAFT and last.source != "engine" and not replace:
+        why = f" ({'; '.join(last.notes)})" if last.notes else ""
+        raise RoundStateError(
+            f"the draft of round {last.number} holds the organiser's changes{why}; "
+            "give --replace to draft it again from scratch"
+        )
+    kept = [find_player(state, k) for k in keep]
+    waiting = no_shows(state)
+    if any(pid not in waiting for pid in kept):
+        stray = next(pid for pid in kept if pid not in waiting)
+        raise InputError(f"--keep {state.players[stray].name}: no double forfeit of theirs waits for a decision")
+    left = [pid for pid in waiting if pid not in kept]
+    if left:
+        names = ", ".join(state.players[pid].name for pid in left)
+        raise NoShowError(
+            f"{names} lost round {state.next_round_number - 1} by double forfeit (no-show), which counts as a "
+            "withdrawal unless the regulations say otherwise: give --keep NAME to keep a player in, or "
+            "withdraw them (player withdraw EVENT NAME)"
+        )
     source = "override" if reason else "engine"
-    return [_draft_event(draft_next(state, overrides), source, reason)]
+    decisions: list[ev.Event] = [ev.NoShowKept(player=pid, round=state.next_round_number - 1) for pid in kept]
+    return decisions + [_draft_event(draft_next(state, overrides), source, reason)]
+
+
+def keep_after_no_show(state: EventState, player: str) -> list[ev.Event]:
+    """Keep a player in the event after their double forfeit (the desk's answer to :func:`no_shows`)."""
+    pid = find_player(state, player)
+    if pid not in no_shows(state):
+        raise InputError(f"no double forfeit of {state.players[pid].name} waits for a decision")
+    return [ev.NoShowKept(player=pid, round=state.next_round_number - 1)]
+
+
+def no_shows(state: EventState) -> tuple[PlayerId, ...]:
+    """Players who lost the round before the next by double forfeit and are still to be paired.
+
+    The general handling rules (FIDE C.04.2, from memory) treat a player absent without notice as
+    withdrawn unless the regulations say otherwise, so the organiser is asked before the next draft;
+    a player already withdrawn, on an announced bye or absence, or kept in (:class:`NoShowKept`) is
+    not asked about again.
+    """
+    previous = state.round(state.next_round_number - 1)
+    if previous is None or previous.state is not RoundState.COMPLETE or state.next_round_number > state.settings.rounds:
+        return ()
+    available = set(state.available(state.next_round_number))
+    out = [p for g in previous.games if g.result is Result.DOUBLE_FORFEIT for p in (g.first, g.second)]
+    return tuple(p for p in out if p in available and (p, previous.number) not in state.kept_after_no_show)
 
 
 def open_draft(state: EventState) -> Round:
@@ -257,8 +367,17 @@ def swap(state: EventState, a: str, b: str, reason: str) -> list[ev.Event]:
     from pairings import engine
 
     pa, pb = find_player(state, a), find_player(state, b)
+    if pa == pb:
+        raise InputError(f"{a!r} and {b!r} are the same player ({state.players[pa].name}): give two players to swap")
     changed = engine.swap(state, draft_of(state), pa, pb)
     return [_draft_event(changed, "override", f"swap {state.players[pa].name} and {state.players[pb].name}: {why}")]
+
+
+def against_optimum(state: EventState, optimum: Draft | None = None) -> str:
+    """The open draft's cost against the engine's optimum, in words (as the desk's override preview)."""
+    from pairings import engine
+
+    return engine.compare(optimum or draft_next(state), draft_of(state)).describe()
 
 
 def discard(state: EventState, reason: str = "") -> list[ev.Event]:
@@ -266,19 +385,85 @@ def discard(state: EventState, reason: str = "") -> list[ev.Event]:
     return [ev.DraftDiscarded(round=rnd.number, reason=reason)]
 
 
-def publish(state: EventState) -> list[ev.Event]:
+def stale_draft(state: EventState) -> list[str]:
+    """Why the open draft no longer fits the event (empty when it fits, or there is no draft).
+
+    Availability (H4) is checked player by player: everyone available is in it, everyone on a board
+    or the pairing bye may be paired, and every announced bye or absence is in it as announced; a
+    result of an earlier round corrected since the draft also makes it stale.
+    """
+    rnd = state.last_round
+    if rnd is None or rnd.state is not RoundState.DRAFT:
+        return []
+    name = {pid: p.name for pid, p in state.players.items()}
+    available = set(state.available(rnd.number))
+    asked = state.requests.get(rnd.number, {})
+    paired = [p for g in rnd.games for p in (g.first, g.second)]
+    paired += [y.player for y in rnd.byes if y.kind is ByeKind.PAIRING]
+    on_bye = {y.player: y.kind for y in rnd.byes if y.kind is not ByeKind.PAIRING}
+    out = [f"{name[p]} is not in it" for p in state.available(rnd.number) if p not in paired and p not in on_bye]
+    for pid in paired:
+        if pid in asked:
+            what = "an absence" if asked[pid] is ByeKind.ABSENCE else "a requested bye"
+            out.append(f"{name[pid]} is paired but has {what} announced")
+        elif pid not in available:
+            out.append(f"{name[pid]} is paired but cannot play this round (withdrawn or not yet entered)")
+    for pid, kind in on_bye.items():
+        if asked.get(pid) is not kind and (pid in available or pid in asked or kind is ByeKind.REQUESTED):
+            out.append(f"{name[pid]} has a {kind.value} bye in it, but none is announced")
+    for pid, announced in asked.items():
+        if pid not in on_bye and pid not in paired and state.players[pid].status is Status.ACTIVE:
+            out.append(f"{name[pid]}'s {announced.value} bye is not in it")
+    out += [f"paired before the correction {note}" for note in rnd.paired_before]
+    return out
+
+
+def publish(state: EventState, accept: str = "") -> list[ev.Event]:
+    """Publish the open draft: never one that breaks availability or predates a correction; one the
+    organiser changed so that it breaks a hard rule the engine's optimum keeps only with ``accept``
+    (the reason, recorded)."""
     rnd = open_draft(state)
-    in_draft = {p for g in rnd.games for p in (g.first, g.second)} | {y.player for y in rnd.byes}
-    wanted = set(state.available(rnd.number)) | set(state.requests.get(rnd.number, {}))
-    wanted = {p for p in wanted if state.players[p].status is Status.ACTIVE}
-    missing, extra = wanted - in_draft, in_draft - wanted
-    if missing or extra:
-        who = [f"{state.players[p].name} is not in it" for p in sorted(missing)]
-        who += [f"{state.players[p].name} should not be in it" for p in sorted(extra)]
-        raise RoundStateError(f"the draft of round {rnd.number} is out of date ({'; '.join(who[:3])}); pair again")
+    stale = stale_draft(state)
+    if stale:
+        raise RoundStateError(f"the draft of round {rnd.number} is out of date ({'; '.join(stale[:3])}); pair again")
     if not rnd.games:
         raise RoundStateError(f"the draft of round {rnd.number} has no boards")
-    return [ev.RoundPublished(round=rnd.number)]
+    why = clean_text(accept, "reason", required=False, limit=500)
+    breaches = override_breaches(state)
+    if breaches and not why:
+        raise HardRuleError(
+            f"the draft of round {rnd.number} breaks a hard rule the engine's pairing keeps "
+            f"({'; '.join(breaches[:3])}); give --accept --reason TEXT to publish it anyway"
+        )
+    accepted: list[ev.Event] = [ev.BreachAccepted(round=rnd.number, reason=why, breaches=tuple(breaches))]
+    return (accepted if breaches else []) + [ev.RoundPublished(round=rnd.number)]
+
+
+_HARD_COSTS = {"H1": "rematch", "H2": "repeat_bye", "H3": "side_rule"}
+"""The engine's cost criteria that count the relaxations of each hard rule (H5 is never relaxed)."""
+
+
+def override_breaches(state: EventState, optimum: Draft | None = None) -> list[str]:
+    """The hard-rule breaches (H1-H5) of the open draft that the organiser's changes brought in.
+
+    A draft the engine made relaxes a hard rule only when no pairing keeps it (flagged); one the
+    organiser changed is compared rule by rule with the engine's optimum for the same round.
+    """
+    from pairings import engine
+    from pairings.engine.verify import hard_breaches
+
+    rnd = open_draft(state)
+    if rnd.source == "engine":
+        return []
+    breaches = hard_breaches(state, rnd.number, lambda pid: state.players[pid].name)
+    if not breaches:
+        return []
+    try:
+        best = (optimum or engine.draft_round(state)).cost
+    except NoPairingError:
+        return list(breaches)
+    over = {rule for rule, key in _HARD_COSTS.items() if rnd.cost.get(key, 0) > best.get(key, 0)}
+    return [b for b in breaches if b[:2] in over or b.startswith(("H4", "H5"))]
 
 
 def unpublish(state: EventState, reason: str) -> list[ev.Event]:
@@ -308,9 +493,16 @@ def results_round(state: EventState, round_number: int | None) -> Round:
 
 def record_result(
     state: EventState, board: int, result: str | Result | None, round_number: int | None = None,
-    correct: bool = False,
+    correct: bool = False, reason: str = "",
 ) -> list[ev.Event]:
-    """Enter (or, with ``correct``, change or clear) the result on one board."""
+    """Enter (or, with ``correct``, change or clear) the result on one board.
+
+    A result of a round that later rounds were already paired on can still be corrected, with a
+    reason: the general handling rules (FIDE C.04.2, from memory) let a wrongly recorded result be
+    put right, affecting only the pairings yet to be made. Standings follow the corrected result;
+    the later rounds stay as paired and are marked as paired on the old score (the log, the desk's
+    Round place, ``verify``); an open draft among them must be paired again.
+    """
     code = Result.parse(result) if isinstance(result, str) else result
     rnd = results_round(state, round_number)
     game = rnd.game_on(board)
@@ -319,17 +511,26 @@ def record_result(
     if game.result is not None and not correct:
         raise InputError(
             f"board {board} of round {rnd.number} already has {game.result.value}; "
-            "confirm the correction to change it"
+            "give --correct to change it"
         )
     if game.result is None and code is None:
         raise InputError(f"board {board} of round {rnd.number} has no result to clear")
     if game.result == code:
         raise InputError(f"board {board} of round {rnd.number} already has {code.value if code else 'no result'}")
-    later = [r.number for r in state.rounds if r.number > rnd.number]
-    if later and correct:
+    why = clean_text(reason, "reason", required=False, limit=500)
+    later = tuple(r.number for r in state.rounds if r.number > rnd.number)
+    if later and code is None:
         raise RoundStateError(
-            f"round {later[0]} is already paired on these scores; discard or un-publish it first"
+            f"round {later[0]} is already paired on this result: it can be corrected (give the new result "
+            "with --correct --reason TEXT), not cleared"
         )
+    if later and not why:
+        raise InputError(
+            f"round {later[0]} is already paired on this result: give --reason TEXT to correct it "
+            "(the later rounds stay as paired)"
+        )
+    if why and game.result is not None and code is not None:
+        return [ev.ResultCorrected(round=rnd.number, board=board, result=code, reason=why, paired_rounds=later)]
     return [ev.ResultRecorded(round=rnd.number, board=board, result=code)]
 
 

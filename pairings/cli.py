@@ -16,9 +16,9 @@ from pathlib import Path
 from typing import Any, Callable, NoReturn, Sequence
 
 from pairings import actions
-from pairings.errors import InputError, PairingsError
+from pairings.errors import InputError, NoPairingError, PairingsError
 from pairings.events import Undone
-from pairings.state import ByeKind, EventState
+from pairings.state import ByeKind, EventState, RoundState
 from pairings.store import EventStore
 from pairings.text import cells, counted, fit, one_line, plain
 
@@ -47,6 +47,17 @@ def _run(path: str, action: Callable[[EventState], Sequence[Any]]) -> EventState
         return store.apply(action)
 
 
+def _run_kept(path: str, action: Callable[[EventState], Sequence[Any]]) -> tuple[EventState, Sequence[Any]]:
+    """As :func:`_run`, also returning the events written (for the confirmation)."""
+    written: list[Any] = []
+
+    def act(state: EventState) -> Sequence[Any]:
+        written.extend(action(state))
+        return written
+
+    return _run(path, act), written
+
+
 def _say(text: str) -> None:
     print(text)
 
@@ -67,21 +78,25 @@ def cmd_new(a: argparse.Namespace) -> None:
 
 
 def cmd_player_add(a: argparse.Namespace) -> None:
-    state = _run(a.event, lambda s: actions.add_player(s, a.name, a.rating, a.club, a.id))
+    state = _run(a.event, lambda s: actions.add_player(s, a.name, a.rating, a.club, a.id, a.allow_duplicates))
     p = list(state.players.values())[-1]
-    _say(f"registered {p.id}: {plain(p.name)}")
+    late = f", plays from round {p.entry_round}" if p.entry_round > 1 else ""
+    _say(f"registered {plain(p.name)} as {plain(p.id)}{late}")
 
 
 def cmd_player_edit(a: argparse.Namespace) -> None:
+    edited: list[str] = []
+
     def act(s: EventState) -> Sequence[Any]:
         p = s.players[actions.find_player(s, a.player)]
+        edited.append(p.id)
         return actions.edit_player(
             s, p.id, a.name if a.name is not None else p.name,
             a.rating if a.rating is not None else p.rating, a.club if a.club is not None else p.club,
         )
 
-    _run(a.event, act)
-    _say("player edited")
+    state = _run(a.event, act)
+    _say(f"edited {_who(state, edited[0])}")
 
 
 def cmd_player_import(a: argparse.Namespace) -> None:
@@ -92,30 +107,55 @@ def cmd_player_import(a: argparse.Namespace) -> None:
     except OSError as exc:
         raise InputError(f"{a.roster}: cannot read ({exc.strerror})") from None
     text = decode(data)
-    state = _run(a.event, lambda s: import_roster(s, text))
-    _say(f"imported; {counted(len(state.players), 'player')} registered")
+    before: list[int] = []
+
+    def act(s: EventState) -> Sequence[Any]:
+        before.append(len(s.players))
+        return actions.refuse_duplicates(s, import_roster(s, text), a.allow_duplicates)
+
+    state = _run(a.event, act)
+    _say(f"imported {counted(len(state.players) - before[0], 'player')}; {len(state.players)} registered")
+
+
+def _who(state: EventState, player: str) -> str:
+    """A player's name for a confirmation (after the action, so the name is the one now held)."""
+    return plain(state.players[actions.find_player(state, player)].name)
+
+
+def _say_stale(state: EventState) -> None:
+    """After a change of who plays: say when the open draft no longer fits (publish refuses it)."""
+    stale = actions.stale_draft(state)
+    if stale:
+        number = state.rounds[-1].number
+        _say(f"the draft of round {number} is now out of date ({plain('; '.join(stale[:2]))}): pair again")
 
 
 def _bye_command(kind: ByeKind | None) -> Callable[[argparse.Namespace], None]:
     def command(a: argparse.Namespace) -> None:
         if kind is None:
-            _run(a.event, lambda s: actions.withdraw(s, a.player, a.round, a.reason or ""))
-            _say("withdrawn")
+            state = _run(a.event, lambda s: actions.withdraw(s, a.player, a.round, a.reason or ""))
+            pid = actions.find_player(state, a.player)
+            _say(f"{_who(state, pid)} withdrawn from round {state.players[pid].withdrawn_from} on")
         else:
-            _run(a.event, lambda s: actions.announce_bye(s, a.player, kind, a.round))
-            _say(f"{kind.value} bye recorded")
+            state, events = _run_kept(a.event, lambda s: actions.announce_bye(s, a.player, kind, a.round))
+            what = "absent" if kind is ByeKind.ABSENCE else "on a requested bye"
+            _say(f"{_who(state, events[0].player)} is {what} in round {events[0].round}")
+        _say_stale(state)
 
     return command
 
 
 def cmd_player_reinstate(a: argparse.Namespace) -> None:
-    _run(a.event, lambda s: actions.reinstate(s, a.player))
-    _say("reinstated")
+    state = _run(a.event, lambda s: actions.reinstate(s, a.player))
+    pid = actions.find_player(state, a.player)
+    _say(f"{_who(state, pid)} is back in from round {state.players[pid].entry_round}")
+    _say_stale(state)
 
 
 def cmd_player_cancel_bye(a: argparse.Namespace) -> None:
-    _run(a.event, lambda s: actions.cancel_bye(s, a.player, a.round))
-    _say("bye cancelled")
+    state, events = _run_kept(a.event, lambda s: actions.cancel_bye(s, a.player, a.round))
+    _say(f"{_who(state, events[0].player)}: the bye in round {events[0].round} is cancelled")
+    _say_stale(state)
 
 
 def cmd_player_list(a: argparse.Namespace) -> None:
@@ -169,7 +209,7 @@ def print_round(state: EventState, number: int) -> None:
 
 
 def cmd_pair(a: argparse.Namespace) -> None:
-    state = _run(a.event, actions.pair)
+    state = _run(a.event, lambda s: actions.pair(s, replace=a.replace, keep=a.keep))
     number = state.rounds[-1].number
     if a.json:
         _json(_draft_json(state, number))
@@ -180,20 +220,34 @@ def cmd_pair(a: argparse.Namespace) -> None:
 def cmd_swap(a: argparse.Namespace) -> None:
     state = _run(a.event, lambda s: actions.swap(s, a.a, a.b, a.reason))
     print_round(state, state.rounds[-1].number)
+    try:
+        optimum = actions.draft_next(state)
+    except NoPairingError as exc:  # the swap is written; only the comparison is missing
+        _say(f"against the optimum: no engine pairing to compare with ({plain(str(exc))})")
+        return
+    _say(f"against the optimum: {actions.against_optimum(state, optimum)}")
+    breaches = actions.override_breaches(state, optimum)
+    if breaches:
+        _say(f"breaks a hard rule ({plain('; '.join(breaches[:3]))}): publish needs --accept --reason TEXT")
 
 
 def cmd_discard(a: argparse.Namespace) -> None:
-    _run(a.event, lambda s: actions.discard(s, a.reason or ""))
-    _say("draft discarded")
+    _, events = _run_kept(a.event, lambda s: actions.discard(s, a.reason or ""))
+    _say(f"the draft of round {events[0].round} is discarded")
 
 
 def cmd_forbid(a: argparse.Namespace) -> None:
-    _run(a.event, lambda s: actions.forbid_pair(s, a.a, a.b, a.until, a.reason or ""))
-    _say("do-not-pair entry recorded")
+    state = _run(a.event, lambda s: actions.forbid_pair(s, a.a, a.b, a.until, a.reason or ""))
+    until = f" up to round {a.until}" if a.until else ""
+    _say(f"{_who(state, a.a)} and {_who(state, a.b)} will not be paired{until}")
 
 
 def cmd_publish(a: argparse.Namespace) -> None:
-    state = _run(a.event, actions.publish)
+    if a.accept and not (a.reason or "").strip():
+        raise InputError("--accept needs --reason TEXT (it goes into the log)")
+    if a.reason and not a.accept:
+        raise InputError("--reason goes with --accept (publishing a draft that breaks a hard rule)")
+    state = _run(a.event, lambda s: actions.publish(s, a.reason or ""))
     _say(f"round {state.rounds[-1].number} published")
 
 
@@ -205,10 +259,20 @@ def cmd_unpublish(a: argparse.Namespace) -> None:
 def cmd_result(a: argparse.Namespace) -> None:
     code = a.result.removeprefix(_CODE_MARK)
     result = None if code == "clear" else code
-    state = _run(a.event, lambda s: actions.record_result(s, a.board, result, a.round, a.correct))
+    if a.reason and not a.correct:
+        raise InputError("--reason goes with --correct (changing a result already entered)")
+    state = _run(a.event, lambda s: actions.record_result(s, a.board, result, a.round, a.correct, a.reason or ""))
     rnd = actions.results_round(state, a.round)
     left = len(rnd.open_boards)
     _say(f"round {rnd.number} board {a.board}: {code}; " + (f"{counted(left, 'board')} open" if left else "round complete"))
+    later = [r.number for r in state.rounds if rnd.number < r.number and r.paired_before]
+    kept = [r.number for r in state.rounds if r.number in later and r.state is not RoundState.DRAFT]
+    if kept:
+        many = len(kept) > 1
+        _say(f"standings follow the correction; round{'s' if many else ''} {', '.join(map(str, kept))} "
+             f"{'stay' if many else 'stays'} as paired on the old score")
+    if later:
+        _say_stale(state)
 
 
 def cmd_standings(a: argparse.Namespace) -> None:
@@ -352,6 +416,7 @@ def build_parser() -> argparse.ArgumentParser:
     sp.add_argument("--rating", type=int)
     sp.add_argument("--club")
     sp.add_argument("--id")
+    sp.add_argument("--allow-duplicates", action="store_true", help="register even if the name is already there")
     sp = padd("edit", cmd_player_edit, "change a player's name, rating or club")
     sp.add_argument("player", metavar="PLAYER")
     sp.add_argument("--name")
@@ -359,6 +424,7 @@ def build_parser() -> argparse.ArgumentParser:
     sp.add_argument("--club")
     sp = padd("import", cmd_player_import, "register every player of a CSV roster (header row)")
     sp.add_argument("roster", metavar="ROSTER.csv", type=_path)
+    sp.add_argument("--allow-duplicates", action="store_true", help="import even rows that look registered")
     sp = padd("list", cmd_player_list, "list the roster")
     sp.add_argument("--json", action="store_true")
     for name, kind, help_ in (
@@ -379,6 +445,9 @@ def build_parser() -> argparse.ArgumentParser:
 
     sp = add("pair", cmd_pair, "draft the next round")
     sp.add_argument("--json", action="store_true")
+    sp.add_argument("--replace", action="store_true", help="draft again over a draft holding overrides")
+    sp.add_argument("--keep", action="append", default=[], metavar="PLAYER",
+                    help="keep a player in after a double forfeit (no-show) in the last round; repeatable")
     sp = add("swap", cmd_swap, "swap two players in the draft (with a reason)")
     sp.add_argument("a", metavar="PLAYER")
     sp.add_argument("b", metavar="PLAYER")
@@ -390,14 +459,18 @@ def build_parser() -> argparse.ArgumentParser:
     sp.add_argument("b", metavar="PLAYER")
     sp.add_argument("--until", type=int, help="the entry applies up to and including this round")
     sp.add_argument("--reason")
-    add("publish", cmd_publish, "publish the draft")
+    sp = add("publish", cmd_publish, "publish the draft")
+    sp.add_argument("--accept", action="store_true", help="publish a changed draft that breaks a hard rule")
+    sp.add_argument("--reason", help="why the breach is accepted (with --accept; goes into the log)")
     sp = add("unpublish", cmd_unpublish, "take a published round without results back to draft")
     sp.add_argument("--reason", required=True)
-    sp = add("result", cmd_result, "enter a result: 1-0 0-1 1/2-1/2 +- -+ -- (or 'clear' with --correct)")
+    sp = add("result", cmd_result, "enter a result: 1-0 0-1 1/2-1/2 +- -+ -- or the arbiter's 0-0 1/2-0 0-1/2 "
+             "(or 'clear' with --correct)")
     sp.add_argument("board", type=int, metavar="BOARD")
     sp.add_argument("result", metavar="RESULT")
     sp.add_argument("--round", type=int)
     sp.add_argument("--correct", action="store_true", help="change a result already entered")
+    sp.add_argument("--reason", help="why (with --correct; needed once a later round is paired)")
     sp = add("standings", cmd_standings, "the standings with the event's tiebreaks")
     sp.add_argument("--round", type=int, help="the standings after this round (default: the last published one)")
     sp.add_argument("--format", default="text", choices=("text", "csv", "json", "html", "pdf"))

@@ -25,7 +25,7 @@ class AmbiguousPlayerError(InputError):
 
 
 class ResultCodeError(InputError):
-    """A result code outside 1-0, 0-1, 1/2-1/2, +-, -+, --."""
+    """A result code outside 1-0, 0-1, 1/2-1/2, +-, -+, --, 0-0, 1/2-0, 0-1/2."""
 
 
 class RoundStateError(InputError):
@@ -39,6 +39,18 @@ class RosterError(InputError):
         self.problems = problems
         count = f"{len(problems)} bad row{'s' if len(problems) != 1 else ''}"
         super().__init__(f"roster not imported, {count}: {'; '.join(problems)}")
+
+
+class DuplicatePlayerError(InputError):
+    """A registration that looks like a player already registered (same folded name, or same id)."""
+
+
+class HardRuleError(RoundStateError):
+    """A draft changed by the organiser breaks a hard rule (H1-H5) the engine's optimum keeps."""
+
+
+class NoShowError(RoundStateError):
+    """Players lost the last round by double forfeit and nobody has said whether they stay in."""
 
 
 class NoPairingError(InputError):

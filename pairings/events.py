@@ -13,7 +13,7 @@ from pydantic import BaseModel, ConfigDict, Field, TypeAdapter
 
 from pairings.state import Acceleration, ByeKind, Result, System, Unplayed
 
-SCHEMA_VERSION = 2
+SCHEMA_VERSION = 3
 
 
 class _Event(BaseModel):
@@ -186,6 +186,37 @@ class ResultRecorded(_Event):
     """None clears a result."""
 
 
+class ResultCorrected(_Event):
+    """A result changed after later rounds were paired on it (C.04.2, from memory: the correction
+    counts from now on and changes no pairing already made); ``reason`` goes into the log."""
+
+    type: Literal["result-corrected"] = "result-corrected"
+    round: int = Field(ge=1)
+    board: int = Field(ge=1)
+    result: Result
+    reason: str
+    paired_rounds: tuple[int, ...] = ()
+    """The later rounds already drafted or published on the old result (for the log line)."""
+
+
+class BreachAccepted(_Event):
+    """The organiser publishes their changed draft although it breaks hard rules (written just before
+    the round's :class:`RoundPublished`); ``breaches`` as the check named them."""
+
+    type: Literal["breach-accepted"] = "breach-accepted"
+    round: int = Field(ge=1)
+    reason: str
+    breaches: tuple[str, ...] = ()
+
+
+class NoShowKept(_Event):
+    """The organiser keeps a player in the event after a double forfeit (no-show) in ``round``."""
+
+    type: Literal["no-show-kept"] = "no-show-kept"
+    player: str
+    round: int = Field(ge=1)
+
+
 class Undone(_Event):
     """Compensates an earlier event: the fold skips event ``target`` from now on."""
 
@@ -210,6 +241,9 @@ Event = Annotated[
         RoundPublished,
         RoundUnpublished,
         ResultRecorded,
+        ResultCorrected,
+        BreachAccepted,
+        NoShowKept,
         Undone,
     ],
     Field(discriminator="type"),

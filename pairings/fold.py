@@ -44,6 +44,7 @@ class _Builder:
     forbidden: list[ForbiddenPair] = field(default_factory=list)
     requests: dict[int, dict[PlayerId, ByeKind]] = field(default_factory=dict)
     head: int = 0
+    kept: set[tuple[PlayerId, int]] = field(default_factory=set)
 
 
 @singledispatch
@@ -152,6 +153,8 @@ class _RoundBuilder:
     source: str
     notes: tuple[str, ...]
     published: bool
+    paired_before: tuple[str, ...] = ()
+    accepted: str = ""
     frozen: Round | None = None
     """The last frozen form, kept until the round changes (so unchanged rounds are the same object)."""
 
@@ -172,7 +175,7 @@ class _RoundBuilder:
         self.frozen = Round(
             number=self.number, state=state, games=games, byes=self.byes,
             cost=MappingProxyType(dict(self.cost)), engine_version=self.engine_version,
-            source=self.source, notes=self.notes,
+            source=self.source, notes=self.notes, paired_before=self.paired_before, accepted=self.accepted,
         )
         return self.frozen
 
@@ -223,6 +226,26 @@ def _(e: ev.RoundUnpublished, b: _Builder) -> None:
 def _(e: ev.ResultRecorded, b: _Builder) -> None:
     games = b.rounds[e.round - 1].changed().games
     games[e.board] = replace(games[e.board], result=e.result)
+
+
+@_apply.register
+def _(e: ev.ResultCorrected, b: _Builder) -> None:
+    games = b.rounds[e.round - 1].changed().games
+    old = games[e.board].result
+    games[e.board] = replace(games[e.board], result=e.result)
+    note = f"round {e.round} board {e.board}: {old.value if old else 'no result'} → {e.result.value} ({e.reason})"
+    for later in b.rounds[e.round:]:
+        later.changed().paired_before += (note,)
+
+
+@_apply.register
+def _(e: ev.BreachAccepted, b: _Builder) -> None:
+    b.rounds[e.round - 1].changed().accepted = e.reason
+
+
+@_apply.register
+def _(e: ev.NoShowKept, b: _Builder) -> None:
+    b.kept.add((PlayerId(e.player), e.round))
 
 
 @dataclass(frozen=True)
@@ -330,6 +353,7 @@ class Folder:
             requests=MappingProxyType({k: MappingProxyType(dict(v)) for k, v in b.requests.items()}),
             records=MappingProxyType(_records(b.settings, b.players, rounds, self._played)),
             head=b.head,
+            kept_after_no_show=frozenset(b.kept),
         )
 
 

@@ -104,5 +104,22 @@ def _(e: ev.ResultRecorded) -> str:
 
 
 @_line.register
+def _(e: ev.ResultCorrected) -> str:
+    rounds = ", ".join(str(n) for n in e.paired_rounds)
+    later = f"; round{'s' if len(e.paired_rounds) > 1 else ''} {rounds} paired on the old score" if rounds else ""
+    return f"round {e.round} board {e.board}: corrected to {e.result.value} ({e.reason}){later}"
+
+
+@_line.register
+def _(e: ev.BreachAccepted) -> str:
+    return f"round {e.round}: hard-rule breach accepted ({e.reason}): {'; '.join(e.breaches)}"
+
+
+@_line.register
+def _(e: ev.NoShowKept) -> str:
+    return f"player {e.player} kept in the event after the double forfeit of round {e.round}"
+
+
+@_line.register
 def _(e: ev.Undone) -> str:
     return f"undo of event {e.target}" + (f" ({e.summary})" if e.summary else "")

@@ -86,6 +86,11 @@ class Result(StrEnum):
     FIRST_WINS_BY_FORFEIT = "+-"
     SECOND_WINS_BY_FORFEIT = "-+"
     DOUBLE_FORFEIT = "--"
+    BOTH_LOSE = "0-0"
+    """Arbiter-decided results the Laws of Chess allow (FIDE Laws of Chess, from memory): the game was
+    played, and the arbiter scored it a loss for both, or half a point for one side and a loss for the other."""
+    FIRST_HALF_SECOND_LOSES = "1/2-0"
+    FIRST_LOSES_SECOND_HALF = "0-1/2"
 
     @classmethod
     def parse(cls, text: str) -> "Result":
@@ -95,16 +100,24 @@ class Result(StrEnum):
             return cls(cleaned)
         except ValueError:
             raise ResultCodeError(
-                f"unknown result {text!r}: use 1-0, 0-1, 1/2-1/2, +-, -+ or --"
+                f"unknown result {text!r}: use 1-0, 0-1, 1/2-1/2, +-, -+, -- "
+                "(or the arbiter's 0-0, 1/2-0, 0-1/2)"
             ) from None
 
     @property
     def played(self) -> bool:
-        """True when the game was played over the board (not a forfeit)."""
-        return self in (Result.FIRST_WINS, Result.SECOND_WINS, Result.DRAW)
+        """True when the game was played over the board (not a forfeit).
+
+        The arbiter-decided 0-0, 1/2-0 and 0-1/2 are played games: the players met over the board
+        and the arbiter set the score (a decision of ours where the sources at hand were silent).
+        """
+        return self not in (Result.FIRST_WINS_BY_FORFEIT, Result.SECOND_WINS_BY_FORFEIT, Result.DOUBLE_FORFEIT)
 
     def outcome(self, side: Side) -> str:
-        """``"win"``, ``"draw"`` or ``"loss"`` for the player on ``side`` (a double forfeit loses both)."""
+        """``"win"``, ``"draw"`` or ``"loss"`` for the player on ``side`` (a double forfeit loses both).
+
+        ``"draw"`` means a draw's points: the half point of 1/2-0 and 0-1/2 too.
+        """
         return _OUTCOMES[self, side]
 
 
@@ -113,6 +126,8 @@ for _result, _first, _second in (
     (Result.FIRST_WINS, "win", "loss"), (Result.SECOND_WINS, "loss", "win"), (Result.DRAW, "draw", "draw"),
     (Result.FIRST_WINS_BY_FORFEIT, "win", "loss"), (Result.SECOND_WINS_BY_FORFEIT, "loss", "win"),
     (Result.DOUBLE_FORFEIT, "loss", "loss"),
+    (Result.BOTH_LOSE, "loss", "loss"), (Result.FIRST_HALF_SECOND_LOSES, "draw", "loss"),
+    (Result.FIRST_LOSES_SECOND_HALF, "loss", "draw"),
 ):
     _OUTCOMES[_result, Side.FIRST] = _first
     _OUTCOMES[_result, Side.SECOND] = _second
@@ -238,6 +253,11 @@ class Round:
     """``engine`` (as drafted), ``override`` (changed by the organiser) or ``restored``."""
     notes: tuple[str, ...] = ()
     """The organiser's override reasons, in order."""
+    paired_before: tuple[str, ...] = ()
+    """Corrections of earlier rounds' results made after this round was drafted, one line each
+    (e.g. ``"round 3 board 2: 1-0 → 0-1 (scoresheet misread)"``): it was paired on the old scores."""
+    accepted: str = ""
+    """The organiser's reason for publishing it although an override breaks a hard rule."""
 
     def game_on(self, board: int) -> Game | None:
         for game in self.games:
@@ -345,6 +365,8 @@ class EventState:
     records: Mapping[PlayerId, PlayerRecord]
     head: int
     """Sequence number of the last event folded in (0 for an empty log)."""
+    kept_after_no_show: frozenset[tuple[PlayerId, int]] = frozenset()
+    """(player, round) of double forfeits after which the organiser kept the player in the event."""
 
     @property
     def last_round(self) -> Round | None:

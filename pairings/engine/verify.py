@@ -22,6 +22,7 @@ from __future__ import annotations
 
 from dataclasses import dataclass, replace
 from types import MappingProxyType
+from typing import Callable
 
 from pairings.engine.criteria import Field
 from pairings.engine.draft import draft_round, rebuild
@@ -67,6 +68,37 @@ def verify_round(state: EventState, round_number: int) -> RoundCheck:
     if stored is None:
         raise InputError(f"there is no round {round_number} to verify")
     before = state_before(state, round_number)
+    breaches, fld = _breaches(before, stored, str)
+    if fld is None:
+        return RoundCheck(round_number, breaches, (), None, False)
+    pairs = [(g.first, g.second) for g in stored.games]
+    pairing_bye = next((y.player for y in stored.byes if y.kind is ByeKind.PAIRING), None)
+    notes: list[str] = []
+    certified = _berge(fld, pairs, pairing_bye, notes)
+    optimal = None
+    if stored.source == "engine":
+        optimal = _optimum_confirmed(state, before, round_number, notes)
+    elif stored.source == "override":
+        notes.append("optimum not checked: the organiser changed this round (" + "; ".join(stored.notes)
+                     + "); the engine's optimum is compared only for rounds it drafted")
+    else:
+        notes.append(f"optimum not checked: the round is {stored.source}, not drafted by the engine")
+    return RoundCheck(round_number, breaches, tuple(notes), optimal, certified)
+
+
+def hard_breaches(state: EventState, round_number: int,
+                  name: Callable[[PlayerId], str] = str) -> tuple[str, ...]:
+    """The H1-H5 breaches of round ``round_number`` (also a draft) against the history before it."""
+    stored = state.round(round_number)
+    if stored is None:
+        raise InputError(f"there is no round {round_number} to check")
+    return _breaches(state_before(state, round_number), stored, name)[0]
+
+
+def _breaches(before: EventState, stored: Round, name: Callable[[PlayerId], str]
+              ) -> tuple[tuple[str, ...], Field | None]:
+    """H4 first (the field is None when it fails, as nothing else can be checked); then H5, H1, H3, H2."""
+    round_number = stored.number
     pairs = [(g.first, g.second) for g in stored.games]
     pairing_bye = next((y.player for y in stored.byes if y.kind is ByeKind.PAIRING), None)
     breaches: list[str] = []
@@ -74,29 +106,25 @@ def verify_round(state: EventState, round_number: int) -> RoundCheck:
     seen: set[PlayerId] = set()
     for pid in [p for pair in pairs for p in pair] + ([pairing_bye] if pairing_bye else []):
         if pid not in available:
-            breaches.append(f"H4: {pid} is paired but not available in round {round_number}")
+            breaches.append(f"H4: {name(pid)} is paired but not available in round {round_number}")
         if pid in seen:
-            breaches.append(f"H4: {pid} is paired twice")
+            breaches.append(f"H4: {name(pid)} is paired twice")
         seen.add(pid)
     if breaches:
-        return RoundCheck(round_number, tuple(breaches), (), None, False)
+        return tuple(breaches), None
     fld = Field(before, round_number, list(seen))
     for g in stored.games:
         cost = fld.pair(g.first, g.second, (g.first, g.second))[1]
+        a, b = name(g.first), name(g.second)
         if fld.forbidden(g.first, g.second):
-            breaches.append(f"H5: board {g.board} pairs {g.first} and {g.second}, on the do-not-pair list")
+            breaches.append(f"H5: board {g.board} pairs {a} and {b}, on the do-not-pair list")
         if cost[0]:
-            breaches.append(f"H1: board {g.board}: {g.first} and {g.second} have met before")
+            breaches.append(f"H1: board {g.board}: {a} and {b} have met before")
         if cost[1]:
-            breaches.append(f"H3: board {g.board}: a side rule is broken ({g.first} - {g.second})")
+            breaches.append(f"H3: board {g.board}: a side rule is broken ({a} - {b})")
     if pairing_bye is not None and fld.bye(pairing_bye)[2]:
-        breaches.append(f"H2: {pairing_bye} gets a second pairing bye or one after an unplayed point")
-    notes: list[str] = []
-    certified = _berge(fld, pairs, pairing_bye, notes)
-    optimal = None
-    if stored.source == "engine":
-        optimal = _optimum_confirmed(state, before, round_number, notes)
-    return RoundCheck(round_number, tuple(breaches), tuple(notes), optimal, certified)
+        breaches.append(f"H2: {name(pairing_bye)} gets a second pairing bye or one after an unplayed point")
+    return tuple(breaches), fld
 
 
 def _berge(fld: Field, pairs: list[tuple[PlayerId, PlayerId]], bye: PlayerId | None,
@@ -112,13 +140,16 @@ def _berge(fld: Field, pairs: list[tuple[PlayerId, PlayerId]], bye: PlayerId | N
                if legal(players[i], players[j])]
     if len(players) % 2:
         allowed += [(i, bye_vertex) for i, p in enumerate(players) if not fld.bye(p)[2]]
-    mine = sum(1 for a, b in pairs if legal(a, b)) + (1 if bye is not None and not fld.bye(bye)[2] else 0)
+    boards = sum(1 for a, b in pairs if legal(a, b))
+    legal_bye = bye is not None and not fld.bye(bye)[2]
+    mine = boards + (1 if legal_bye else 0)
     best = maximum_cardinality(len(players) + 1, allowed)
+    made = f"{boards} legal board{'s' if boards != 1 else ''}" + (" and a legal pairing bye" if legal_bye else "")
     if mine == best:
-        notes.append(f"Berge certificate: {mine} legal boards, and no augmenting path exists in the "
+        notes.append(f"Berge certificate: {made}, and no augmenting path exists in the "
                      "allowed graph, so no pairing has more legal boards")
         return True
-    notes.append(f"Berge: an augmenting path exists: {best} legal boards were possible, {mine} made")
+    notes.append(f"Berge: an augmenting path exists: {best} legal boards and byes were possible, {made} made")
     return False
 
 

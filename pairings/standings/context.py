@@ -17,6 +17,9 @@ The treatment of unplayed rounds follows ``rules.md`` ("Tiebreaks"):
 * *dummy opponent* (FIDE Handbook C.07 of 2023, from memory): an unplayed round
   counts as a game against an opponent holding the player's own score; other
   players' scores count as they stand.
+
+Rounds before a late entrant's entry round are *not entered*, under every
+treatment (:mod:`pairings.standings.entry`): they add no opponent of any kind.
 """
 
 from __future__ import annotations
@@ -26,6 +29,7 @@ from enum import StrEnum
 from types import MappingProxyType
 from typing import Mapping
 
+from pairings.standings.entry import entered
 from pairings.state import EventState, PlayerId, RoundEntry, Scoring, Side, Unplayed
 
 
@@ -35,7 +39,9 @@ class SlotKind(StrEnum):
     PENDING = "pending"
     """A published game whose result is not in yet (provisional standings)."""
     UNPLAYED = "unplayed"
-    """A forfeit, a bye of any kind, an absence, or a round outside the player's entry."""
+    """A forfeit, a bye of any kind, an absence, or a round after the player withdrew."""
+    NOT_ENTERED = "not_entered"
+    """A round before a late entrant's entry round: no round of theirs (:mod:`pairings.standings.entry`)."""
 
 
 @dataclass(frozen=True, slots=True)
@@ -87,6 +93,8 @@ class Context:
         """
         out: list[tuple[Slot, float]] = []
         for slot in self.slots[player]:
+            if slot.kind is SlotKind.NOT_ENTERED:
+                continue
             if slot.opponent is not None:
                 out.append((slot, self.for_others[slot.opponent]))
             elif self.unplayed is Unplayed.VIRTUAL_OPPONENT:
@@ -143,6 +151,8 @@ def build_context(state: EventState, last: int, unplayed: Unplayed) -> Context:
         score = 0.0
         for r in range(1, last + 1):
             slot = _slot(record.entry(r), r, score, scoring)
+            if not entered(state, pid, r):
+                slot = Slot(r, SlotKind.NOT_ENTERED, None, None, slot.points, slot.fraction, slot.won, score)
             row.append(slot)
             score += slot.points
         slots[pid] = tuple(row)
@@ -150,7 +160,7 @@ def build_context(state: EventState, last: int, unplayed: Unplayed) -> Context:
     if unplayed is Unplayed.VIRTUAL_OPPONENT:
         # A player's own unplayed rounds count as draws towards other players' tiebreaks.
         for_others = {
-            pid: sum(s.points if s.kind is not SlotKind.UNPLAYED else scoring.draw for s in row)
+            pid: sum(scoring.draw if s.kind is SlotKind.UNPLAYED else s.points for s in row)
             for pid, row in slots.items()
         }
     else:

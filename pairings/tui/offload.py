@@ -75,7 +75,7 @@ def run(state: EventState, job: Job) -> Outcome:
     """Do ``job`` on ``state`` (whose head is ``job.head``) here and now."""
     try:
         if job.kind == "draft":
-            return Outcome(events=tuple(actions.pair(state)))
+            return Outcome(events=tuple(actions.pair(state, replace=True)))  # the Round place has asked
         if job.kind == "explain":
             return Outcome(lines=tuple(why_lines(state, job.board)))
         if job.kind == "report":

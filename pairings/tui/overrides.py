@@ -45,7 +45,8 @@ def _repair(title: str, overrides: "Overrides", reason_head: str) -> Plan:
     return Plan(
         title=title,
         candidate=lambda s: actions.draft_next(s, overrides),
-        record=lambda s, why: actions.pair(s, overrides, reason=f"{reason_head}: {why.strip()}" if why.strip() else ""),
+        record=lambda s, why: actions.pair(s, overrides, reason=f"{reason_head}: {why.strip()}" if why.strip() else "",
+                                           replace=True),
     )
 
 

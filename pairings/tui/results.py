@@ -16,7 +16,7 @@ from pairings import actions
 from pairings.errors import InputError
 from pairings.state import EventState, Result, Round, RoundState
 from pairings.tui.base import Place
-from pairings.tui.dialogs import ConfirmDialog, open_dialog
+from pairings.tui.dialogs import ConfirmDialog, Field, FormDialog, open_dialog
 from pairings.tui.grid import Column, Grid, RowMaker
 from pairings.tui.text import RESULT_WORDS, cell, name, points, widest
 
@@ -27,6 +27,9 @@ RESULT_KEYS: dict[str, Result] = {
     "plus": Result.FIRST_WINS_BY_FORFEIT,
     "minus": Result.SECOND_WINS_BY_FORFEIT,
     "x": Result.DOUBLE_FORFEIT,
+    "z": Result.BOTH_LOSE,
+    "h": Result.FIRST_HALF_SECOND_LOSES,
+    "j": Result.FIRST_LOSES_SECOND_HALF,
 }
 """The one-key results (the keymap is plain data; the help and the footer read it)."""
 
@@ -111,7 +114,8 @@ class ResultsPlace(Place):
 
     def show_entry(self) -> None:
         text = f"Board: {self.typed}_" if self.typed else "Board: (the one under the cursor)"
-        keys = "  then f first wins · d draw · s second wins · + / - forfeit · x double forfeit · c clear"
+        keys = ("  then f first wins · d draw · s second wins · + / - forfeit · x double forfeit · c clear"
+                " · arbiter: z 0-0, h ½-0, j 0-½")
         self.query_one("#entry", Label).update(text + keys)
 
     def move_to_open(self, start_index: int) -> None:
@@ -183,8 +187,8 @@ class ResultsPlace(Place):
         number, base = rnd.number, self.shown_head
         what = result.value if result is not None else "cleared"
 
-        def write(correct: bool) -> None:
-            if self.apply(lambda s: actions.record_result(s, board, result, number, correct),
+        def write(correct: bool, reason: str = "") -> None:
+            if self.apply(lambda s: actions.record_result(s, board, result, number, correct, reason),
                           f"board {board}: {what}", base):
                 self.move_to_open(board)  # index ``board`` is the board after this one
 
@@ -200,5 +204,16 @@ class ResultsPlace(Place):
                 write(True)
 
         question = f"Board {board} has {game.result.value}; change it to {what}?"
+        later = [r.number for r in self.state.rounds if r.number > number]
+        if later:  # a correction under a later round: it stays as paired, the reason goes into the log
+            def reasoned(values: dict[str, str] | None) -> None:
+                if values is not None:
+                    write(True, values["reason"])
+
+            intro = [question, f"Round {later[0]} is already paired on this result and stays as it is."]
+            open_dialog(self.app, FormDialog("Correct a result", [Field("reason", "Reason (goes into the log)")],
+                                             lambda v: None if v["reason"].strip() else "a correction needs a reason",
+                                             intro), reasoned)
+            return
         open_dialog(self.app, ConfirmDialog(question, [
             f"{name(self.state, game.first)} – {name(self.state, game.second)}"]), confirmed)

@@ -204,7 +204,7 @@ class RosterPlace(Place):
         def check(values: dict[str, str]) -> str | None:
             try:
                 text = read(values["path"])
-                import_roster(self.state, text)
+                actions.refuse_duplicates(self.state, import_roster(self.state, text))
             except RosterError as exc:
                 return "; ".join(exc.problems[:3]) + (f" (and {len(exc.problems) - 3} more)" if len(exc.problems) > 3 else "") + " — nothing imported"
             except InputError as exc:
@@ -215,7 +215,7 @@ class RosterPlace(Place):
         def done(values: dict[str, str] | None) -> None:
             if values is not None:
                 before = len(self.state.players)
-                if self.apply(lambda s: import_roster(s, loaded["text"]), "", base):
+                if self.apply(lambda s: actions.refuse_duplicates(s, import_roster(s, loaded["text"])), "", base):
                     self.notify(f"imported {len(self.state.players) - before} players")
 
         intro = ["A CSV file with a header row: name (required), rating, club, id."]

@@ -132,6 +132,10 @@ class RoundPlace(Place):
         what = f"Round {rnd.number}: {describe_round(rnd)}"
         costs = [f"{k} {points(v)}" for k, v in rnd.cost.items() if v]
         what += " · cost: " + (", ".join(costs) if costs else "none")
+        if rnd.paired_before:
+            what += f" · paired on scores since corrected ({len(rnd.paired_before)}: see the Log)"
+        if rnd.state is RoundState.DRAFT and actions.stale_draft(state):
+            what += " · out of date: press n to draft again"
         status.update(cell(what))
         shape = (rnd.number, tuple((g.board, g.first, g.second, g.flags, g.result) for g in rnd.games))
         if shape != self._boards:
@@ -251,11 +255,33 @@ class RoundPlace(Place):
                 self.busy(f"drafting round {state.next_round_number} of {len(state.players)} players …")
                 self.engine(state, Job("draft", base), "drafted in {seconds:.1f} s")
 
+        waiting = actions.no_shows(state)
+        if waiting:
+            self.ask_no_show(waiting[0], base)
+            return
         if last is not None and last.state is RoundState.DRAFT and last.source != "engine":
             notes = [f"override: {n}" for n in last.notes]
             open_dialog(self.app, ConfirmDialog(f"Draft round {last.number} again from scratch?", notes), go)
         else:
             go()
+
+    def ask_no_show(self, player: PlayerId, base: int) -> None:
+        """A double forfeit counts as a withdrawal unless the regulations say otherwise: ask, then draft."""
+        who = name(self.state, player)
+        number = self.state.next_round_number
+
+        def answered(keep: bool | None) -> None:
+            if keep is None:
+                return
+            act = (lambda s: actions.keep_after_no_show(s, player)) if keep else (
+                lambda s: actions.withdraw(s, player, number, f"no-show in round {number - 1}"))
+            if self.apply(act, f"{who} kept in" if keep else f"{who} withdrawn from round {number}", base):
+                self.action_draft()
+
+        lines = [f"{who} lost round {number - 1} by double forfeit (no-show).",
+                 "A no-show counts as a withdrawal unless the regulations say otherwise.",
+                 "y: keep in the event and pair    n: withdraw from this round on"]
+        open_dialog(self.app, ConfirmDialog(f"Keep {who} in the event?", lines), answered)
 
     @work(thread=True, exclusive=True, group="engine", description="engine work")
     def engine(self, state: EventState, job: Job, done: str, title: str = "") -> None:
@@ -386,6 +412,24 @@ class RoundPlace(Place):
         ]
         lines = [f"Flags still open: {len(lines)}"] + lines if lines else ["No flags open."]
         lines += [f"bye: {name(state, y.player)} ({y.kind.value})" for y in rnd.byes]
+
+        stale = actions.stale_draft(state)
+        if stale:
+            self.notify(f"the draft of round {rnd.number} is out of date ({'; '.join(stale[:3])}): press n to pair "
+                        "again", severity="error", timeout=10)
+            return
+        breaches = actions.override_breaches(state)
+        if breaches:
+            def accepted(values: dict[str, str] | None) -> None:
+                if values is not None:
+                    self.apply(lambda s: actions.publish(s, values["reason"]), f"round {rnd.number} published", base)
+
+            intro = ["Your changes break a hard rule the engine's pairing keeps:", *breaches]
+            open_dialog(self.app, FormDialog(f"Publish round {rnd.number} anyway?",
+                                             [Field("reason", "Reason for accepting it (goes into the log)")],
+                                             lambda v: None if v["reason"].strip() else "give a reason", intro),
+                        accepted)
+            return
 
         def done(yes: bool | None) -> None:
             if yes:

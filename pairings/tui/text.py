@@ -50,6 +50,9 @@ RESULT_WORDS: dict[Result, str] = {
     Result.FIRST_WINS_BY_FORFEIT: "first side wins by forfeit",
     Result.SECOND_WINS_BY_FORFEIT: "second side wins by forfeit",
     Result.DOUBLE_FORFEIT: "double forfeit",
+    Result.BOTH_LOSE: "arbiter: both lose",
+    Result.FIRST_HALF_SECOND_LOSES: "arbiter: ½ to first, second loses",
+    Result.FIRST_LOSES_SECOND_HALF: "arbiter: first loses, ½ to second",
 }
 
 
@@ -57,7 +60,7 @@ def short_result(result: Result | None) -> str:
     """A result in three cells for narrow tables (``½-½`` for a draw)."""
     if result is None:
         return ""
-    return "½-½" if result is Result.DRAW else result.value
+    return "½-½" if result is Result.DRAW else result.value.replace("1/2", "½")
 
 
 def round_status(state: EventState) -> str:

@@ -12,6 +12,7 @@ import subprocess
 import sys
 from pathlib import Path
 
+from pairings import actions
 from pairings.interchange import export_event
 from pairings.state import RoundState
 from pairings.store import EventStore
@@ -64,10 +65,15 @@ async def drive(path: Path, sheet: Path) -> tuple[dict[str, object], list[list[o
         plans = [["f", "d"], ["2", "d", "x"], ["-", "+"]]
         for number, keys in enumerate(plans, 1):
             await pilot.press("f3", "n")
+            kept = []
+            while isinstance(app.screen, ConfirmDialog):  # round 2's double forfeit: keep both players in
+                kept += ["--keep", app.state.players[actions.no_shows(app.state)[0]].name]
+                await pilot.press("y")
             await settle(app, pilot)
             rnd = app.state.last_round
             assert rnd is not None and rnd.number == number and rnd.state is RoundState.DRAFT
-            commands.append(["pair", "E"])
+            assert len(kept) == (4 if number == 3 else 0)
+            commands.append(["pair", "E", *kept])
             if number == 1:
                 a, b = rnd.games[0].first, rnd.games[1].second
                 await pilot.press("s")
