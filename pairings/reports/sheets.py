@@ -12,7 +12,7 @@ from typing import Callable, Literal
 
 from pairings.errors import InputError
 from pairings.reports.clean import stamp
-from pairings.standings import TIEBREAKS, UNPLAYED_LABELS, Standings, standings
+from pairings.standings import UNPLAYED_LABELS, Standings, legend, standings, tiebreak
 from pairings.state import ByeKind, EventState, PlayerId, Round, RoundEntry, RoundState, Side
 
 Cell = str | int | float | None
@@ -157,11 +157,8 @@ def slip_sheet(state: EventState, round_number: int | None, now: datetime) -> Sh
 
 
 def _tiebreak_notes(table: Standings, state: EventState) -> tuple[str, ...]:
-    notes = [f"Tiebreaks with {UNPLAYED_LABELS[table.unplayed]}."]
-    for key in table.tiebreaks:
-        tb = TIEBREAKS[key]
-        notes.append(f"{tb.short} = {tb.label} ({tb.citation})")
-    if any(k in ("average_rating_opponents", "performance_rating") for k in table.tiebreaks):
+    notes = [f"Tiebreaks with {UNPLAYED_LABELS[table.unplayed]}.", *legend(table.tiebreaks)]
+    if any(tiebreak(a).kind.uses_ratings for a in table.tiebreaks):
         notes.append(f"Unrated players count as {state.settings.default_rating}.")
     if table.provisional:
         missing = [r.number for r in state.rounds
@@ -171,7 +168,7 @@ def _tiebreak_notes(table: Standings, state: EventState) -> tuple[str, ...]:
 
 
 def _tiebreak_columns(table: Standings) -> tuple[Column, ...]:
-    return tuple(Column(key, TIEBREAKS[key].short, "points") for key in table.tiebreaks)
+    return tuple(Column(tiebreak(a).key, a, "points") for a in table.tiebreaks)
 
 
 def standings_sheet(state: EventState, round_number: int | None, now: datetime) -> Sheet:

@@ -35,6 +35,7 @@ class StandingsPlace(Place):
     def body(self) -> ComposeResult:
         yield Label("", id="standings-status", classes="status")
         yield Grid(id="standings")
+        yield Label("", id="standings-legend", classes="status")
 
     def on_mount(self) -> None:
         self.query_one("#standings", Grid).focus()
@@ -58,7 +59,7 @@ class StandingsPlace(Place):
     def computed(self, message: Computed) -> None:
         if message.head != self.state.head:
             return
-        from pairings.standings import TIEBREAKS, UNPLAYED_LABELS
+        from pairings.standings import UNPLAYED_LABELS, legend
 
         status = self.query_one("#standings-status", Label)
         grid = self.query_one("#standings", Grid)
@@ -66,12 +67,14 @@ class StandingsPlace(Place):
         if st is None:
             grid.set_rows([])
             status.update(cell(message.problem))
+            self.query_one("#standings-legend", Label).update("")
             return
         note = "provisional: results still open" if st.provisional else "final for this round"
         status.update(cell(f"After round {st.after_round} ({note}); {UNPLAYED_LABELS[st.unplayed]}"))
+        self.query_one("#standings-legend", Label).update(cell(" · ".join(legend(st.tiebreaks))))
         grid.set_columns([Column("rank", "Rank", limit=9), Column("name", "Name", flex=True),
                           Column("points", "Points", 6)]
-                         + [Column(key, TIEBREAKS[key].short, limit=8) for key in st.tiebreaks]
+                         + [Column(key, key, limit=8) for key in st.tiebreaks]
                          + [Column("status", "Status", 9)])
         rows = st.rows
 
