@@ -41,6 +41,10 @@ class RosterError(InputError):
         super().__init__(f"roster not imported, {count}: {'; '.join(problems)}")
 
 
+class PrizeError(InputError):
+    """A prize category or prize defined wrongly, or one that does not exist."""
+
+
 class NoPairingError(InputError):
     """The engine cannot pair this field (too few players, bad pins, ...)."""
 

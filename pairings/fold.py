@@ -18,6 +18,8 @@ from pairings.state import (
     DEFAULT_TIEBREAKS,
     Bye,
     ByeKind,
+    Category,
+    CategoryRule,
     EventState,
     Float,
     ForbiddenPair,
@@ -26,6 +28,8 @@ from pairings.state import (
     PlayerDetails,
     PlayerId,
     PlayerRecord,
+    Prize,
+    PrizePolicy,
     Round,
     RoundEntry,
     RoundState,
@@ -44,6 +48,9 @@ class _Builder:
     forbidden: list[ForbiddenPair] = field(default_factory=list)
     requests: dict[int, dict[PlayerId, ByeKind]] = field(default_factory=dict)
     head: int = 0
+    categories: dict[str, Category] = field(default_factory=dict)
+    prizes: dict[tuple[str | None, int], Prize] = field(default_factory=dict)
+    prize_policy: PrizePolicy = PrizePolicy()
 
 
 @singledispatch
@@ -225,6 +232,44 @@ def _(e: ev.ResultRecorded, b: _Builder) -> None:
     games[e.board] = replace(games[e.board], result=e.result)
 
 
+@_apply.register
+def _(e: ev.CategoryDefined, b: _Builder) -> None:
+    rule = CategoryRule(**e.rule.model_dump()) if e.rule is not None else None
+    old = b.categories.get(e.name)
+    b.categories[e.name] = replace(old, rule=rule) if old is not None else Category(e.name, rule)
+
+
+@_apply.register
+def _(e: ev.CategoryRemoved, b: _Builder) -> None:
+    b.categories.pop(e.name, None)
+    for key in [k for k in b.prizes if k[0] == e.name]:
+        del b.prizes[key]
+
+
+@_apply.register
+def _(e: ev.CategoryMember, b: _Builder) -> None:
+    c = b.categories[e.category]
+    pid = PlayerId(e.player)
+    if e.member:
+        b.categories[e.category] = replace(c, added=c.added | {pid}, excluded=c.excluded - {pid})
+    else:
+        b.categories[e.category] = replace(c, added=c.added - {pid}, excluded=c.excluded | {pid})
+
+
+@_apply.register
+def _(e: ev.PrizeSet, b: _Builder) -> None:
+    if e.amount is None:
+        b.prizes.pop((e.category, e.place), None)
+    else:
+        b.prizes[e.category, e.place] = Prize(e.category, e.place, e.amount)
+
+
+@_apply.register
+def _(e: ev.PrizePolicySet, b: _Builder) -> None:
+    changes = {k: v for k, v in e.model_dump(exclude={"type"}).items() if v is not None}
+    b.prize_policy = replace(b.prize_policy, **changes)
+
+
 @dataclass(frozen=True)
 class _Played:
     """One counted round's entries and the scores after it (reused while the rounds before it stay)."""
@@ -330,6 +375,9 @@ class Folder:
             requests=MappingProxyType({k: MappingProxyType(dict(v)) for k, v in b.requests.items()}),
             records=MappingProxyType(_records(b.settings, b.players, rounds, self._played)),
             head=b.head,
+            categories=MappingProxyType(dict(b.categories)),
+            prizes=tuple(b.prizes.values()),
+            prize_policy=b.prize_policy,
         )
 
 
