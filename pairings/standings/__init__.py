@@ -5,7 +5,7 @@ See ``docs/tiebreaks.md`` for the definitions and their sources.
 """
 
 from pairings.standings.context import Context, Slot, SlotKind, build_context
-from pairings.standings.table import Standings, StandingsRow, counted_rounds, standings
+from pairings.standings.table import Standings, StandingsRow, category_rows, counted_rounds, standings
 from pairings.standings.ratings import dp_from_fraction
 from pairings.standings.tiebreaks import (
     EDITION, TIEBREAKS, Kind, Tiebreak, check_tiebreaks, default_tiebreaks, legend, tiebreak,
@@ -21,6 +21,6 @@ UNPLAYED_LABELS = {
 
 __all__ = [
     "EDITION", "TIEBREAKS", "UNPLAYED_LABELS", "Context", "Kind", "Slot", "SlotKind", "Standings",
-    "StandingsRow", "Tiebreak", "Unplayed", "build_context", "check_tiebreaks", "counted_rounds",
+    "StandingsRow", "Tiebreak", "Unplayed", "build_context", "category_rows", "check_tiebreaks", "counted_rounds",
     "default_tiebreaks", "dp_from_fraction", "legend", "standings", "tiebreak",
 ]

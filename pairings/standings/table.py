@@ -9,7 +9,7 @@ C.07, 2023 as remembered).
 
 from __future__ import annotations
 
-from dataclasses import dataclass
+from dataclasses import dataclass, replace
 from types import MappingProxyType
 from typing import Mapping, Sequence
 
@@ -152,3 +152,14 @@ def standings(
         r.state is RoundState.PUBLISHED for r in state.rounds if r.number <= last
     )
     return Standings(rows=rows, tiebreaks=names, unplayed=treatment, after_round=last, provisional=provisional)
+
+
+def category_rows(table: Standings, inside: frozenset[PlayerId] | set[PlayerId]) -> tuple[StandingsRow, ...]:
+    """The rows of the players ``inside`` a category, ranked among themselves in the same order;
+    players who share a rank overall share one here too."""
+    picked = [r for r in table.rows if r.player in inside]
+    first: dict[str, float] = {}
+    for n, row in enumerate(table.rows):
+        first.setdefault(str(row.rank), float(n))
+    ranks = _shared_ranks([(first[str(r.rank)],) for r in picked])
+    return tuple(replace(r, rank=rank) for r, rank in zip(picked, ranks))
