@@ -25,7 +25,7 @@ SAMPLE_TIME = datetime(2026, 12, 5, 18, 30, tzinfo=timezone.utc)
 EXTENSIONS = {"text": "txt", "csv": "csv", "json": "json", "html": "html", "pdf": "pdf"}
 
 
-SAMPLE_PRIZES = (
+SAMPLE_PRIZES: tuple[ev.Event, ...] = (
     ev.CategoryDefined(name="Under 1800", rule=ev.CategoryRuleModel(rating_below=1800)),
     ev.CategoryDefined(name="Unrated", rule=ev.CategoryRuleModel(unrated=True)),
     ev.CategoryDefined(name="Lantern Street", rule=ev.CategoryRuleModel(club="Lantern Street Club")),
