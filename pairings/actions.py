@@ -21,6 +21,7 @@ from pairings.errors import (
 from pairings.state import ByeKind, EventState, PlayerId, Result, Round, RoundState, Status, System
 from pairings.store import StoredEvent, undo_target
 from pairings.text import counted
+from pairings.standings.tiebreaks import default_tiebreaks
 
 if TYPE_CHECKING:  # the engine (and networkx) load only for the commands that pair
     from pairings.engine import Draft, Overrides
@@ -48,11 +49,13 @@ def new_event(
     points = win if bye_points is None else bye_points
     if not 0 <= points <= win:
         raise InputError(f"bye points {points} must lie between 0 and a win ({win})")
+    system = System.ROUND_ROBIN if round_robin or double_round else System.SWISS
     return ev.EventCreated(
         name=name, rounds=rounds, scoring=ev.ScoringModel(win=win, draw=draw, loss=loss),
         sides=("White", "Black") if sides else None, bye_points=points, requested_bye_points=draw,
         seed=secrets.randbelow(2**31) if seed is None else seed,
-        system=System.ROUND_ROBIN if round_robin or double_round else System.SWISS, double_round=double_round,
+        system=system, double_round=double_round,
+        tiebreaks=default_tiebreaks(system, sides),  # the C.07 recommendations (pairings.standings.tiebreaks)
     )
 
 

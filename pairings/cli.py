@@ -18,6 +18,8 @@ from typing import Any, Callable, NoReturn, Sequence
 from pairings import actions
 from pairings.errors import InputError, NoPairingError, PairingsError
 from pairings.events import Undone
+from pairings.cliawards import add_award_commands
+from pairings.printouts import FORMATS, KINDS, PAPERS
 from pairings.state import ByeKind, EventState, RoundState
 from pairings.store import EventStore
 from pairings.text import cells, counted, fit, one_line, plain
@@ -283,11 +285,23 @@ def cmd_print(a: argparse.Namespace) -> None:
     _report(a, a.kind)
 
 
+def cmd_prizes(a: argparse.Namespace) -> None:
+    _report(a, "prizes")
+
+
 def _report(a: argparse.Namespace, kind: str) -> None:
+    from dataclasses import replace
+
     from pairings.reports import render
+    from pairings.standings import check_tiebreaks
 
     with _open(a.event) as store:
-        out = render(store.state, kind, a.format, getattr(a, "round", None))
+        state = store.state
+    if getattr(a, "tiebreaks", None):   # another list for this printout only; the event keeps its own
+        chosen = check_tiebreaks([t for t in a.tiebreaks.split(",") if t.strip()])
+        state = replace(state, settings=replace(state.settings, tiebreaks=chosen))
+    out = render(state, kind, a.format, getattr(a, "round", None), category=getattr(a, "category", None),
+                 paper=getattr(a, "paper", None))
     if a.output:
         from pairings.reports.files import write_file
 
@@ -472,14 +486,19 @@ def build_parser() -> argparse.ArgumentParser:
     sp.add_argument("--correct", action="store_true", help="change a result already entered")
     sp.add_argument("--reason", help="why (with --correct; needed once a later round is paired)")
     sp = add("standings", cmd_standings, "the standings with the event's tiebreaks")
-    sp.add_argument("--round", type=int, help="the standings after this round (default: the last published one)")
-    sp.add_argument("--format", default="text", choices=("text", "csv", "json", "html", "pdf"))
-    sp.add_argument("-o", "--output", metavar="FILE", type=_path)
-    sp = add("print", cmd_print, "a printout: pairings, names, slips, standings, crosstable")
-    sp.add_argument("kind", choices=("pairings", "names", "slips", "standings", "crosstable"))
+    sp.add_argument("--round", type=int, help="after this round (default: the last published)")
+    _sheet_options(sp, category=True)
+    sp.add_argument("--tiebreaks", metavar="LIST",
+                    help="another tiebreak list for this printout only, e.g. BH-C1,BH,SB,WIN")
+    sp = add("print", cmd_print, "a printout: " + ", ".join(KINDS))
+    sp.add_argument("kind", choices=KINDS)
     sp.add_argument("--round", type=int)
-    sp.add_argument("--format", default="text", choices=("text", "csv", "json", "html", "pdf"))
-    sp.add_argument("-o", "--output", metavar="FILE", type=_path)
+    _sheet_options(sp, category=True)
+    sp = add("prizes", cmd_prizes, "the prize list: places, winners and amounts per category")
+    sp.add_argument("--round", type=int, help="after this round (default: the last published)")
+    _sheet_options(sp)
+
+    add_award_commands(sub, _Parser)
     sp = add("publish-web", cmd_publish_web, "write static web pages (pairings, standings) to a folder")
     sp.add_argument("directory", metavar="DIR", type=_path)
     add("export", cmd_export, "print the event as one JSON document")
@@ -494,6 +513,14 @@ def build_parser() -> argparse.ArgumentParser:
     sp.add_argument("--file", type=_path, help="where to write the demo copy (default: a new temporary folder)")
     sp.add_argument("--no-desk", action="store_true", help="print the demo's round instead of opening the desk")
     return p
+
+
+def _sheet_options(sp: argparse.ArgumentParser, category: bool = False) -> None:
+    sp.add_argument("--format", default="text", choices=FORMATS)
+    sp.add_argument("-o", "--output", metavar="FILE", type=_path)
+    sp.add_argument("--paper", choices=PAPERS, help="PDF and HTML page size (default: from the locale; US/CA letter)")
+    if category:
+        sp.add_argument("--category", metavar="NAME", help="the standings of one prize category")
 
 
 _CODE_MARK = "result:"

@@ -53,6 +53,10 @@ class NoShowError(RoundStateError):
     """Players lost the last round by double forfeit and nobody has said whether they stay in."""
 
 
+class PrizeError(InputError):
+    """A prize category or prize defined wrongly, or one that does not exist."""
+
+
 class NoPairingError(InputError):
     """The engine cannot pair this field (too few players, bad pins, ...)."""
 

@@ -11,7 +11,7 @@ from typing import Annotated, Literal, Union
 
 from pydantic import BaseModel, ConfigDict, Field, TypeAdapter
 
-from pairings.state import Acceleration, ByeKind, Result, System, Unplayed
+from pairings.state import Acceleration, BetterPrize, ByeKind, PrizeTies, Result, System, Unplayed
 
 SCHEMA_VERSION = 3
 
@@ -225,6 +225,62 @@ class Undone(_Event):
     summary: str = ""
 
 
+class CategoryRuleModel(_Event):
+    """Stored form of :class:`pairings.state.CategoryRule`."""
+
+    age_under: int | None = Field(default=None, ge=1)
+    age_from: int | None = Field(default=None, ge=1)
+    age_on: str | None = None
+    sex: Literal["m", "f"] | None = None
+    rating_from: int | None = None
+    rating_below: int | None = None
+    rating_list: str | None = None
+    unrated: bool = False
+    label: str | None = None
+    club: str | None = None
+
+
+class CategoryDefined(_Event):
+    """Defines a prize category, or redefines one of the same name (its hand-given members stay)."""
+
+    type: Literal["category-defined"] = "category-defined"
+    name: str
+    rule: CategoryRuleModel | None = None
+    """None: every member is given by hand."""
+
+
+class CategoryRemoved(_Event):
+    type: Literal["category-removed"] = "category-removed"
+    name: str
+
+
+class CategoryMember(_Event):
+    """Puts a player in a category by hand (``member``), or leaves them out of it."""
+
+    type: Literal["category-member"] = "category-member"
+    category: str
+    player: str
+    member: bool = True
+
+
+class PrizeSet(_Event):
+    """Sets the prize for a place of a category (None: the overall standings); amount None removes it."""
+
+    type: Literal["prize-set"] = "prize-set"
+    category: str | None = None
+    place: int = Field(ge=1)
+    amount: int | None = Field(default=None, ge=0)
+    """Integer minor units."""
+
+
+class PrizePolicySet(_Event):
+    type: Literal["prize-policy-set"] = "prize-policy-set"
+    better: BetterPrize | None = None
+    ties: PrizeTies | None = None
+    currency: str | None = None
+    minor_digits: int | None = Field(default=None, ge=0, le=3)
+
+
 Event = Annotated[
     Union[
         EventCreated,
@@ -245,6 +301,11 @@ Event = Annotated[
         BreachAccepted,
         NoShowKept,
         Undone,
+        CategoryDefined,
+        CategoryRemoved,
+        CategoryMember,
+        PrizeSet,
+        PrizePolicySet,
     ],
     Field(discriminator="type"),
 ]

@@ -18,6 +18,8 @@ from pairings.state import (
     DEFAULT_TIEBREAKS,
     Bye,
     ByeKind,
+    Category,
+    CategoryRule,
     EventState,
     Float,
     ForbiddenPair,
@@ -26,6 +28,8 @@ from pairings.state import (
     PlayerDetails,
     PlayerId,
     PlayerRecord,
+    Prize,
+    PrizePolicy,
     Round,
     RoundEntry,
     RoundState,
@@ -45,6 +49,9 @@ class _Builder:
     requests: dict[int, dict[PlayerId, ByeKind]] = field(default_factory=dict)
     head: int = 0
     kept: set[tuple[PlayerId, int]] = field(default_factory=set)
+    categories: dict[str, Category] = field(default_factory=dict)
+    prizes: dict[tuple[str | None, int], Prize] = field(default_factory=dict)
+    prize_policy: PrizePolicy = PrizePolicy()
 
 
 @singledispatch
@@ -248,6 +255,44 @@ def _(e: ev.NoShowKept, b: _Builder) -> None:
     b.kept.add((PlayerId(e.player), e.round))
 
 
+@_apply.register
+def _(e: ev.CategoryDefined, b: _Builder) -> None:
+    rule = CategoryRule(**e.rule.model_dump()) if e.rule is not None else None
+    old = b.categories.get(e.name)
+    b.categories[e.name] = replace(old, rule=rule) if old is not None else Category(e.name, rule)
+
+
+@_apply.register
+def _(e: ev.CategoryRemoved, b: _Builder) -> None:
+    b.categories.pop(e.name, None)
+    for key in [k for k in b.prizes if k[0] == e.name]:
+        del b.prizes[key]
+
+
+@_apply.register
+def _(e: ev.CategoryMember, b: _Builder) -> None:
+    c = b.categories[e.category]
+    pid = PlayerId(e.player)
+    if e.member:
+        b.categories[e.category] = replace(c, added=c.added | {pid}, excluded=c.excluded - {pid})
+    else:
+        b.categories[e.category] = replace(c, added=c.added - {pid}, excluded=c.excluded | {pid})
+
+
+@_apply.register
+def _(e: ev.PrizeSet, b: _Builder) -> None:
+    if e.amount is None:
+        b.prizes.pop((e.category, e.place), None)
+    else:
+        b.prizes[e.category, e.place] = Prize(e.category, e.place, e.amount)
+
+
+@_apply.register
+def _(e: ev.PrizePolicySet, b: _Builder) -> None:
+    changes = {k: v for k, v in e.model_dump(exclude={"type"}).items() if v is not None}
+    b.prize_policy = replace(b.prize_policy, **changes)
+
+
 @dataclass(frozen=True)
 class _Played:
     """One counted round's entries and the scores after it (reused while the rounds before it stay)."""
@@ -354,6 +399,9 @@ class Folder:
             records=MappingProxyType(_records(b.settings, b.players, rounds, self._played)),
             head=b.head,
             kept_after_no_show=frozenset(b.kept),
+            categories=MappingProxyType(dict(b.categories)),
+            prizes=tuple(b.prizes.values()),
+            prize_policy=b.prize_policy,
         )
 
 

@@ -123,3 +123,35 @@ def _(e: ev.NoShowKept) -> str:
 @_line.register
 def _(e: ev.Undone) -> str:
     return f"undo of event {e.target}" + (f" ({e.summary})" if e.summary else "")
+
+
+@_line.register
+def _(e: ev.CategoryDefined) -> str:
+    if e.rule is None:
+        return f"category {e.name!r} defined (members by hand)"
+    rule = {k: v for k, v in e.rule.model_dump().items() if v not in (None, False)}
+    return f"category {e.name!r} defined: " + ", ".join(f"{k.replace('_', ' ')} {v}" for k, v in rule.items())
+
+
+@_line.register
+def _(e: ev.CategoryRemoved) -> str:
+    return f"category {e.name!r} removed"
+
+
+@_line.register
+def _(e: ev.CategoryMember) -> str:
+    return f"player {e.player} {'put in' if e.member else 'left out of'} category {e.category!r} by hand"
+
+
+@_line.register
+def _(e: ev.PrizeSet) -> str:
+    where = f"category {e.category!r}" if e.category is not None else "the overall standings"
+    if e.amount is None:
+        return f"prize for place {e.place} of {where} removed"
+    return f"prize for place {e.place} of {where}: {e.amount} minor units"
+
+
+@_line.register
+def _(e: ev.PrizePolicySet) -> str:
+    changed = {k: v for k, v in e.model_dump(exclude={"type"}).items() if v is not None}
+    return "prize rules changed: " + ", ".join(f"{k.replace('_', ' ')} {v}" for k, v in changed.items())

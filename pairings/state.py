@@ -354,6 +354,75 @@ class PlayerRecord:
 
 
 @dataclass(frozen=True, slots=True)
+class CategoryRule:
+    """Who belongs to a category by rule (every condition given must hold; see pairings.categories)."""
+
+    age_under: int | None = None
+    """Younger than this many whole years on ``age_on``."""
+    age_from: int | None = None
+    """At least this many whole years old on ``age_on``."""
+    age_on: str | None = None
+    """The date ages are counted on, ``YYYY-MM-DD``."""
+    sex: str | None = None
+    rating_from: int | None = None
+    rating_below: int | None = None
+    rating_list: str | None = None
+    """The rating list the band and ``unrated`` read (None: the event's own rating)."""
+    unrated: bool = False
+    label: str | None = None
+    club: str | None = None
+
+
+@dataclass(frozen=True, slots=True)
+class Category:
+    name: str
+    rule: CategoryRule | None
+    """None for a category whose members are all given by hand."""
+    added: frozenset[PlayerId] = frozenset()
+    """Members given by hand beyond the rule."""
+    excluded: frozenset[PlayerId] = frozenset()
+    """Players the rule takes in but the organiser left out by hand."""
+
+
+class BetterPrize(StrEnum):
+    """Which of two prizes a player eligible for both receives (one prize per player)."""
+
+    AMOUNT = "amount"
+    """The larger amount; between equal amounts the category listed first."""
+    ORDER = "order"
+    """The category listed first (the overall list first), whatever the amounts."""
+
+
+class PrizeTies(StrEnum):
+    """How players equal on points share prizes (the event's regulations say which)."""
+
+    TIEBREAKS = "tiebreaks"
+    """The tiebreaks decide; no sharing."""
+    SHARED = "shared"
+    """The prizes of the places the tied players occupy are added and shared equally."""
+    HORT = "hort"
+    """Hort system (from memory): half of each prize by tiebreaks, the other half shared equally."""
+
+
+@dataclass(frozen=True, slots=True)
+class Prize:
+    category: str | None
+    """None for the overall standings."""
+    place: int
+    amount: int
+    """Integer minor units (cents): never a float."""
+
+
+@dataclass(frozen=True, slots=True)
+class PrizePolicy:
+    better: BetterPrize = BetterPrize.AMOUNT
+    ties: PrizeTies = PrizeTies.TIEBREAKS
+    currency: str = ""
+    minor_digits: int = 2
+    """Digits of the minor unit: 2 for cents, 0 for a currency without one."""
+
+
+@dataclass(frozen=True, slots=True)
 class EventState:
     settings: Settings
     players: Mapping[PlayerId, Player]
@@ -367,6 +436,11 @@ class EventState:
     """Sequence number of the last event folded in (0 for an empty log)."""
     kept_after_no_show: frozenset[tuple[PlayerId, int]] = frozenset()
     """(player, round) of double forfeits after which the organiser kept the player in the event."""
+    categories: Mapping[str, Category] = field(default_factory=lambda: MappingProxyType({}))
+    """Prize categories by name, in the order defined."""
+    prizes: tuple[Prize, ...] = ()
+    """In the order defined; one per category and place."""
+    prize_policy: PrizePolicy = PrizePolicy()
 
     @property
     def last_round(self) -> Round | None:

@@ -1,4 +1,5 @@
-"""Printed sheets and files: pairing sheet, names list, result slips, standings, crosstable.
+"""Printed sheets and files: pairing sheet, names list, result slips, standings, crosstable,
+starting rank list, round-robin grid, prize list (the kinds are named in :mod:`pairings.printouts`).
 
 :func:`render` turns the event's state into one kind of sheet in one format;
 :func:`publish_web` writes a static folder of pages. Imports rich (terminal
@@ -13,50 +14,66 @@ from pairings.errors import InputError
 from pairings.reports.data import render_csv, render_json, standings_json
 from pairings.reports.html import publish_web, render_html
 from pairings.reports.pdf import render_pdf
-from pairings.reports.sheets import BUILDERS, Sheet
+from pairings.printouts import FORMATS, KINDS, PAPERS
+from pairings.reports.paper import default_paper
+from pairings.reports.posted import grid_sheet, prize_sheet, start_list_sheet
+from pairings.reports.sheets import BUILDERS, Builder, Sheet, standings_sheet
 from pairings.reports.text import render_text
 from pairings.standings import standings
 from pairings.state import EventState
 
-KINDS = ("pairings", "names", "slips", "standings", "crosstable")
-FORMATS = ("text", "csv", "json", "html", "pdf")
+ALL_BUILDERS: dict[str, Builder] = {**BUILDERS, "start-list": start_list_sheet, "grid": grid_sheet,
+                                    "prizes": prize_sheet}
+assert tuple(ALL_BUILDERS) == KINDS, "pairings.printouts.KINDS lists every sheet, in order"
 
 
-def sheet(state: EventState, kind: str, round_number: int | None = None, now: datetime | None = None) -> Sheet:
+def sheet(state: EventState, kind: str, round_number: int | None = None, now: datetime | None = None,
+          category: str | None = None) -> Sheet:
     """The format-neutral sheet behind :func:`render` (for the desk's own views)."""
     if kind not in KINDS:
         raise InputError(f"unknown sheet {kind!r}: use one of {', '.join(KINDS)}")
-    return BUILDERS[kind](state, round_number, now or datetime.now().astimezone())
+    moment = now or datetime.now().astimezone()
+    if category is not None:
+        if kind != "standings":
+            raise InputError(f"a category applies to the standings, not to the {kind} sheet")
+        return standings_sheet(state, round_number, moment, category)
+    return ALL_BUILDERS[kind](state, round_number, moment)
 
 
 def render(state: EventState, kind: str, fmt: str, round_number: int | None = None,
-           now: datetime | None = None) -> str | bytes:
+           now: datetime | None = None, category: str | None = None, paper: str | None = None) -> str | bytes:
     """Render sheet ``kind`` of round ``round_number`` (default: the latest) in format ``fmt``.
 
     Pairings, names and slips default to the latest round in any state (a draft
-    is printed with a DRAFT banner); standings and crosstable count the rounds
-    up to ``round_number`` (default: the last published one). Returns ``bytes``
-    for ``pdf``, ``str`` otherwise. JSON of the standings is the interchange list.
+    is printed with a DRAFT banner); standings, crosstable, grid and prizes count
+    the rounds up to ``round_number`` (default: the last published one); the
+    start list needs no round. ``category`` narrows the standings to one prize
+    category; ``paper`` (``a4`` or ``letter``, default from the locale) sizes PDF
+    and HTML pages. Returns ``bytes`` for ``pdf``, ``str`` otherwise. JSON of the
+    standings is the interchange list.
 
     Raises
     ------
-    InputError : unknown kind or format, no such round, nothing to print yet.
+    InputError : unknown kind, format, paper or category, no such round, nothing to print yet.
     """
     if fmt not in FORMATS:
         raise InputError(f"unknown format {fmt!r}: use one of {', '.join(FORMATS)}")
+    size = paper.lower() if paper is not None else default_paper()
+    if size not in PAPERS:
+        raise InputError(f"unknown paper {paper!r}: use a4 or letter")
     moment = now or datetime.now().astimezone()
-    built = sheet(state, kind, round_number, moment)
+    built = sheet(state, kind, round_number, moment, category)
     if fmt == "text":
         return render_text(built)
     if fmt == "csv":
         return render_csv(built)
     if fmt == "json":
-        if kind == "standings":
+        if kind == "standings" and category is None:
             return standings_json(standings(state, after_round=round_number).to_json())
         return render_json(built)
     if fmt == "html":
-        return render_html(built)
-    return render_pdf(built, moment)
+        return render_html(built, size)
+    return render_pdf(built, moment, size)
 
 
-__all__ = ["FORMATS", "KINDS", "publish_web", "render", "sheet"]
+__all__ = ["FORMATS", "KINDS", "PAPERS", "default_paper", "publish_web", "render", "sheet"]

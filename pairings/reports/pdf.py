@@ -30,6 +30,7 @@ _FAMILY = "DejaVu"
 _WEIGHT = {"name": 5.0, "points": 1.5, "number": 1.1, "rank": 1.4, "result": 2.2, "text": 2.0}
 _ALIGN = {"points": "RIGHT", "number": "RIGHT", "rank": "RIGHT"}
 _PADDING = 0.8
+_PAPER = {"a4": "A4", "letter": "Letter"}
 _SLIP_NAME = 80
 """Characters of a name kept on a result slip; longer names end in an ellipsis."""
 
@@ -57,8 +58,8 @@ def printable(text: str) -> str:
 
 
 class _Document(FPDF):
-    def __init__(self, sheet: Sheet, landscape: bool) -> None:
-        super().__init__(orientation="L" if landscape else "P", unit="mm", format="A4")
+    def __init__(self, sheet: Sheet, landscape: bool, paper: str = "a4") -> None:
+        super().__init__(orientation="L" if landscape else "P", unit="mm", format=_PAPER[paper])
         self.sheet = sheet
         self.add_font(_FAMILY, "", str(_FONTS / "DejaVuSans.ttf"))
         self.add_font(_FAMILY, "B", str(_FONTS / "DejaVuSans-Bold.ttf"))
@@ -86,7 +87,7 @@ class _Document(FPDF):
 def _table(pdf: _Document, table: Table, size: float) -> None:
     shown = table.printed_columns()
     kinds = [table.columns[i].kind for i in shown]
-    cross = pdf.sheet.kind == "crosstable"
+    cross = pdf.sheet.kind in ("crosstable", "grid")
     widths = [(_WEIGHT[k] if not (cross and k == "text") else 1.3) for k in kinds]
     pdf.set_font(_FAMILY, "B", size + 1)
     pdf.cell(0, 6, table.caption, new_x=XPos.LMARGIN, new_y=YPos.NEXT)
@@ -141,10 +142,10 @@ def _slips(pdf: _Document) -> None:
     pdf.set_dash_pattern()
 
 
-def render_pdf(sheet: Sheet, now: datetime) -> bytes:
-    """The sheet as PDF bytes."""
-    wide = sheet.kind == "crosstable" and sum(len(t.columns) for t in sheet.tables) > 12
-    pdf = _Document(sheet, landscape=wide)
+def render_pdf(sheet: Sheet, now: datetime, paper: str = "a4") -> bytes:
+    """The sheet as PDF bytes, on A4 or Letter (``paper``)."""
+    wide = sheet.kind in ("crosstable", "grid") and sum(len(t.columns) for t in sheet.tables) > 12
+    pdf = _Document(sheet, landscape=wide, paper=paper)
     pdf.set_creation_date(now)
     pdf.alias_nb_pages()
     pdf.add_page()

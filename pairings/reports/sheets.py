@@ -12,7 +12,8 @@ from typing import Callable, Literal
 
 from pairings.errors import InputError
 from pairings.reports.clean import stamp
-from pairings.standings import TIEBREAKS, UNPLAYED_LABELS, Standings, standings
+from pairings.categories import describe_rule, find_category, members
+from pairings.standings import UNPLAYED_LABELS, Standings, category_rows, legend, standings, tiebreak
 from pairings.state import ByeKind, EventState, PlayerId, Round, RoundEntry, RoundState, Side
 
 Cell = str | int | float | None
@@ -67,6 +68,22 @@ def pick_round(state: EventState, number: int | None) -> Round:
     return found
 
 
+def start_numbers(state: EventState) -> dict[PlayerId, int]:
+    """Each player's start number: the place in the initial rank (rating, then name), from 1.
+
+    The round-robin seats follow the same order, so on a grid the number is also the seat.
+    """
+    return {pid: n for n, pid in enumerate(state.initial_rank(), 1)}
+
+
+def surname_key(name: str) -> tuple[str, str]:
+    """Sort key by surname: the part before a comma ("Amberlight, Zinnia"), else the last word
+    (common practice, no source; particles such as "van" are not recognised)."""
+    folded = name.casefold().strip()
+    family = folded.split(",", 1)[0] if "," in folded else (folded.split() or [""])[-1]
+    return family, folded
+
+
 def side_labels(state: EventState) -> tuple[str, str]:
     sides = state.settings.sides
     return sides if sides is not None else ("Player", "Player")
@@ -99,16 +116,21 @@ def pairing_sheet(state: EventState, round_number: int | None, now: datetime) ->
     rnd = pick_round(state, round_number)
     first, second = side_labels(state)
     before = {pid: state.records[pid].score_before(rnd.number) for pid in state.players}
+    number = start_numbers(state)
+    players = state.players
     rows = tuple(
-        (g.board, g.first, state.players[g.first].name, before[g.first],
-         g.second, state.players[g.second].name, before[g.second], g.result.value if g.result else None)
+        (g.board, g.first, number[g.first], players[g.first].name, players[g.first].rating, before[g.first],
+         g.second, number[g.second], players[g.second].name, players[g.second].rating, before[g.second],
+         g.result.value if g.result else None)
         for g in rnd.games
     )
     columns = (
         Column("board", "Board", "number"),
-        Column("first_id", "Id", "id"), Column("first", first, "name"), Column("first_score", "Score", "points"),
-        Column("second_id", "Id", "id"), Column("second", second, "name"),
-        Column("second_score", "Score", "points"), Column("result", "Result", "result"),
+        Column("first_id", "Id", "id"), Column("first_no", "No.", "number"), Column("first", first, "name"),
+        Column("first_rating", "Rtg", "number"), Column("first_score", "Score", "points"),
+        Column("second_id", "Id", "id"), Column("second_no", "No.", "number"), Column("second", second, "name"),
+        Column("second_rating", "Rtg", "number"), Column("second_score", "Score", "points"),
+        Column("result", "Result", "result"),
     )
     tables = (Table("Boards", columns, rows),) + ((_byes_table(state, rnd),) if rnd.byes else ())
     return _sheet(state, "pairings", "Pairings", rnd.number, f"Round {rnd.number}", now,
@@ -116,7 +138,7 @@ def pairing_sheet(state: EventState, round_number: int | None, now: datetime) ->
 
 
 def name_sheet(state: EventState, round_number: int | None, now: datetime) -> Sheet:
-    """Every player by name: their board and side, their bye, or why they are not paired."""
+    """Every player by surname: their board and side, their bye, or why they are not paired."""
     rnd = pick_round(state, round_number)
     where: dict[PlayerId, tuple[Cell, Cell, Cell]] = {}
     sides = state.settings.sides
@@ -126,7 +148,7 @@ def name_sheet(state: EventState, round_number: int | None, now: datetime) -> Sh
     for b in rnd.byes:
         where[b.player] = (None, BYE_WORDS[b.kind], None)
     rows = []
-    for p in sorted(state.players.values(), key=lambda p: (p.name.casefold(), p.order)):
+    for p in sorted(state.players.values(), key=lambda p: (surname_key(p.name), p.order)):
         if p.id in where:
             board, side, opponent = where[p.id]
         else:
@@ -157,11 +179,8 @@ def slip_sheet(state: EventState, round_number: int | None, now: datetime) -> Sh
 
 
 def _tiebreak_notes(table: Standings, state: EventState) -> tuple[str, ...]:
-    notes = [f"Tiebreaks with {UNPLAYED_LABELS[table.unplayed]}."]
-    for key in table.tiebreaks:
-        tb = TIEBREAKS[key]
-        notes.append(f"{tb.short} = {tb.label} ({tb.citation})")
-    if any(k in ("average_rating_opponents", "performance_rating") for k in table.tiebreaks):
+    notes = [f"Tiebreaks with {UNPLAYED_LABELS[table.unplayed]}.", *legend(table.tiebreaks)]
+    if any(tiebreak(a).kind.uses_ratings for a in table.tiebreaks):
         notes.append(f"Unrated players count as {state.settings.default_rating}.")
     if table.provisional:
         missing = [r.number for r in state.rounds
@@ -171,22 +190,42 @@ def _tiebreak_notes(table: Standings, state: EventState) -> tuple[str, ...]:
 
 
 def _tiebreak_columns(table: Standings) -> tuple[Column, ...]:
-    return tuple(Column(key, TIEBREAKS[key].short, "points") for key in table.tiebreaks)
+    return tuple(Column(tiebreak(a).key, a, "points") for a in table.tiebreaks)
 
 
-def standings_sheet(state: EventState, round_number: int | None, now: datetime) -> Sheet:
-    """Rank, player, points and the event's tiebreaks after a round."""
+def standings_sheet(state: EventState, round_number: int | None, now: datetime,
+                    category: str | None = None) -> Sheet:
+    """Rank, start number, player, rating, points and the event's tiebreaks after a round.
+
+    With ``category``, only its players, ranked among themselves (players tied
+    overall stay tied), with their overall rank beside.
+    """
     table = standings(state, after_round=round_number)
+    number = start_numbers(state)
+    rows_in = table.rows
+    title, notes = "Standings", _tiebreak_notes(table, state)
+    overall: tuple[tuple[Cell, ...], ...] = ()
+    if category is not None:
+        found = find_category(state, category)
+        inside = members(state, found)
+        rows_in = category_rows(table, inside)
+        title = f"Standings — {found.name}"
+        notes = (f"Category {found.name}: {describe_rule(found.rule)}.", *notes)
+        overall = tuple((r.rank,) for r in table.rows if r.player in inside)
+    ranks = [r.rank for r in rows_in]
     rows = tuple(
-        (row.rank, row.player, row.name, row.points,
-         *(row.tiebreaks[k] for k in table.tiebreaks), "withdrawn" if row.withdrawn else None)
-        for row in table.rows
+        (rank, row.player, number[row.player], row.name, state.players[row.player].rating, row.points,
+         *(row.tiebreaks[k] for k in table.tiebreaks), *((overall[i][0],) if overall else ()),
+         "withdrawn" if row.withdrawn else None)
+        for i, (rank, row) in enumerate(zip(ranks, rows_in))
     )
-    columns = (Column("rank", "Rank", "rank"), Column("player_id", "Id", "id"),
-               Column("player", "Player", "name"), Column("points", "Points", "points"),
-               *_tiebreak_columns(table), Column("note", "Note"))
-    return _sheet(state, "standings", "Standings", table.after_round, f"After round {table.after_round}",
-                  now, _tiebreak_notes(table, state), (Table("Standings", columns, rows),))
+    columns = (Column("rank", "Rank", "rank"), Column("player_id", "Id", "id"), Column("no", "No.", "number"),
+               Column("player", "Player", "name"), Column("rating", "Rtg", "number"),
+               Column("points", "Points", "points"), *_tiebreak_columns(table),
+               *((Column("overall_rank", "Overall", "rank"),) if category is not None else ()),
+               Column("note", "Note"))
+    return _sheet(state, "standings", title, table.after_round, f"After round {table.after_round}",
+                  now, notes, (Table(title, columns, rows),))
 
 
 def _marks(state: EventState) -> dict[Side, str]:

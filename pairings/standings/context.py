@@ -14,9 +14,13 @@ The treatment of unplayed rounds follows ``rules.md`` ("Tiebreaks"):
   FIDE Handbook C.07 of 2022): an unplayed round R of a player counts as a game
   against a virtual opponent scoring ``SPR + (1 - SfPR) + 0.5 * (n - R)``, and
   towards other players' tiebreaks a player's own unplayed rounds count as draws;
-* *dummy opponent* (FIDE Handbook C.07 of 2023, from memory): an unplayed round
-  counts as a game against an opponent holding the player's own score; other
-  players' scores count as they stand.
+* *dummy opponent* (FIDE Handbook C.07, the 2023 regulations as remembered; low
+  confidence): an unplayed round counts as a game against a dummy opponent
+  holding the player's own final score, and towards other players' tiebreaks a
+  player counts with an *adjusted score* in which each voluntary unplayed round
+  (requested bye, absence, forfeit loss, a round before entry or after
+  withdrawal) counts as a draw, while a pairing bye and a forfeit win keep the
+  points given. Cuts drop voluntary unplayed rounds first.
 
 Rounds before a late entrant's entry round are *not entered*, under every
 treatment (:mod:`pairings.standings.entry`): they add no opponent of any kind.
@@ -30,7 +34,7 @@ from types import MappingProxyType
 from typing import Mapping
 
 from pairings.standings.entry import entered
-from pairings.state import EventState, PlayerId, RoundEntry, Scoring, Side, Unplayed
+from pairings.state import ByeKind, EventState, PlayerId, RoundEntry, Scoring, Side, Unplayed
 
 
 class SlotKind(StrEnum):
@@ -59,6 +63,10 @@ class Slot:
     won: bool
     """Scored a win's points, with or without play."""
     score_before: float
+    voluntary: bool = False
+    """An unplayed round the player chose (VUR, C.07 2023 as remembered): a requested bye,
+    an absence, a forfeit loss, a round before entry or after withdrawal. A pairing bye
+    and a forfeit win are not voluntary."""
 
 
 @dataclass(frozen=True, slots=True)
@@ -74,6 +82,9 @@ class Context:
     """Actual points after round ``last``."""
     for_others: Mapping[PlayerId, float]
     """The score a player counts with in other players' tiebreaks (see module notes)."""
+
+    last_drawn: bool = False
+    """The last round's games counted as draws (Fore Buchholz)."""
 
     @property
     def scoring(self) -> Scoring:
@@ -126,10 +137,13 @@ def virtual_opponent_score(slot: Slot, last: int, scoring: Scoring) -> float:
     return slot.score_before + opposite_points(slot.points, scoring) + scoring.draw * later
 
 
-def _slot(entry: RoundEntry | None, round_number: int, before: float, scoring: Scoring) -> Slot:
+def _slot(entry: RoundEntry | None, round_number: int, before: float, scoring: Scoring, drawn: bool) -> Slot:
     if entry is None:
-        return Slot(round_number, SlotKind.UNPLAYED, None, None, 0.0, 0.0, False, before)
+        return Slot(round_number, SlotKind.UNPLAYED, None, None, 0.0, 0.0, False, before, voluntary=True)
     points = entry.points or 0.0
+    if drawn and entry.opponent is not None and (entry.played or entry.result is None):
+        # Fore Buchholz: every game of the last round counts as a draw.
+        return Slot(round_number, SlotKind.PLAYED, entry.opponent, entry.side, scoring.draw, 0.5, False, before)
     if entry.opponent is not None and entry.result is None:
         return Slot(round_number, SlotKind.PENDING, entry.opponent, entry.side, 0.0, 0.0, False, before)
     won = scoring.win > scoring.loss and points >= scoring.win
@@ -138,11 +152,15 @@ def _slot(entry: RoundEntry | None, round_number: int, before: float, scoring: S
         fraction = {"win": 1.0, "draw": 0.5, "loss": 0.0}[outcome]
         return Slot(round_number, SlotKind.PLAYED, entry.opponent, entry.side, points, fraction, won, before)
     fraction = points / scoring.win if scoring.win else 0.0
-    return Slot(round_number, SlotKind.UNPLAYED, None, None, points, fraction, won, before)
+    voluntary = entry.bye in (ByeKind.REQUESTED, ByeKind.ABSENCE) or (entry.bye is None and not won)
+    return Slot(round_number, SlotKind.UNPLAYED, None, None, points, fraction, won, before, voluntary)
 
 
-def build_context(state: EventState, last: int, unplayed: Unplayed) -> Context:
-    """Normalise every player's rounds ``1 .. last`` into slots (see :class:`Slot`)."""
+def build_context(state: EventState, last: int, unplayed: Unplayed, last_drawn: bool = False) -> Context:
+    """Normalise every player's rounds ``1 .. last`` into slots (see :class:`Slot`).
+
+    ``last_drawn`` counts every game of round ``last`` as a draw (for Fore Buchholz).
+    """
     scoring = state.settings.scoring
     slots: dict[PlayerId, tuple[Slot, ...]] = {}
     points: dict[PlayerId, float] = {}
@@ -150,7 +168,7 @@ def build_context(state: EventState, last: int, unplayed: Unplayed) -> Context:
         row: list[Slot] = []
         score = 0.0
         for r in range(1, last + 1):
-            slot = _slot(record.entry(r), r, score, scoring)
+            slot = _slot(record.entry(r), r, score, scoring, last_drawn and r == last)
             if not entered(state, pid, r):
                 slot = Slot(r, SlotKind.NOT_ENTERED, None, None, slot.points, slot.fraction, slot.won, score)
             row.append(slot)
@@ -163,9 +181,14 @@ def build_context(state: EventState, last: int, unplayed: Unplayed) -> Context:
             pid: sum(scoring.draw if s.kind is SlotKind.UNPLAYED else s.points for s in row)
             for pid, row in slots.items()
         }
+    elif unplayed is Unplayed.DUMMY_OPPONENT:
+        # The adjusted score: voluntary unplayed rounds count as draws (C.07 2023, as remembered).
+        for_others = {
+            pid: sum(scoring.draw if s.voluntary else s.points for s in row) for pid, row in slots.items()
+        }
     else:
         for_others = dict(points)
     return Context(
         state=state, last=last, unplayed=unplayed, slots=MappingProxyType(slots),
-        points=MappingProxyType(points), for_others=MappingProxyType(for_others),
+        points=MappingProxyType(points), for_others=MappingProxyType(for_others), last_drawn=last_drawn,
     )

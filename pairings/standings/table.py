@@ -2,19 +2,20 @@
 
 Ranking: points, then the event's tiebreaks in their order; players equal on
 all of them share a rank, written ``"3-5"``, and are listed in initial-rank
-order. Direct encounter is worked out among the players still tied at its
-place in the list (FIDE Handbook C.07).
+order. Each tiebreak only separates players still tied at its place in the
+list; direct encounter is worked out among exactly those players (FIDE Handbook
+C.07, 2023 as remembered).
 """
 
 from __future__ import annotations
 
-from dataclasses import dataclass
+from dataclasses import dataclass, replace
 from types import MappingProxyType
 from typing import Mapping, Sequence
 
 from pairings.errors import InputError
 from pairings.standings.context import build_context
-from pairings.standings.tiebreaks import TIEBREAKS, check_tiebreaks
+from pairings.standings.tiebreaks import check_tiebreaks, tiebreak
 from pairings.state import EventState, PlayerId, RoundState, Status, Unplayed
 
 _PLACES = 6
@@ -29,7 +30,7 @@ class StandingsRow:
     name: str
     points: float
     tiebreaks: Mapping[str, float]
-    """The event's tiebreaks in order, keyed by their snake_case names."""
+    """The event's tiebreaks in order, keyed by their canonical acronyms (``BH-C1``)."""
     withdrawn: bool = False
 
 
@@ -37,20 +38,23 @@ class StandingsRow:
 class Standings:
     rows: tuple[StandingsRow, ...]
     tiebreaks: tuple[str, ...]
+    """Canonical acronyms, in the order applied."""
     unplayed: Unplayed
     after_round: int
     provisional: bool
     """True when a counted round still has games without a result."""
 
     def to_json(self) -> list[dict[str, object]]:
-        """The interchange shape of ``design.md``: one object per row, best first."""
+        """The interchange shape of ``design.md``: one object per row, best first; the tiebreaks
+        under their snake_case keys, in the order applied."""
+        keys = [(a, tiebreak(a).key) for a in self.tiebreaks]
         return [
             {
                 "rank": row.rank,
                 "player": row.player,
                 "name": row.name,
                 "points": row.points,
-                "tiebreaks": {key: row.tiebreaks[key] for key in self.tiebreaks},
+                "tiebreaks": {key: row.tiebreaks[a] for a, key in keys},
             }
             for row in self.rows
         ]
@@ -103,7 +107,8 @@ def standings(
     Parameters
     ----------
     state : the event's state.
-    tiebreaks : ordered tiebreak keys (see :data:`TIEBREAKS`); default the event's own list.
+    tiebreaks : ordered tiebreak acronyms (or stored snake_case names, see
+        :func:`check_tiebreaks`); default the event's own list.
     unplayed : treatment of unplayed rounds; default the event's setting.
     after_round : count rounds ``1 .. after_round``.
 
@@ -120,19 +125,15 @@ def standings(
     seed = {pid: i for i, pid in enumerate(order)}
 
     keys: dict[PlayerId, list[float]] = {pid: [round(ctx.points[pid], _PLACES)] for pid in order}
+    shown: dict[PlayerId, list[float]] = {pid: [] for pid in order}
     for name in names:
-        tb = TIEBREAKS[name]
-        if tb.compute_tied is not None:
-            groups: dict[tuple[float, ...], set[PlayerId]] = {}
-            for pid in order:
-                groups.setdefault(tuple(keys[pid]), set()).add(pid)
-            tied = {pid: frozenset(g) for g in groups.values() for pid in g}
-            values = {pid: tb.compute_tied(ctx, pid, tied[pid]) for pid in order}
-        else:
-            assert tb.compute is not None
-            values = {pid: tb.compute(ctx, pid) for pid in order}
+        groups: dict[tuple[float, ...], set[PlayerId]] = {}
         for pid in order:
-            keys[pid].append(round(values[pid] + 0.0, _PLACES))
+            groups.setdefault(tuple(keys[pid]), set()).add(pid)
+        values, sort_keys = tiebreak(name).evaluate(ctx, [frozenset(g) for g in groups.values()])
+        for pid in order:
+            keys[pid].append(round(sort_keys[pid] + 0.0, _PLACES))
+            shown[pid].append(round(values[pid] + 0.0, _PLACES))
 
     ranked = sorted(order, key=lambda pid: ([-k for k in keys[pid]], seed[pid]))
     ranks = _shared_ranks([tuple(keys[pid]) for pid in ranked])
@@ -142,7 +143,7 @@ def standings(
             player=pid,
             name=state.players[pid].name,
             points=keys[pid][0],
-            tiebreaks=MappingProxyType(dict(zip(names, keys[pid][1:]))),
+            tiebreaks=MappingProxyType(dict(zip(names, shown[pid]))),
             withdrawn=state.players[pid].status is Status.WITHDRAWN,
         )
         for pid, rank in zip(ranked, ranks)
@@ -151,3 +152,14 @@ def standings(
         r.state is RoundState.PUBLISHED for r in state.rounds if r.number <= last
     )
     return Standings(rows=rows, tiebreaks=names, unplayed=treatment, after_round=last, provisional=provisional)
+
+
+def category_rows(table: Standings, inside: frozenset[PlayerId] | set[PlayerId]) -> tuple[StandingsRow, ...]:
+    """The rows of the players ``inside`` a category, ranked among themselves in the same order;
+    players who share a rank overall share one here too."""
+    picked = [r for r in table.rows if r.player in inside]
+    first: dict[str, float] = {}
+    for n, row in enumerate(table.rows):
+        first.setdefault(str(row.rank), float(n))
+    ranks = _shared_ranks([(first[str(r.rank)],) for r in picked])
+    return tuple(replace(r, rank=rank) for r, rank in zip(picked, ranks))

@@ -1,224 +1,177 @@
-"""The tiebreaks: one pure function each, and the registry :data:`TIEBREAKS`.
+"""The tiebreaks by their official acronyms: the one table every consumer reads (:data:`TIEBREAKS`).
 
-Definitions follow FIDE Handbook C.07 ("Tie-break regulations"), restated
-from memory where the text was not at hand; the performance rating uses the
-p → dp table of FIDE Handbook B.02 (rating regulations), also from memory.
-Every function reads a :class:`~pairings.standings.context.Context`, so the
-treatment of unplayed rounds is decided once, there.
+Acronyms, names and modifiers follow the FIDE Handbook C.07 Tie-Break
+Regulations, the 2023 text as remembered (:data:`EDITION`; the definitions
+were not read from the document). An organiser writes an ordered list such as
+``BH-C1,BH,SB,WIN`` (any case): an acronym, optionally a modifier, cut ``-C1``
+/ ``-C2`` or median ``-M1`` / ``-M2`` where the table allows it.
+:func:`check_tiebreaks` turns such a list, or the snake_case names stored by
+older event files, into canonical acronyms; :func:`tiebreak` describes one
+(full name, JSON key, function).
 """
 
 from __future__ import annotations
 
 from dataclasses import dataclass
-from decimal import ROUND_HALF_UP, Decimal
+from functools import cache
 from types import MappingProxyType
-from typing import Callable, Mapping
+from typing import Callable, Iterable, Mapping
 
 from pairings.errors import InputError
-from pairings.standings.context import Context, SlotKind
-from pairings.state import PlayerId, Side
+from pairings.standings import encounter, measures, ratings
+from pairings.standings.context import Context
+from pairings.standings.measures import Measure, Modifier, Values
+from pairings.state import PlayerId, System
+
+EDITION = "FIDE Handbook C.07 Tie-Break Regulations, 2023 edition as remembered"
+"""Printed with every legend: the definitions were restated from memory, not read."""
+
+GroupMeasure = Callable[[Context, Iterable[frozenset[PlayerId]]], tuple[Values, Values]]
+_CUTS = ("C1", "C2", "M1", "M2")
 
 
-def buchholz(ctx: Context, player: PlayerId) -> float:
-    """Sum of the scores of the player's opponents (C.07, Buchholz).
+@dataclass(frozen=True, slots=True)
+class Kind:
+    """One row of the table: a tiebreak before any modifier."""
 
-    Opponents count with :attr:`Context.for_others`; unplayed rounds add a
-    virtual or dummy opponent, or nothing, as the context's treatment says.
-    """
-    return sum(value for _, value in ctx.opponent_values(player))
-
-
-def buchholz_cut1(ctx: Context, player: PlayerId) -> float:
-    """Buchholz less the lowest single opponent value (C.07, Buchholz Cut 1)."""
-    values = sorted(value for _, value in ctx.opponent_values(player))
-    return sum(values[1:])
-
-
-def median_buchholz(ctx: Context, player: PlayerId) -> float:
-    """Buchholz less the highest and the lowest opponent values (C.07, Median Buchholz)."""
-    values = sorted(value for _, value in ctx.opponent_values(player))
-    return sum(values[1:-1])
+    acronym: str
+    name: str
+    key: str
+    """snake_case name in JSON (the interchange keeps the older keys stable)."""
+    measure: Measure | None
+    group_measure: GroupMeasure | None = None
+    """Set instead of ``measure`` for a tiebreak worked out among the players still tied (DE)."""
+    modifiers: tuple[str, ...] = ()
+    uses_unplayed: bool = False
+    """True when the treatment of unplayed rounds changes the value."""
+    uses_ratings: bool = False
 
 
-def sonneborn_berger(ctx: Context, player: PlayerId) -> float:
-    """Scores of the opponents beaten plus half the scores of those drawn (C.07).
+TIEBREAKS: Mapping[str, Kind] = MappingProxyType({k.acronym: k for k in (
+    Kind("BH", "Buchholz", "buchholz", measures.buchholz, modifiers=_CUTS, uses_unplayed=True),
+    Kind("SB", "Sonneborn-Berger", "sonneborn_berger", measures.sonneborn_berger, modifiers=_CUTS,
+         uses_unplayed=True),
+    Kind("FB", "Fore Buchholz", "fore_buchholz", measures.fore_buchholz, modifiers=_CUTS, uses_unplayed=True),
+    Kind("AOB", "Average of opponents' Buchholz", "average_opponents_buchholz",
+         measures.average_opponents_buchholz, uses_unplayed=True),
+    Kind("DE", "Direct encounter", "direct_encounter", None, group_measure=encounter.direct_encounter),
+    Kind("WIN", "Number of wins (played or not)", "wins", measures.wins),
+    Kind("WON", "Number of games won over the board", "games_won", measures.games_won),
+    Kind("BPG", "Number of games played with Black (second side)", "games_second", measures.games_second),
+    Kind("BWG", "Number of games won with Black (second side)", "wins_second", measures.wins_second),
+    Kind("PS", "Progressive score", "progressive", measures.progressive, modifiers=("C1", "C2")),
+    Kind("KS", "Koya system (points against opponents with 50 % or more)", "koya", measures.koya),
+    Kind("ARO", "Average rating of opponents", "average_rating_opponents", ratings.average_rating_opponents,
+         modifiers=_CUTS, uses_ratings=True),
+    Kind("TPR", "Tournament performance rating", "performance_rating", ratings.performance_rating,
+         uses_ratings=True),
+    Kind("PTP", "Perfect tournament performance", "perfect_performance", ratings.perfect_performance,
+         uses_ratings=True),
+    Kind("APRO", "Average performance rating of opponents", "average_opponents_performance",
+         ratings.average_opponents_performance, uses_ratings=True),
+    Kind("APPO", "Average perfect performance of opponents", "average_opponents_perfect",
+         ratings.average_opponents_perfect, uses_ratings=True),
+)})
 
-    Each opponent value (as for Buchholz) is weighted by the player's result
-    against them as a share of a win: 1, ½ or 0. An unplayed round weighs the
-    virtual or dummy opponent by the points the player was given (a half-point
-    bye weighs ½).
-    """
-    return sum(slot.fraction * value for slot, value in ctx.opponent_values(player))
-
-
-def direct_encounter(ctx: Context, player: PlayerId, tied: frozenset[PlayerId]) -> float:
-    """Points scored in the games among the players still tied (C.07, Direct encounter).
-
-    Applies only when every pair of the tied players has met over the board
-    (C.07, from memory); otherwise, and for a player not tied, it is 0 for all,
-    so it does not separate them. Forfeits are not meetings (as in the pairing
-    rules), so they do not count here.
-    """
-    if len(tied) < 2:
-        return 0.0
-    met: dict[PlayerId, set[PlayerId]] = {pid: set() for pid in tied}
-    for pid in tied:
-        for slot in ctx.slots[pid]:
-            if slot.kind is SlotKind.PLAYED and slot.opponent in tied:
-                met[pid].add(slot.opponent)
-    if any(met[pid] != tied - {pid} for pid in tied):
-        return 0.0
-    return sum(
-        slot.points
-        for slot in ctx.slots[player]
-        if slot.kind is SlotKind.PLAYED and slot.opponent in tied
-    )
-
-
-def wins(ctx: Context, player: PlayerId) -> float:
-    """Rounds in which the player scored a win's points, with or without play.
-
-    C.07 of 2023 (from memory) counts forfeit wins and full-point byes here.
-    """
-    return float(sum(1 for slot in ctx.slots[player] if slot.won))
-
-
-def games_second(ctx: Context, player: PlayerId) -> float:
-    """Games played over the board with the second side (C.07, games with Black).
-
-    In an event without sides this counts games as the second-listed player,
-    which carries no meaning; such events should not use it.
-    """
-    return float(
-        sum(1 for s in ctx.slots[player] if s.kind is SlotKind.PLAYED and s.side is Side.SECOND)
-    )
-
-
-def progressive(ctx: Context, player: PlayerId) -> float:
-    """Sum of the player's running score after each round (C.07, progressive/cumulative score).
-
-    Points won without play count like any other points here (from memory;
-    some regulations subtract them).
-    """
-    running = 0.0
-    total = 0.0
-    for slot in ctx.slots[player]:
-        running += slot.points
-        total += running
-    return total
-
-
-def _round_half_up(value: Decimal, places: str = "1") -> Decimal:
-    return value.quantize(Decimal(places), rounding=ROUND_HALF_UP)
-
-
-def average_rating_opponents(ctx: Context, player: PlayerId) -> float:
-    """Mean rating of the opponents met over the board, rounded to a whole number (C.07, ARO).
-
-    Unrated opponents count with the event's default rating; unplayed rounds
-    are left out. 0 when the player has played no game.
-    """
-    ratings = [
-        ctx.rating(s.opponent)
-        for s in ctx.slots[player]
-        if s.kind is SlotKind.PLAYED and s.opponent is not None
-    ]
-    if not ratings:
-        return 0.0
-    return float(_round_half_up(Decimal(sum(ratings)) / Decimal(len(ratings))))
-
-
-# FIDE Handbook B.02, table 8.1(a): score fraction p (in hundredths, 50..100) → rating
-# difference dp. From memory. Below 0.50 the table is the mirror image: dp(1 - p) = -dp(p).
-_DP_TABLE: Mapping[int, int] = MappingProxyType(dict(zip(range(100, 49, -1), (
-    800, 677, 589, 538, 501, 470, 444, 422, 401, 383,
-    366, 351, 336, 322, 309, 296, 284, 273, 262, 251,
-    240, 230, 220, 211, 202, 193, 184, 175, 166, 158,
-    149, 141, 133, 125, 117, 110, 102, 95, 87, 80,
-    72, 65, 57, 50, 43, 36, 29, 21, 14, 7,
-    0,
-))))
-
-
-def dp_from_fraction(p: float) -> int:
-    """The B.02 rating difference for a score fraction ``p`` in [0, 1], p rounded to 0.01.
-
-    Raises :class:`ValueError` outside [0, 1].
-    """
-    if not 0.0 <= p <= 1.0:
-        raise ValueError(f"score fraction {p} outside 0..1")
-    hundredths = int(_round_half_up(Decimal(str(p)) * 100))
-    if hundredths >= 50:
-        return _DP_TABLE[hundredths]
-    return -_DP_TABLE[100 - hundredths]
-
-
-def performance_rating(ctx: Context, player: PlayerId) -> float:
-    """Tournament performance rating ``Ra + dp(p)`` (FIDE Handbook B.02, from memory).
-
-    ``Ra`` is :func:`average_rating_opponents`, ``p`` the share of the points
-    scored in the games played over the board. 0 when the player has played no game.
-    """
-    played = [s for s in ctx.slots[player] if s.kind is SlotKind.PLAYED]
-    if not played:
-        return 0.0
-    p = sum(s.fraction for s in played) / len(played)
-    return average_rating_opponents(ctx, player) + dp_from_fraction(p)
+_MODIFIER_WORDS = {"C": "cut", "M": "median"}
+_LEGACY_KEYS = {"BH-M1": "median_buchholz"}
+"""JSON keys kept from before the acronyms (the derived key would be ``buchholz_median1``)."""
 
 
 @dataclass(frozen=True, slots=True)
 class Tiebreak:
-    """A registry entry: the function, how printouts name it, and its source."""
+    """A chosen tiebreak: a table row with its modifier."""
 
+    acronym: str
+    """Canonical, e.g. ``BH-C1``: the heading on every screen and sheet."""
+    kind: Kind
+    modifier: Modifier
+    name: str
+    """In full, e.g. "Buchholz cut 1": the legend."""
     key: str
-    label: str
-    short: str
-    """Column heading for narrow tables."""
-    citation: str
-    compute: Callable[[Context, PlayerId], float] | None
-    compute_tied: Callable[[Context, PlayerId, frozenset[PlayerId]], float] | None = None
-    """Set instead of ``compute`` for tiebreaks that look at the players still tied."""
-    uses_unplayed: bool = False
-    """True when the unplayed-games treatment changes the value."""
+    """snake_case, for JSON."""
+
+    def evaluate(self, ctx: Context, groups: Iterable[frozenset[PlayerId]]) -> tuple[Values, Values]:
+        """Every player's shown value and sort key (equal, except for DE)."""
+        if self.kind.group_measure is not None:
+            return self.kind.group_measure(ctx, groups)
+        assert self.kind.measure is not None
+        values = self.kind.measure(ctx, self.modifier)
+        return values, values
 
 
-_C07 = "FIDE Handbook C.07"
-TIEBREAKS: Mapping[str, Tiebreak] = MappingProxyType({
-    t.key: t
-    for t in (
-        Tiebreak("buchholz", "Buchholz", "Bh", _C07, buchholz, uses_unplayed=True),
-        Tiebreak("buchholz_cut1", "Buchholz cut 1", "Bh-1", _C07, buchholz_cut1, uses_unplayed=True),
-        Tiebreak("median_buchholz", "Median Buchholz", "MBh", _C07, median_buchholz, uses_unplayed=True),
-        Tiebreak("sonneborn_berger", "Sonneborn–Berger", "SB", _C07, sonneborn_berger, uses_unplayed=True),
-        Tiebreak("direct_encounter", "Direct encounter", "DE", _C07, None, compute_tied=direct_encounter),
-        Tiebreak("wins", "Wins", "Win", _C07, wins),
-        Tiebreak("games_second", "Games with the second side", "2nd", _C07, games_second),
-        Tiebreak("progressive", "Progressive score", "Prog", _C07, progressive),
-        Tiebreak("average_rating_opponents", "Average rating of opponents", "ARO", _C07,
-                 average_rating_opponents),
-        Tiebreak("performance_rating", "Performance rating", "TPR", "FIDE Handbook B.02",
-                 performance_rating),
-    )
-})
-
-ALIASES: Mapping[str, str] = MappingProxyType({
-    "aro": "average_rating_opponents",
-    "tpr": "performance_rating",
-})
+@cache
+def tiebreak(acronym: str) -> Tiebreak:
+    """The chosen tiebreak for a canonical acronym (see :func:`check_tiebreaks`)."""
+    base, _, suffix = acronym.partition("-")
+    kind = TIEBREAKS[base]
+    if not suffix:
+        return Tiebreak(acronym, kind, None, kind.name, kind.key)
+    modifier = (suffix[0], int(suffix[1:]))
+    word = _MODIFIER_WORDS[modifier[0]]
+    key = _LEGACY_KEYS.get(acronym, f"{kind.key}_{word}{modifier[1]}")
+    return Tiebreak(acronym, kind, modifier, f"{kind.name}, {word} {modifier[1]}", key)
 
 
-def check_tiebreaks(names: tuple[str, ...] | list[str]) -> tuple[str, ...]:
-    """Validate an ordered tiebreak list and return it with aliases resolved.
+@cache
+def _by_key() -> Mapping[str, str]:
+    """Stored snake_case names of older event files → acronyms (also the two old aliases)."""
+    out = {"aro": "ARO", "tpr": "TPR"}
+    for kind in TIEBREAKS.values():
+        for acronym in (kind.acronym, *(f"{kind.acronym}-{m}" for m in kind.modifiers)):
+            out[tiebreak(acronym).key] = acronym
+    return MappingProxyType(out)
 
-    Raises :class:`~pairings.errors.InputError` naming the unknown or repeated entry.
+
+def _canonical(raw: str) -> str:
+    text = raw.strip()
+    if text.lower() in _by_key():
+        return _by_key()[text.lower()]
+    base, dash, suffix = text.upper().partition("-")
+    if base not in TIEBREAKS:
+        known = ", ".join(TIEBREAKS)
+        raise InputError(f"unknown tiebreak {raw!r}: use one of {known} (modifiers -C1 -C2 -M1 -M2 where allowed)")
+    kind = TIEBREAKS[base]
+    if dash and suffix not in kind.modifiers:
+        allowed = ", ".join(f"{base}-{m}" for m in kind.modifiers) or "none"
+        raise InputError(f"tiebreak {raw!r}: {base} takes no modifier {suffix!r} (allowed: {allowed})")
+    return f"{base}-{suffix}" if dash else base
+
+
+def check_tiebreaks(names: Iterable[str]) -> tuple[str, ...]:
+    """Validate an ordered tiebreak list; return its canonical acronyms (``bh-c1`` → ``BH-C1``).
+
+    Accepts the acronyms in any case and the snake_case names older event files
+    stored (``buchholz_cut1`` → ``BH-C1``). Raises
+    :class:`~pairings.errors.InputError` naming the unknown, badly modified or
+    repeated entry.
     """
     out: list[str] = []
     for raw in names:
-        key = ALIASES.get(raw.strip().lower(), raw.strip().lower())
-        if key not in TIEBREAKS:
-            known = ", ".join(TIEBREAKS)
-            raise InputError(f"unknown tiebreak {raw!r}: use one of {known} (or aro, tpr)")
-        if key in out:
-            raise InputError(f"tiebreak {key!r} is listed twice")
-        out.append(key)
+        acronym = _canonical(raw)
+        if acronym in out:
+            raise InputError(f"tiebreak {acronym} is listed twice")
+        out.append(acronym)
     return tuple(out)
+
+
+def default_tiebreaks(system: System, sides: bool = True) -> tuple[str, ...]:
+    """The list a new event gets when the organiser chooses none (C.07 recommendations, as remembered).
+
+    Swiss: BH-C1, BH, DE, WIN, BPG (an event without sides takes WON instead of
+    BPG, which would mean nothing there). Round robin: DE, WIN, SB, KS.
+    """
+    if system is System.ROUND_ROBIN:
+        return ("DE", "WIN", "SB", "KS")
+    return ("BH-C1", "BH", "DE", "WIN", "BPG" if sides else "WON")
+
+
+def legend(acronyms: Iterable[str]) -> tuple[str, ...]:
+    """One line per tiebreak, ``BH-C1 = Buchholz, cut 1``, then the edition."""
+    return tuple(f"{a} = {tiebreak(a).name}" for a in acronyms) + (f"Tiebreaks: {EDITION}.",)
+
+
+__all__ = [
+    "EDITION", "TIEBREAKS", "Kind", "Tiebreak", "check_tiebreaks", "default_tiebreaks",
+    "legend", "tiebreak",
+]

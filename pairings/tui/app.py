@@ -23,6 +23,7 @@ from textual.message import Message
 from textual.screen import Screen
 
 from pairings.errors import ConflictError, InputError, RosterError
+from pairings.printouts import KINDS, ROUND_KINDS
 from pairings.state import EventState
 from pairings.store import EventStore
 from pairings.tui.base import Action, Place
@@ -43,7 +44,6 @@ PLACES: dict[str, type[Place]] = {
 }
 """The places in their key order (F2 … F6)."""
 
-KINDS = ("pairings", "names", "slips", "standings", "crosstable")
 FORMATS = {"text": "txt", "csv": "csv", "json": "json", "html": "html", "pdf": "pdf"}
 
 
@@ -229,7 +229,7 @@ class DeskApp(App[None]):
     def default_output(self, kind: str, fmt: str) -> Path:
         number = self.state.last_round.number if self.state.last_round else 0
         stem = self.store.path.stem
-        tail = f"-round{number}" if kind in ("pairings", "names", "slips") and number else ""
+        tail = f"-round{number}" if kind in ROUND_KINDS and number else ""
         return self.store.path.with_name(f"{stem}-{kind}{tail}.{FORMATS.get(fmt, 'txt')}")
 
     def action_output(self) -> None:

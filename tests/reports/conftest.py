@@ -29,7 +29,8 @@ NAMES = {
 
 
 def hostile_log(**settings: Any) -> list[Any]:
-    """Round 1 complete (a forfeit, a pairing bye), round 2 published with board 3 still open."""
+    """Round 1 complete (a forfeit, a pairing bye), round 2 published with board 3 still open;
+    a prize category given by hand (p3, p5) and three prizes."""
     log: list[Any] = [ev.EventCreated(name=settings.pop("name", "Riverside <b>Spring</b> Open"), rounds=5, **settings)]
     log += [ev.PlayerRegistered(id=pid, name=name, rating=2000 - 50 * i if i % 3 else None)
             for i, (pid, name) in enumerate(NAMES.items())]
@@ -42,6 +43,10 @@ def hostile_log(**settings: Any) -> list[Any]:
             byes=(ev.ByeModel(player=bye, kind="pairing", points=1.0),),
         ))
         log.append(ev.RoundPublished(round=number))
+    log += [ev.CategoryDefined(name="Juniors <i>U20</i>"), ev.CategoryMember(category="Juniors <i>U20</i>", player="p3"),
+            ev.CategoryMember(category="Juniors <i>U20</i>", player="p5"),
+            ev.PrizeSet(place=1, amount=10000), ev.PrizeSet(place=2, amount=5000),
+            ev.PrizeSet(category="Juniors <i>U20</i>", place=1, amount=2500)]
     return log
 
 

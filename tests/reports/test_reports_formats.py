@@ -4,6 +4,7 @@ from __future__ import annotations
 
 import csv
 import io
+from dataclasses import replace
 import json
 import re
 import subprocess
@@ -21,7 +22,19 @@ from pairings.fold import fold
 from pairings.reports import FORMATS, KINDS, render
 from pairings.reports.clean import PREVAIL, plain
 from pairings.standings import standings
-from pairings.state import EventState
+from pairings.prizes import prize_list
+from pairings.state import EventState, System
+
+
+def for_kind(state: EventState, kind: str) -> EventState:
+    """The hostile event, as a round robin for the grid (which only round-robin events print)."""
+    if kind != "grid":
+        return state
+    return replace(state, settings=replace(state.settings, system=System.ROUND_ROBIN))
+
+
+def awarded(state: EventState) -> set[str]:
+    return {a.player for a in prize_list(state).awards if a.player is not None}
 
 
 def squash(text: str) -> str:
@@ -58,7 +71,7 @@ ALLOWED_TAGS = {"html", "head", "meta", "title", "style", "link", "body", "nav",
 @pytest.mark.parametrize("fmt", FORMATS)
 @pytest.mark.parametrize("kind", KINDS)
 def test_every_kind_and_format(hostile: EventState, now: datetime, kind: str, fmt: str) -> None:
-    out = render(hostile, kind, fmt, now=now)
+    out = render(for_kind(hostile, kind), kind, fmt, now=now)
     assert isinstance(out, bytes) if fmt == "pdf" else isinstance(out, str)
     assert out
 
@@ -66,7 +79,7 @@ def test_every_kind_and_format(hostile: EventState, now: datetime, kind: str, fm
 @pytest.mark.parametrize("fmt", ["text", "html", "pdf"])
 @pytest.mark.parametrize("kind", KINDS)
 def test_printouts_carry_the_required_lines(hostile: EventState, now: datetime, kind: str, fmt: str) -> None:
-    out = render(hostile, kind, fmt, now=now)
+    out = render(for_kind(hostile, kind), kind, fmt, now=now)
     text = pdf_text(out) if isinstance(out, bytes) else out
     if fmt == "html":
         parser = Collector()
@@ -77,20 +90,23 @@ def test_printouts_carry_the_required_lines(hostile: EventState, now: datetime, 
     assert "2025-05-0314:05" in flat
     assert squash(PREVAIL) in flat
     assert ("Round2" in flat) or ("Afterround2" in flat)
-    if kind in ("standings", "crosstable"):
+    if kind in ("standings", "crosstable", "grid", "prizes"):
         assert squash("against a virtual opponent (FIDE 2009)") in flat
+        assert squash("2023 edition as remembered") in flat and squash("BH-C1 = Buchholz, cut 1") in flat
         assert "PROVISIONAL" in flat       # board 3 of round 2 has no result yet
 
 
 @pytest.mark.parametrize("kind", KINDS)
 def test_pdf_text_holds_every_name_and_board(hostile: EventState, now: datetime, names: dict[str, str],
                                              kind: str) -> None:
-    data = render(hostile, kind, "pdf", now=now)
+    data = render(for_kind(hostile, kind), kind, "pdf", now=now)
     assert isinstance(data, bytes)
     raw = pdf_text(data)
     flat = squash(raw)
-    shown = names if kind in ("names", "standings", "crosstable") else {
+    shown = names if kind in ("names", "standings", "crosstable", "start-list", "grid") else {
         pid: n for pid, n in names.items() if pid != "p4"}   # p4 has the round-2 bye
+    if kind == "prizes":
+        shown = {pid: n for pid, n in names.items() if pid in awarded(hostile)}
     for name in shown.values():
         wanted = squash(plain(name)).replace("🐉", "□")   # DejaVu Sans has no emoji: marked, not lost
         if kind == "slips" and len(wanted) > 70:
@@ -104,7 +120,7 @@ def test_pdf_text_holds_every_name_and_board(hostile: EventState, now: datetime,
 @pytest.mark.parametrize("kind", KINDS)
 def test_html_parses_and_holds_no_unescaped_input(hostile: EventState, now: datetime, names: dict[str, str],
                                                   kind: str) -> None:
-    page = render(hostile, kind, "html", now=now)
+    page = render(for_kind(hostile, kind), kind, "html", now=now)
     assert isinstance(page, str)
     parser = Collector()
     parser.feed(page)
@@ -114,7 +130,7 @@ def test_html_parses_and_holds_no_unescaped_input(hostile: EventState, now: date
     assert not any(a.startswith("on") for a in parser.attrs)
     text = "".join(parser.text)
     for pid, name in names.items():
-        if kind in ("pairings", "slips") and pid == "p4":
+        if kind in ("pairings", "slips") and pid == "p4" or kind == "prizes" and pid not in awarded(hostile):
             continue
         assert plain(name) in text, name               # the parser reads back exactly the name
     assert "\u202e" not in page and "\x1b" not in page
@@ -122,10 +138,11 @@ def test_html_parses_and_holds_no_unescaped_input(hostile: EventState, now: date
 
 def test_text_output_is_inert(hostile: EventState, now: datetime) -> None:
     for kind in KINDS:
-        out = render(hostile, kind, "text", now=now)
+        out = render(for_kind(hostile, kind), kind, "text", now=now)
         assert isinstance(out, str)
         assert not re.search(r"[\x00-\x09\x0b-\x1f\x7f-\x9f\u202a-\u202e\u2066-\u2069]", out)
-        assert "[bold]Markup[/bold]" in out                     # rich markup shown, not applied
+        if kind != "prizes" or "p10" in awarded(hostile):
+            assert "[bold]Markup[/bold]" in out                 # rich markup shown, not applied
         assert max(len(line) for line in out.splitlines()) <= 200
 
 
@@ -181,8 +198,19 @@ def test_bad_requests(hostile: EventState, make_state: Any) -> None:
         render(hostile, "crosstable", "pdf", round_number=7)
     bare = fold(enumerate([ev.EventCreated(name="Empty", rounds=3), ev.PlayerRegistered(id="a", name="Ann")], 1))
     for kind in KINDS:
+        if kind == "start-list":                 # posted before round 1: it needs only players
+            assert "Ann" in str(render(bare, kind, "text"))
+            continue
         with pytest.raises(InputError):
             render(bare, kind, "text")
+    with pytest.raises(InputError, match="nothing to print yet: no player"):
+        render(fold(enumerate([ev.EventCreated(name="Empty", rounds=3)], 1)), "start-list", "text")
+    with pytest.raises(InputError, match="for round-robin events"):
+        render(hostile, "grid", "text")
+    with pytest.raises(InputError, match="no category 'Seniors'"):
+        render(hostile, "standings", "text", category="Seniors")
+    with pytest.raises(InputError, match="unknown paper 'a3'"):
+        render(hostile, "standings", "pdf", paper="a3")
 
 
 def test_draft_round_is_marked(make_state: Any, now: datetime) -> None:

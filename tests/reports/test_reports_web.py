@@ -41,7 +41,7 @@ def test_folder_works_offline(make_state: Any, tmp_path: Path, now: datetime) ->
     out = tmp_path / "stick" / "web"
     written = publish_web(state, out, now=now)
     assert [p.name for p in written] == ["index.html", "pairings.html", "standings.html", "crosstable.html",
-                                         "style.css"]
+                                         "round-1.html", "round-2.html", "style.css"]
     for page in written[:-1]:
         parsed = parse(page)
         assert "script" not in parsed.tags and "img" not in parsed.tags
@@ -51,6 +51,11 @@ def test_folder_works_offline(make_state: Any, tmp_path: Path, now: datetime) ->
     assert "Round 2" in pairings and "Round 3" not in pairings   # the draft never reaches the web
     assert "Players" in pairings and "Zoë Ødegård" in pairings   # boards and the by-name list
     assert "After round 2" in " ".join(parse(out / "standings.html").text)
+    # Every published round keeps its own page with its pairings and results, listed on the index.
+    first = " ".join(parse(out / "round-1.html").text)
+    assert "Round 1" in first and "Round 2" not in first and "1-0" in first
+    index = parse(out / "index.html")
+    assert {"round-1.html", "round-2.html"} <= set(index.refs) and not (out / "round-3.html").exists()
 
 
 def test_folder_of_an_event_without_rounds(tmp_path: Path, now: datetime) -> None:

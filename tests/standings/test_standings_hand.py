@@ -26,7 +26,7 @@ import pytest
 
 from pairings import events as ev
 from pairings.state import EventState, PlayerId, Unplayed
-from pairings.standings import standings
+from pairings.standings import check_tiebreaks, standings
 
 PLAYERS = [
     ("A", "Ada Quill", 2000), ("B", "Bo Renn", 1900), ("C", "Cy Tarn", 1800),
@@ -38,7 +38,7 @@ ROUNDS = [
     ([("A", "D", "0-1"), ("C", "B", "0-1"), ("E", "F", "1/2-1/2")], []),
     ([("D", "B", "1/2-1/2"), ("F", "A", "0-1"), ("C", "E", "1-0")], []),
 ]
-ALL = ("buchholz", "buchholz_cut1", "median_buchholz", "sonneborn_berger", "direct_encounter",
+ALL = ("buchholz", "buchholz_cut1", "median_buchholz", "sonneborn_berger", "direct_encounter",  # stored names
        "wins", "games_second", "progressive", "average_rating_opponents", "performance_rating")
 
 
@@ -49,8 +49,11 @@ def hand(build: Callable[..., EventState]) -> EventState:
 
 
 def column(state: EventState, key: str, unplayed: Unplayed) -> dict[str, float]:
-    table = standings(state, tiebreaks=ALL, unplayed=unplayed)
-    return {row.player: row.tiebreaks[key] for row in table.rows}
+    """One tiebreak's values, by its acronym or its snake_case name (as older files stored it)."""
+    acronym = check_tiebreaks([key])[0]
+    chosen = ALL if acronym in check_tiebreaks(ALL) else (key,)
+    table = standings(state, tiebreaks=chosen, unplayed=unplayed)
+    return {row.player: row.tiebreaks[acronym] for row in table.rows}
 
 
 def test_points(hand: EventState) -> None:
@@ -118,14 +121,19 @@ def test_virtual_opponent(hand: EventState, key: str) -> None:
 
 
 def test_dummy_opponent(hand: EventState) -> None:
-    # C.07 of 2023 (from memory): an unplayed round counts as a game against an opponent
-    # holding the player's own score; other scores as they stand.
-    #   D: dummy 3½ + C 1½ + A 2½ + B 3 = 10½     E: A 2½ + dummy ½ + F 1½ + C 1½ = 6
-    #   F: B 3 + dummy 1½ + E ½ + A 2½ = 7½       G: C 1½ + 3 × dummy 1½ = 6
-    bh = column(hand, "buchholz", Unplayed.DUMMY_OPPONENT)
-    assert (bh["D"], bh["E"], bh["F"], bh["G"], bh["A"]) == (10.5, 6, 7.5, 6, 8.5)
+    # C.07 of 2023 (as remembered, low confidence): an unplayed round counts as a game against
+    # a dummy opponent holding the player's own final score; towards others a player counts
+    # with the adjusted score, voluntary unplayed rounds (forfeit loss, absence, withdrawal)
+    # as draws, a pairing bye and a forfeit win as given:
+    #   A 2½  B 3  C 1½  D 3½ (bye kept)  E 0+½+½+0 = 1 (R2 forfeit loss → ½)  F 1½ (bye kept)
+    #   G ½+1+½+½ = 2½ (forfeit win kept, R3-R4 withdrawn → ½ each)
+    #   A: E 1 + B 3 + D 3½ + F 1½ = 9            D: dummy 3½ + C 1½ + A 2½ + B 3 = 10½
+    #   E: A 2½ + dummy ½ + F 1½ + C 1½ = 6       F: B 3 + dummy 1½ + E 1 + A 2½ = 8
+    #   G: C 1½ + 3 × dummy 1½ = 6
+    bh = column(hand, "BH", Unplayed.DUMMY_OPPONENT)
+    assert (bh["A"], bh["D"], bh["E"], bh["F"], bh["G"]) == (9, 10.5, 6, 8, 6)
     #   SB D: 3½·1 + 1½ + 2½ + ½·3 = 9      G: ½·1½ + 1½·1 (forfeit win) + 0 + 0 = 2¼
-    sb = column(hand, "sonneborn_berger", Unplayed.DUMMY_OPPONENT)
+    sb = column(hand, "SB", Unplayed.DUMMY_OPPONENT)
     assert (sb["D"], sb["G"]) == (9, 2.25)
 
 
@@ -161,7 +169,7 @@ def test_ranking_by_default_tiebreaks(hand: EventState) -> None:
     # Default list: cut 1, Buchholz, SB, wins; virtual opponent (the default treatment).
     # Points: D 3½, B 3, A 2½, then C, F, G on 1½ split by cut 1 (C 8, G 7, F 6½), E ½.
     table = standings(hand)
-    assert table.tiebreaks == ("buchholz_cut1", "buchholz", "sonneborn_berger", "wins")
+    assert table.tiebreaks == ("BH-C1", "BH", "SB", "WIN")   # stored by fold for a file without a list
     assert table.unplayed is Unplayed.VIRTUAL_OPPONENT
     assert [(r.rank, r.player) for r in table.rows] == [
         (1, "D"), (2, "B"), (3, "A"), (4, "C"), (5, "G"), (6, "F"), (7, "E")]
@@ -189,4 +197,96 @@ def test_after_an_earlier_round(hand: EventState) -> None:
     assert table.after_round == 2
     assert {r.player: r.points for r in table.rows} == {
         "A": 1.5, "B": 1.5, "C": 0.5, "D": 2, "E": 0, "F": 1, "G": 1.5}
-    assert table.row_of(PlayerId("D")).tiebreaks["buchholz"] == 1
+    assert table.row_of(PlayerId("D")).tiebreaks["BH"] == 1
+
+
+# --- the other C.07 tiebreaks on the same crosstable (worked by hand, as they stand) ----
+def test_wins_over_the_board_and_with_black(hand: EventState) -> None:
+    # WON, games won over the board: A R1, R4; B R1, R3; C R4; D R2, R3 (G's forfeit win does
+    # not count). BWG, of those with Black (second side): A R4; B R1, R3; D R3.
+    assert column(hand, "WON", Unplayed.AS_THEY_STAND) == {
+        "A": 2, "B": 2, "C": 1, "D": 2, "E": 0, "F": 0, "G": 0}
+    assert column(hand, "bwg", Unplayed.AS_THEY_STAND) == {
+        "A": 1, "B": 2, "C": 0, "D": 1, "E": 0, "F": 0, "G": 0}
+
+
+def test_koya(hand: EventState) -> None:
+    # KS: limit half of 4 rounds × 1 = 2 points, reached by A 2½, B 3, D 3½. Points against them
+    # in games played: A ½ (B) + 0 (D); B ½ (A) + ½ (D); C 0 + 0; D 1 (A) + ½ (B); E 0; F 0; G none.
+    assert column(hand, "KS", Unplayed.AS_THEY_STAND) == {
+        "A": 0.5, "B": 1, "C": 0, "D": 1.5, "E": 0, "F": 0, "G": 0}
+
+
+def test_progressive_cut(hand: EventState) -> None:
+    # PS-C1 drops the earliest running score (from memory): the PS totals above less round 1's
+    # running score: A 6½-1  B 8-1  C 3-½  D 9½-1  E 1-0  F 4-0  G 5-½.
+    assert column(hand, "PS-C1", Unplayed.AS_THEY_STAND) == {
+        "A": 5.5, "B": 7, "C": 2.5, "D": 8.5, "E": 1, "F": 4, "G": 4.5}
+
+
+def test_buchholz_cut2_and_median2(hand: EventState) -> None:
+    # Opponent scores as they stand, sorted: A ½ 1½ 3 3½; B 1½ 1½ 2½ 3½; D 1½ 2½ 3; E 1½ 1½ 2½; G 1½.
+    # Cut 2 drops the two lowest; median 2 the two lowest and two highest (nothing left of 4).
+    bh_c2 = column(hand, "BH-C2", Unplayed.AS_THEY_STAND)
+    assert (bh_c2["A"], bh_c2["B"], bh_c2["D"], bh_c2["E"], bh_c2["G"]) == (6.5, 6, 3, 2.5, 0)
+    assert set(column(hand, "BH-M2", Unplayed.AS_THEY_STAND).values()) == {0}
+
+
+def test_sonneborn_berger_cut1(hand: EventState) -> None:
+    # SB-C1 drops the opponent with the lowest score (of equal scores, the smaller contribution):
+    #   A: E ½ (won, ½) dropped → 3½ - ½ = 3      B: F or C 1½ (both won, 1½) → 6 - 1½ = 4½
+    #   C: E ½ (won, ½) → 1¼ - ½ = ¾              D: C 1½ (won) → 5½ - 1½ = 4
+    #   E: F 1½ drawn (¾) and C 1½ lost (0): C's 0 dropped → ¾
+    sb = column(hand, "SB-C1", Unplayed.AS_THEY_STAND)
+    assert (sb["A"], sb["B"], sb["C"], sb["D"], sb["E"]) == (3, 4.5, 0.75, 4, 0.75)
+
+
+def test_fore_buchholz(hand: EventState) -> None:
+    # FB: round 4's games (D-B, F-A, C-E) all count as draws, so the final scores become
+    # A 1½+½ = 2, B 2½+½ = 3, C ½+½ = 1, D 3+½ = 3½, E ½+½ = 1, F 1½+½ = 2, G 1½ (withdrawn).
+    #   A: E 1 + B 3 + D 3½ + F 2 = 9½     B: F 2 + A 2 + C 1 + D 3½ = 8½   C: G 1½ + D 3½ + B 3 + E 1 = 9
+    #   D: C 1 + A 2 + B 3 = 6 (bye: none)  E: A 2 + F 2 + C 1 = 5   F: B 3 + E 1 + A 2 = 6   G: C 1
+    assert column(hand, "FB", Unplayed.AS_THEY_STAND) == {
+        "A": 9.5, "B": 8.5, "C": 9, "D": 6, "E": 5, "F": 6, "G": 1}
+
+
+def test_average_of_opponents_buchholz(hand: EventState) -> None:
+    # AOB: the mean of the opponents' Buchholz (as they stand: A 8½ B 9 C 8½ D 7 E 5½ F 6 G 1½).
+    #   A: (E 5½ + B 9 + D 7 + F 6) / 4 = 6.875     D: (C 8½ + A 8½ + B 9) / 3 = 8.666…
+    #   E: (A 8½ + F 6 + C 8½) / 3 = 7.666…        G: C 8½
+    aob = column(hand, "AOB", Unplayed.AS_THEY_STAND)
+    assert (aob["A"], aob["D"], aob["E"], aob["G"]) == (6.875, 8.666667, 7.666667, 8.5)
+
+
+def test_rating_cuts(hand: EventState) -> None:
+    # ARO-C1 drops the lowest rating: A (1600+1900+1700)/3 = 1733.3 → 1733; C drops G's default
+    # 1000: (1700+1900+1600)/3 → 1733; E (2000+1800)/2 = 1900; G's only opponent dropped → 0.
+    aro = column(hand, "ARO-C1", Unplayed.AS_THEY_STAND)
+    assert (aro["A"], aro["C"], aro["E"], aro["G"]) == (1733, 1733, 1900, 0)
+    # ARO-M1 also drops the highest: A (1600+1700)/2 = 1650; E 1800.
+    aro = column(hand, "ARO-M1", Unplayed.AS_THEY_STAND)
+    assert (aro["A"], aro["E"]) == (1650, 1800)
+
+
+def test_perfect_performance(hand: EventState) -> None:
+    # PTP with the B.02 table 8.1(b) (from memory), worked by hand:
+    # A scored 2½ against 1600, 1900, 1700, 1500. At 1776 the expected scores are
+    # .73 + .33 + .60 + .83 = 2.49; at 1777 and 1778 they are 2.50; at 1779 2.52: the middle of
+    # 1777..1778 is 1777.5 → 1778.
+    # E scored ½ against 2000, 1500, 1800: .02 + .39 + .09 = .50 from 1417 to 1423 → 1420.
+    # G drew with 1800: .50 from D = −3 to +3 → 1800.
+    # C scored 1½ against 1000, 1700, 1900, 1600: 1.49 at 1454, 1.51 at 1455 (two bands change
+    # at once), never exactly 1.50: the lowest rating past it, 1455.
+    ptp = column(hand, "PTP", Unplayed.AS_THEY_STAND)
+    assert (ptp["A"], ptp["E"], ptp["G"], ptp["C"]) == (1778, 1420, 1800, 1455)
+    # APPO: the mean PTP of the opponents; G met only C → 1455.
+    assert column(hand, "APPO", Unplayed.AS_THEY_STAND)["G"] == 1455
+
+
+def test_average_performance_of_opponents(hand: EventState) -> None:
+    # TPRs (B.02 table 8.1(a)): A 1770, C 1463, E 1494, G 1800 (above); B: ARO 1750, p .75 → +193
+    # = 1943; D: ARO 1900, p 2½/3 → .83 → +273 = 2173; F: ARO 5500/3 → 1833, p ½/3 → .17 → −273 = 1560.
+    # APRO: A (E 1494 + B 1943 + D 2173 + F 1560) / 4 = 1792.5 → 1793;  E (1770 + 1560 + 1463)/3
+    # = 1597.7 → 1598;  G: C 1463.
+    apro = column(hand, "APRO", Unplayed.AS_THEY_STAND)
+    assert (apro["A"], apro["E"], apro["G"]) == (1793, 1598, 1463)

@@ -1,0 +1,74 @@
+"""DE, direct encounter, among the players still tied (FIDE Handbook C.07, from memory).
+
+C.07 as remembered: among the tied players, the points each scored in the
+games they played against one another rank them, when every pair of them has
+met; when some have not, a player still ranks above the others if no result of
+the missing games could change that. Players left equal are ranked again by
+their games among themselves only, until nothing changes (the "recomputed on
+the reduced group" rule). Forfeits are not meetings, so they do not count.
+"""
+
+from __future__ import annotations
+
+from typing import Iterable
+
+from pairings.standings.context import Context, SlotKind
+from pairings.standings.measures import Values
+from pairings.state import PlayerId
+
+
+def _among(ctx: Context, group: frozenset[PlayerId]) -> tuple[dict[PlayerId, float], dict[PlayerId, int]]:
+    """Each player's points against the group, and how many of the group they never met."""
+    scores: dict[PlayerId, float] = {}
+    missing: dict[PlayerId, int] = {}
+    for pid in group:
+        met = set()
+        total = 0.0
+        for slot in ctx.slots[pid]:
+            if slot.kind is SlotKind.PLAYED and slot.opponent in group:
+                met.add(slot.opponent)
+                total += slot.points
+        scores[pid] = total
+        missing[pid] = len(group) - 1 - len(met)
+    return scores, missing
+
+
+def levels(ctx: Context, group: frozenset[PlayerId]) -> list[frozenset[PlayerId]]:
+    """The group split into ordered levels, best first; players in one level stay tied."""
+    if len(group) < 2:
+        return [group]
+    scores, missing = _among(ctx, group)
+    if not any(missing.values()):
+        split = sorted({scores[p] for p in group}, reverse=True)
+        if len(split) == 1:
+            return [group]
+        out: list[frozenset[PlayerId]] = []
+        for value in split:
+            out += levels(ctx, frozenset(p for p in group if scores[p] == value))
+        return out
+    win = ctx.scoring.win
+    best = {p: scores[p] + win * missing[p] for p in group}   # every missing game won
+    for p in group:
+        others = group - {p}
+        if all(scores[p] > best[q] for q in others):           # no missing result can catch p
+            return [frozenset({p})] + levels(ctx, others)
+        if all(best[p] < scores[q] for q in others):           # p cannot catch anyone
+            return levels(ctx, others) + [frozenset({p})]
+    return [group]
+
+
+def direct_encounter(ctx: Context, groups: Iterable[frozenset[PlayerId]]) -> tuple[Values, Values]:
+    """DE for every player: the shown value (points against the others tied with them) and the
+    sort key (higher ranks first). A player tied with nobody, or in a group DE cannot order
+    at all because of missing games, is shown 0."""
+    shown: Values = {}
+    key: Values = {}
+    for group in groups:
+        scores, missing = _among(ctx, group)
+        ordered = levels(ctx, group)
+        applies = len(group) > 1 and (len(ordered) > 1 or not any(missing.values()))
+        for n, level in enumerate(ordered):
+            for pid in level:
+                shown[pid] = scores[pid] if applies else 0.0
+                key[pid] = float(len(ordered) - 1 - n)
+    return shown, key
