@@ -162,12 +162,12 @@ static void label_node(Search *s, idx x, Label label, idx via_in, idx via_out) {
     }
 }
 
-static void note_outer(Search *s, idx x, idx k) {
+static void note_outer(Search *s, idx x, idx k, i128 sl) {
     if (edges_push(&s->outer_edges[x], k)) {
         s->fail = FAIL_MEMORY;
         return;
     }
-    if (s->best_outer[x] == NONE || slack(s, k) < slack(s, s->best_outer[x])) s->best_outer[x] = k;
+    if (s->best_outer[x] == NONE || sl < slack(s, s->best_outer[x])) s->best_outer[x] = k;
 }
 
 static idx child_holding(const Search *s, idx b, idx v) {
@@ -257,7 +257,7 @@ static int grow(Search *s, idx x, idx y) {
     return 0;
 }
 
-static void label_node_keep_via(Search *s, idx b, idx ancestor) {
+static void replace_in_tree(Search *s, idx b, idx ancestor) {
     s->label[b] = OUTER;
     s->via_in[b] = s->via_in[ancestor];
     s->via_out[b] = s->via_out[ancestor];
@@ -366,7 +366,7 @@ static void shrink(Search *s, idx x, idx y) {
     for (idx i = 0; i + 1 < k; i++) s->member_next[s->last_member[cycle[i]]] = s->first_member[cycle[i + 1]];
     for (idx i = 0; i < k; i++) s->parent[cycle[i]] = b;
     for (idx v = s->first_member[b]; v != NONE; v = next_member(s, b, v)) top[v] = b;
-    label_node_keep_via(s, b, ancestor);
+    replace_in_tree(s, b, ancestor);
     for (idx i = 0; i < k; i++) {
         idx c = cycle[i];
         if (s->label[c] == INNER)
@@ -413,7 +413,7 @@ static int scan_queue(Search *s) {
                 if (sl == 0)
                     shrink(s, x, y);
                 else
-                    note_outer(s, tx, k);
+                    note_outer(s, tx, k, sl);
             } else {
                 if (s->reach[y] == NONE || sl < slack(s, s->reach[y])) {
                     if (s->reach[y] == NONE) s->reached[s->nreached++] = y;

@@ -82,6 +82,9 @@ class Label(IntEnum):
     """At odd distance; its vertices' duals rise by ``delta``."""
 
 
+FREE, OUTER, INNER = Label.FREE, Label.OUTER, Label.INNER
+
+
 class DualStep(IntEnum):
     """What bounds a dual step, and what the search does after it."""
 
@@ -200,7 +203,7 @@ class Search:
 
     def scan_queue(self) -> bool:
         """Scan the waiting outer vertices' edges; True when the stage augmented."""
-        top, label, y2, w = self.top, self.label, self.y2, self.w
+        top, label, y2, w, eu, ev, reach = self.top, self.label, self.y2, self.w, self.eu, self.ev, self.reach
         while self.head < len(self.queue):
             x = self.queue[self.head]
             self.head += 1
@@ -209,24 +212,26 @@ class Search:
                 if tx == ty:
                     continue
                 s = y2[x] + y2[y] - 2 * w[k]
-                if label[ty] == Label.OUTER:
+                if label[ty] == OUTER:
                     if s == 0:
                         self.shrink(x, y)
                     else:
-                        self.note_outer(tx, k)
+                        self.note_outer(tx, k, s)
                 else:
-                    if self.reach[y] == NONE or s < self.slack(self.reach[y]):
-                        if self.reach[y] == NONE:
-                            self.reached.append(y)
-                        self.reach[y] = k
-                    if s == 0 and label[ty] == Label.FREE and self.grow(x, y):
+                    r = reach[y]
+                    if r == NONE:
+                        self.reached.append(y)
+                        reach[y] = k
+                    elif s < y2[eu[r]] + y2[ev[r]] - 2 * w[r]:
+                        reach[y] = k
+                    if s == 0 and label[ty] == FREE and self.grow(x, y):
                         return True
         return False
 
-    def note_outer(self, x: int, k: int) -> None:
-        """Record edge ``k`` between outer node ``x`` and another outer node."""
+    def note_outer(self, x: int, k: int, s: int) -> None:
+        """Record edge ``k`` (reduced cost ``s``) between outer node ``x`` and another outer node."""
         self.outer_edges[x].append(k)
-        if self.best_outer[x] == NONE or self.slack(k) < self.slack(self.best_outer[x]):
+        if self.best_outer[x] == NONE or s < self.slack(self.best_outer[x]):
             self.best_outer[x] = k
 
     def grow(self, x: int, y: int) -> bool:
@@ -244,12 +249,13 @@ class Search:
     def dual_step(self) -> tuple[DualStep, int, int]:
         """The kind, size and edge (or blossom) of the largest feasible dual step."""
         kind, delta, arg = DualStep.UNBOUNDED, 0, NONE
-        label, top = self.label, self.top
+        label, top, reach, y2, w, eu, ev = self.label, self.top, self.reach, self.y2, self.w, self.eu, self.ev
         for v in self.reached:
-            if label[top[v]] == Label.FREE:
-                s = self.slack(self.reach[v])
+            if label[top[v]] == FREE:
+                k = reach[v]
+                s = y2[eu[k]] + y2[ev[k]] - 2 * w[k]
                 if kind == DualStep.UNBOUNDED or s < delta:
-                    kind, delta, arg = DualStep.GROW, s, self.reach[v]
+                    kind, delta, arg = DualStep.GROW, s, k
         for x in self.tree_nodes:
             if self.parent[x] != NONE:
                 continue
@@ -340,13 +346,13 @@ class Search:
             self.parent[c] = b
         for v in self.members[b]:
             top[v] = b
-        self.label_node_keep_via(b, ancestor)
+        self.replace_in_tree(b, ancestor)
         for c in cycle:
             if self.label[c] == Label.INNER:  # its vertices are outer now
                 self.queue.extend(self.members[c])
         self.merge_outer_edges(b)
 
-    def label_node_keep_via(self, b: int, ancestor: int) -> None:
+    def replace_in_tree(self, b: int, ancestor: int) -> None:
         """A new blossom takes its ancestor's place in the tree (an outer node, already listed vertices)."""
         self.label[b] = Label.OUTER
         self.via_in[b], self.via_out[b] = self.via_in[ancestor], self.via_out[ancestor]
