@@ -69,7 +69,7 @@ typedef struct {
     idx *adj_start;           /* n + 1: adjacency of v is adj_edge/adj_other[adj_start[v]..], edge order */
     idx *adj_edge, *adj_other;
     i128 *y2;                 /* n: 2 y_v; the dual is feasible on every edge */
-    i128 *z;                  /* 2n: z_B >= 0 for a blossom id; 0 for vertices and unused ids */
+    i128 *z;                  /* 2n: z_B >= 0 for a blossom id, > 0 top-level between stages */
     idx *mate;                /* n: partner or NONE; matched edges are tight */
     idx *parent;              /* 2n: the blossom whose cycle holds the node, NONE for top-level/unused */
     idx *top;                 /* n: the top-level node holding each vertex */

@@ -119,7 +119,8 @@ class Search:
             self.adjacency[ev[k]].append((k, eu[k]))
         # y2[v] = 2 y_v; the dual is feasible on every edge.
         self.y2 = y2
-        # z[b] = z_B >= 0 for a blossom id; 0 for vertices and unused ids.
+        # z[b] = z_B >= 0 for a blossom id, > 0 for a top-level blossom between stages (a nested one
+        # may keep 0); 0 for vertices and unused ids.
         self.z = [0] * (2 * n)
         # mate[v]: v's partner or NONE; matched edges are tight.
         self.mate = mate
@@ -451,7 +452,7 @@ class Search:
             self.rebase(inner, y)
 
     def end_stage(self) -> None:
-        """Dissolve the stage's blossoms of ``z = 0`` and clear its labels and lists."""
+        """Dissolve the stage's top-level blossoms of ``z = 0`` and clear its labels and lists."""
         for x in self.tree_nodes:
             if x >= self.n and self.parent[x] == NONE and self.cycle[x] and self.z[x] == 0:
                 self.dissolve(x)
