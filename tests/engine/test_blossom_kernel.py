@@ -254,3 +254,31 @@ def test_many_ties_on_larger_graphs_same_matching_from_python_and_c(seed: int) -
     again = perfect_matching(n, edges, warm, first[1])
     assert again is not None and python_solve(n, edges, warm, first[1]) == again
     assert weight(edges, again[0]) == weight(edges, got[0]) and certifies(n, edges, again)
+
+
+def nested_triangles(k: int) -> tuple[int, Edges, list[int]]:
+    """Root 0, warm pairs (1, 2), (3, 4), ...: the search shrinks each pair with the blossom before.
+
+    Every edge weighs 10 but the last one (1): from the plain start all others are tight, and the
+    scan shrinks k triangles, each holding the one before (nesting depth k), before a dual step
+    reaches the last vertex.
+    """
+    n = 2 * k + 2
+    edges = [(0, 1, 10), (0, 2, 10), (1, 2, 10)]
+    for i in range(1, k):
+        a, b = 2 * i + 1, 2 * i + 2
+        edges += [(a, b, 10), (a - 1, a, 10), (a - 2, b, 10)]
+    edges.append((n - 2, n - 1, 1))
+    warm = [j for j, (u, v, _) in enumerate(edges) if v == u + 1 and u % 2 == 1]
+    return n, edges, warm
+
+
+def test_deeply_nested_blossoms_need_no_recursion() -> None:
+    n, edges, warm = nested_triangles(1000)
+    got = perfect_matching(n, edges, warm)
+    assert got is not None and python_solve(n, edges, warm) == got  # Python: no recursion limit reached
+    assert certifies(n, edges, got)
+    n, edges, warm = nested_triangles(10_000)  # the C kernel: 10,000 levels, explicit stacks only
+    got = perfect_matching(n, edges, warm)
+    assert got is not None and certifies(n, edges, got)
+    assert weight(edges, got[0]) == 10 * (n // 2 - 1) + 1
