@@ -22,10 +22,10 @@ slackness then proves it optimal.
 
 A stage grows one alternating tree from one exposed vertex (the root) over
 tight edges, with blossoms shrunk to single nodes. When no tight edge lets
-the tree grow, the dual moves by ``delta``: every vertex of an outer node
-loses ``delta``, of an inner node gains it, an outer blossom's ``z`` gains
-``2 delta`` and an inner blossom's loses it, in doubled units (see
-*Integers*). The largest ``delta`` that keeps the dual feasible is set by
+the tree grow, the dual moves by ``delta``: ``y2`` (twice ``y``, see *Integers*)
+of every vertex of an outer node loses ``delta``, of an inner node gains
+it, and an outer blossom's ``z`` gains ``delta``, an inner blossom's loses
+it (so no edge inside a blossom changes its reduced cost). The largest ``delta`` that keeps the dual feasible is set by
 the first of four events (:class:`DualStep`): an edge from the tree to a
 free node becomes tight (GROW, or AUGMENT when that node is exposed), an
 edge between two outer nodes becomes tight (SHRINK: an odd cycle), or an
@@ -38,11 +38,12 @@ edges is a valid start.
 Integers
 --------
 ``y2[v]`` is ``2 y_v`` and ``z[b]`` is ``z_B``, so the doubled reduced cost
-of an edge between two top-level nodes is ``y2[u] + y2[v] - 2 w_uv`` (the
-blossoms holding both ends add ``2 z_B`` inside a blossom, where no edge is
-ever priced). Tree edges and blossom cycle edges are tight, so every vertex
-of the tree has the parity of the root: an edge between two outer nodes has
-an even reduced cost and every ``delta`` is an integer.
+of an edge between two top-level nodes is ``y2[u] + y2[v] - 2 w_uv`` (an
+edge inside a blossom also counts ``2 z_B`` of each blossom holding both
+ends; the search never prices one). Tree edges and blossom cycle edges are
+tight, so every vertex of the tree has the parity of the root: an edge
+between two outer nodes has an even reduced cost and every ``delta`` is an
+integer.
 
 Locality
 --------
@@ -274,7 +275,7 @@ class Search:
         return kind, delta, arg
 
     def move_dual(self, delta: int) -> None:
-        """Outer vertices lose ``delta``, inner ones gain it; blossom ``z`` moves the other way, doubled."""
+        """Outer vertices' ``y2`` lose ``delta``, inner ones' gain it; top-level blossoms' ``z`` the other way."""
         if delta == 0:
             return
         label, top, y2, z = self.label, self.top, self.y2, self.z
