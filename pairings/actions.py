@@ -399,12 +399,13 @@ def stale_draft(state: EventState) -> list[str]:
     if rnd is None or rnd.state is not RoundState.DRAFT:
         return []
     name = {pid: p.name for pid, p in state.players.items()}
-    available = set(state.available(rnd.number))
+    ranked = state.available(rnd.number)
+    available = set(ranked)
     asked = state.requests.get(rnd.number, {})
-    paired = [p for g in rnd.games for p in (g.first, g.second)]
-    paired += [y.player for y in rnd.byes if y.kind is ByeKind.PAIRING]
+    paired = dict.fromkeys([p for g in rnd.games for p in (g.first, g.second)]
+                           + [y.player for y in rnd.byes if y.kind is ByeKind.PAIRING])
     on_bye = {y.player: y.kind for y in rnd.byes if y.kind is not ByeKind.PAIRING}
-    out = [f"{name[p]} is not in it" for p in state.available(rnd.number) if p not in paired and p not in on_bye]
+    out = [f"{name[p]} is not in it" for p in ranked if p not in paired and p not in on_bye]
     for pid in paired:
         if pid in asked:
             what = "an absence" if asked[pid] is ByeKind.ABSENCE else "a requested bye"

@@ -16,9 +16,9 @@ from pathlib import Path
 from typing import Any, Callable, NoReturn, Sequence
 
 from pairings import actions
-from pairings.errors import InputError, NoPairingError, PairingsError
-from pairings.events import Undone
 from pairings.cliawards import add_award_commands
+from pairings.errors import InputError, NoPairingError, PairingsError
+from pairings.events import BreachAccepted, NoShowKept, Undone
 from pairings.printouts import FORMATS, KINDS, PAPERS
 from pairings.state import ByeKind, EventState, RoundState
 from pairings.store import EventStore
@@ -211,12 +211,15 @@ def print_round(state: EventState, number: int) -> None:
 
 
 def cmd_pair(a: argparse.Namespace) -> None:
-    state = _run(a.event, lambda s: actions.pair(s, replace=a.replace, keep=a.keep))
+    state, events = _run_kept(a.event, lambda s: actions.pair(s, replace=a.replace, keep=a.keep))
     number = state.rounds[-1].number
     if a.json:
         _json(_draft_json(state, number))
-    else:
-        print_round(state, number)
+        return
+    for e in events:
+        if isinstance(e, NoShowKept):
+            _say(f"{_who(state, e.player)} stays in after the double forfeit of round {e.round}")
+    print_round(state, number)
 
 
 def cmd_swap(a: argparse.Namespace) -> None:
@@ -249,8 +252,10 @@ def cmd_publish(a: argparse.Namespace) -> None:
         raise InputError("--accept needs --reason TEXT (it goes into the log)")
     if a.reason and not a.accept:
         raise InputError("--reason goes with --accept (publishing a draft that breaks a hard rule)")
-    state = _run(a.event, lambda s: actions.publish(s, a.reason or ""))
-    _say(f"round {state.rounds[-1].number} published")
+    state, events = _run_kept(a.event, lambda s: actions.publish(s, a.reason or ""))
+    accepted = [e for e in events if isinstance(e, BreachAccepted)]
+    what = f", breaking {plain('; '.join(accepted[0].breaches))} (accepted)" if accepted else ""
+    _say(f"round {state.rounds[-1].number} published{what}")
 
 
 def cmd_unpublish(a: argparse.Namespace) -> None:
