@@ -15,6 +15,9 @@ the compiled scan;
 ``fallback``: the compiled solver on every pruned edge), and asserts that the
 two cost vectors are equal. ``--fold N`` also times folding a whole
 ``--rounds``-round log of ``N`` players (:func:`pairings.fold.fold`).
+``--verify N`` (default 10,000; 0: skip) times ``pairings verify``'s check of
+one engine round of ``N`` players (:func:`pairings.engine.verify_round`: the
+dual certificate, no networkx re-solve; target at most 30 s at 10,000).
 """
 
 from __future__ import annotations
@@ -24,7 +27,8 @@ import time
 import tracemalloc
 from typing import Callable, TypeVar
 
-from pairings.engine import draft_round
+from pairings import actions
+from pairings.engine import draft_round, verify_round
 from pairings.engine import candidates, implicit
 from pairings.engine.criteria import Field
 from pairings.engine.solver import fast_available
@@ -94,6 +98,19 @@ def bench_fold(n: int, rounds: int, seed: int) -> str:
     return f"fold: {n:,} players, {rounds} rounds, {len(log):,} events: {fold_s:.2f} s"
 
 
+def bench_verify(n: int, rounds: int, played: int, seed: int) -> str:
+    """Time the check of one stored engine round of ``n`` players, as ``pairings verify`` makes it."""
+    log = simulate_events(n, rounds, played, seed)
+    state = fold(enumerate(log, 1))
+    draft = draft_round(state)
+    stored = fold(enumerate([*log, actions._draft_event(draft)], 1))
+    del log, state
+    check, seconds = _timed(lambda: verify_round(stored, draft.round))
+    assert check.ok and check.optimal is True, check.lines()
+    how = next((line.strip() for line in check.lines() if "dual certificate" in line), "no certificate")
+    return f"verify: {n:,} players, round {draft.round}: {seconds:.2f} s ({how})"
+
+
 def main(argv: list[str] | None = None) -> None:
     parser = argparse.ArgumentParser(prog="python -m pairings.bench", description=__doc__.splitlines()[0])
     parser.add_argument("--sizes", default="64,256,512,1000,2000",
@@ -104,6 +121,8 @@ def main(argv: list[str] | None = None) -> None:
     parser.add_argument("--reference-limit", type=int, default=512,
                         help="largest field also solved by networkx on the full graph (default %(default)s)")
     parser.add_argument("--fold", type=int, default=0, help="also time folding a whole log of this many players")
+    parser.add_argument("--verify", type=int, default=10000,
+                        help="also time verifying one round of this many players (default %(default)s; 0: skip)")
     args = parser.parse_args(argv)
     engine = "compiled blossom and pair scan (implicit pruned pairs)" if implicit.available() else \
         f"{'rustworkx (compiled)' if fast_available() else 'networkx'} on the listed pruned pairs"
@@ -114,6 +133,8 @@ def main(argv: list[str] | None = None) -> None:
         print(bench_one(n, args.rounds, args.played, args.seed, args.reference_limit), flush=True)
     if args.fold:
         print(bench_fold(args.fold, args.rounds, args.seed))
+    if args.verify:
+        print(bench_verify(args.verify, args.rounds, args.played, args.seed), flush=True)
 
 
 if __name__ == "__main__":
