@@ -13,8 +13,9 @@ from typing import Any
 from pydantic import BaseModel, ConfigDict, Field, ValidationError
 
 from pairings import events as ev
+from pairings.categories import OVERALL, check_rule
 from pairings.errors import InputError
-from pairings.state import BetterPrize, EventState, PrizeTies
+from pairings.state import BetterPrize, CategoryRule, EventState, PrizeTies
 
 
 def awards_document(state: EventState) -> dict[str, Any] | None:
@@ -78,6 +79,13 @@ def awards_events(data: object, players: set[str]) -> list[ev.Event]:
     if twice is not None:
         raise InputError(f"awards: category {twice!r} appears twice")
     for c in doc.categories:
+        if c.name.casefold() == OVERALL:
+            raise InputError(f"awards: {OVERALL!r} names the whole field, not a category")
+        if c.rule is not None:
+            try:
+                check_rule(CategoryRule(**c.rule.model_dump()))
+            except InputError as exc:
+                raise InputError(f"awards: category {c.name!r}: {exc}") from None
         stray = next((p for p in c.added + c.excluded if p not in players), None)
         if stray is not None:
             raise InputError(f"awards: category {c.name!r} names unknown player {stray!r}")

@@ -155,6 +155,8 @@ def test_export_and_restore_carry_categories_prizes_and_rules() -> None:
     ({"categories": [{"name": "A"}, {"name": "A"}]}, "category 'A' appears twice"),
     ({"prizes": [{"category": None, "place": 1, "amount": 5}] * 2}, "two prizes"),
     ({"prizes": [{"category": None, "place": 1, "amount": 1.5}]}, "awards.prizes.0.amount"),
+    ({"categories": [{"name": "U18", "rule": {"age_under": 18}}]}, "category 'U18': an age rule needs the date"),
+    ({"categories": [{"name": "Overall"}]}, "names the whole field"),
 ])
 def test_restore_refuses_bad_awards(awards: dict[str, Any], message: str) -> None:
     from pairings.errors import InputError
