@@ -303,7 +303,7 @@ def _report(a: argparse.Namespace, kind: str) -> None:
     with _open(a.event) as store:
         state = store.state
     if getattr(a, "tiebreaks", None):   # another list for this printout only; the event keeps its own
-        chosen = check_tiebreaks([t for t in a.tiebreaks.split(",") if t.strip()])
+        chosen = check_tiebreaks(a.tiebreaks)
         state = replace(state, settings=replace(state.settings, tiebreaks=chosen))
     out = render(state, kind, a.format, getattr(a, "round", None), category=getattr(a, "category", None),
                  paper=getattr(a, "paper", None))

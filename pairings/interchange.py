@@ -14,6 +14,7 @@ from pydantic import BaseModel, ConfigDict, Field, ValidationError
 from pairings import events as ev
 from pairings.actions import clean_text
 from pairings.errors import InputError
+from pairings.prizedoc import awards_document, awards_events
 from pairings.state import ByeKind, EventState, Result, RoundState, Status
 
 FORMAT = "pairings-event"
@@ -26,7 +27,7 @@ def _number(x: float) -> float | int:
 
 def export_event(state: EventState) -> dict[str, Any]:
     s = state.settings
-    return {
+    doc = {
         "format": FORMAT,
         "version": VERSION,
         "event": {
@@ -54,6 +55,10 @@ def export_event(state: EventState) -> dict[str, Any]:
             for r in state.rounds
         ],
     }
+    awards = awards_document(state)
+    if awards is not None:   # only events with prizes carry the part
+        doc["awards"] = awards
+    return doc
 
 
 class _Strict(BaseModel):
@@ -108,6 +113,8 @@ class _Document(_Strict):
     event: _Event
     players: list[_Player]
     rounds: list[_Round]
+    awards: Any = None
+    """Prize categories, prizes and prize rules (pairings.prizedoc); absent when the event has none."""
 
 
 def _check(doc: _Document) -> None:
@@ -170,6 +177,8 @@ def restore_events(data: object) -> list[ev.Event]:
         )
     ]
     out += [ev.PlayerRegistered(id=p.id, name=p.name, rating=p.rating, club=p.club) for p in doc.players]
+    if doc.awards is not None:
+        out += awards_events(doc.awards, {p.id for p in doc.players})
     after = len(doc.rounds) + 1
     for rnd in doc.rounds:
         out.append(

@@ -179,7 +179,9 @@ def slip_sheet(state: EventState, round_number: int | None, now: datetime) -> Sh
 
 
 def _tiebreak_notes(table: Standings, state: EventState) -> tuple[str, ...]:
-    notes = [f"Tiebreaks with {UNPLAYED_LABELS[table.unplayed]}.", *legend(table.tiebreaks)]
+    notes = list(legend(table.tiebreaks))
+    if any(tiebreak(a).kind.uses_unplayed for a in table.tiebreaks):   # only where the treatment changes a value
+        notes.insert(0, f"Tiebreaks with {UNPLAYED_LABELS[table.unplayed]}.")
     if any(tiebreak(a).kind.uses_ratings for a in table.tiebreaks):
         notes.append(f"Unrated players count as {state.settings.default_rating}.")
     if table.provisional:
