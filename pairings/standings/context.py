@@ -26,7 +26,7 @@ from enum import StrEnum
 from types import MappingProxyType
 from typing import Mapping
 
-from pairings.state import EventState, PlayerId, RoundEntry, Scoring, Side, Unplayed
+from pairings.state import EventState, PlayerId, RoundEntry, Scoring, Side, Unplayed, late_entry_points
 
 
 class SlotKind(StrEnum):
@@ -118,9 +118,11 @@ def virtual_opponent_score(slot: Slot, last: int, scoring: Scoring) -> float:
     return slot.score_before + opposite_points(slot.points, scoring) + scoring.draw * later
 
 
-def _slot(entry: RoundEntry | None, round_number: int, before: float, scoring: Scoring) -> Slot:
+def _slot(entry: RoundEntry | None, round_number: int, before: float, scoring: Scoring, missed: float) -> Slot:
+    """``missed``: the late-entry points for this round when the player had not entered yet."""
     if entry is None:
-        return Slot(round_number, SlotKind.UNPLAYED, None, None, 0.0, 0.0, False, before)
+        fraction = missed / scoring.win if scoring.win else 0.0
+        return Slot(round_number, SlotKind.UNPLAYED, None, None, missed, fraction, False, before)
     points = entry.points or 0.0
     if entry.opponent is not None and entry.result is None:
         return Slot(round_number, SlotKind.PENDING, entry.opponent, entry.side, 0.0, 0.0, False, before)
@@ -142,7 +144,8 @@ def build_context(state: EventState, last: int, unplayed: Unplayed) -> Context:
         row: list[Slot] = []
         score = 0.0
         for r in range(1, last + 1):
-            slot = _slot(record.entry(r), r, score, scoring)
+            missed = late_entry_points(record.late_points, record.first_round, r)
+            slot = _slot(record.entry(r), r, score, scoring, missed)
             row.append(slot)
             score += slot.points
         slots[pid] = tuple(row)
