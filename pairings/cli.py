@@ -104,14 +104,23 @@ def cmd_player_edit(a: argparse.Namespace) -> None:
 
 
 def cmd_player_import(a: argparse.Namespace) -> None:
-    from pairings.roster import decode, import_roster
+    from pairings.roster import decode, read_roster
 
     try:
         data = Path(a.roster).read_bytes()
     except OSError as exc:
         raise InputError(f"{a.roster}: cannot read ({exc.strerror})") from None
     text = decode(data)
-    state = _run(a.event, lambda s: import_roster(s, text))
+    warnings: list[str] = []
+
+    def act(s: EventState) -> Sequence[Any]:
+        read = read_roster(s, text)
+        warnings[:] = read.warnings
+        return read.events
+
+    state = _run(a.event, act)
+    for line in warnings:
+        print(f"pairings: warning: {one_line(line)}", file=sys.stderr)
     _say(f"imported; {len(state.players)} players registered")
 
 

@@ -27,8 +27,10 @@ def _(e: ev.EventCreated) -> str:
 
 @_line.register
 def _(e: ev.SettingsChanged) -> str:
-    changed = {k: v for k, v in e.model_dump(exclude={"type"}).items() if v is not None}
-    return "settings changed: " + ", ".join(f"{k}={v}" for k, v in changed.items())
+    from pairings.regulations import change_words
+
+    after = f" after round {e.after_round}" if e.after_round else ""
+    return f"settings changed{after}: " + "; ".join(change_words(e))
 
 
 @_line.register
@@ -36,6 +38,8 @@ def _(e: ev.PlayerRegistered) -> str:
     extra = [f"rating {e.rating}" if e.rating is not None else "unrated"]
     if e.club:
         extra.append(e.club)
+    if e.details is not None:
+        extra += [x for x in (e.details.title, e.details.federation) if x]
     late = f", from round {e.entry_round}" if e.entry_round > 1 else ""
     return f"player {e.id} registered: {e.name} ({', '.join(extra)}){late}"
 

@@ -333,3 +333,27 @@ def replay_changed_after(s: Settings) -> list[ev.SettingsChanged]:
             value = ev.ScoringModel(win=value.win, draw=value.draw, loss=value.loss)
         out.append(ev.SettingsChanged(**{key: value}, after_round=number))
     return out
+
+
+def change_words(e: ev.SettingsChanged) -> list[str]:
+    """``label value`` for each setting an event changes (the log's line)."""
+    stored = {k: v for k, v in e.model_dump(exclude={"type", "cleared", "after_round"}).items() if v is not None}
+    if "system" in stored:
+        double = bool(stored.pop("double_round", False))
+        stored["system"] = next(n for n, v in SYSTEM_NAMES.items() if v == (System(stored["system"]), double))
+    words = []
+    for key, value in stored.items():
+        if isinstance(value, bool):
+            value = "yes" if value else "no"
+        elif isinstance(value, dict):
+            value = "/".join(f"{x:g}" for x in value.values())
+        elif isinstance(value, (list, tuple)):
+            value = ",".join(value)
+        elif isinstance(value, float):
+            value = f"{value:g}"
+        elif key == "unplayed":
+            value = str(value).replace("_", "-")
+        label = BY_KEY[key].label.lower() if key in BY_KEY else key.replace("_", " ")
+        words.append(f"{label} {value}")
+    words += [f"{BY_KEY[key].label.lower()} none" for key in e.cleared]
+    return words
