@@ -157,7 +157,9 @@ def cmd_player_list(a: argparse.Namespace) -> None:
     for p in s.players.values():
         rating = str(p.rating) if p.rating is not None else "-"
         name, club = plain(p.name)[:40], plain(p.club or "")[:20]
-        _say(f"{plain(p.id):>6}  {name:<40} {rating:>5}  {club:<20} {s.score(p.id):>4g}  {p.status.value}")
+        title, fed = p.details.title or "", p.details.federation or ""
+        _say(f"{plain(p.id):>6}  {title:<3} {name:<40} {fed:<3} {rating:>5}  {club:<20} {s.score(p.id):>4g}  "
+             f"{p.status.value}")
 
 
 def _draft_json(state: EventState, rnd_number: int) -> dict[str, Any]:

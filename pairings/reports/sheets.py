@@ -11,6 +11,7 @@ from datetime import datetime
 from typing import Callable, Literal
 
 from pairings.errors import InputError
+from pairings.regulations import changed_after_notes
 from pairings.reports.clean import stamp
 from pairings.standings import TIEBREAKS, UNPLAYED_LABELS, Standings, standings
 from pairings.state import ByeKind, EventState, PlayerId, Round, RoundEntry, RoundState, Side
@@ -163,6 +164,7 @@ def _tiebreak_notes(table: Standings, state: EventState) -> tuple[str, ...]:
         notes.append(f"{tb.short} = {tb.label} ({tb.citation})")
     if any(k in ("average_rating_opponents", "performance_rating") for k in table.tiebreaks):
         notes.append(f"Unrated players count as {state.settings.default_rating}.")
+    notes += changed_after_notes(state.settings)
     if table.provisional:
         missing = [r.number for r in state.rounds
                    if r.number <= table.after_round and r.state is RoundState.PUBLISHED]
