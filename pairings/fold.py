@@ -290,7 +290,7 @@ def _records(
     del cache[keep:]
     for rnd in counted[keep:]:
         late = {pid: pts for pid, p in players.items()
-                if (pts := late_entry_points(per_round, p.first_round, rnd.number))}
+                if (pts := late_entry_points(per_round, p.first_round, rnd.number))} if per_round else {}
         played = _round_entries(settings.scoring, rnd, cache[-1].score_after if cache else {}, late)
         cache.append(replace(played, late=late_key))
     final = cache[-1].score_after if cache else {}

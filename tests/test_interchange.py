@@ -78,7 +78,7 @@ def test_not_a_document() -> None:
 from pairings import actions  # noqa: E402
 from pairings.interchange import export_log, restore  # noqa: E402
 from pairings.regulations import change_settings, created_settings  # noqa: E402
-from pairings.state import ByeKind, EventState, PlayerDetails, RoundState  # noqa: E402
+from pairings.state import ByeKind, PlayerDetails, PlayerId, RoundState, System  # noqa: E402
 from pairings.store import EventStore  # noqa: E402
 
 SETTINGS = {
@@ -86,10 +86,6 @@ SETTINGS = {
     "requested_bye_points": "0", "requested_bye_limit": "2", "requested_bye_last_round": "5",
     "late_entry_points": "0.5", "max_meetings": "2", "final_round_side_exception": "yes", "forfeit_is_meeting": "no",
 }
-
-
-def _apply(store: EventStore, action: Any) -> EventState:
-    return store.apply(action)
 
 
 def _rich_event(path: Any) -> EventStore:
@@ -102,7 +98,7 @@ def _rich_event(path: Any) -> EventStore:
                           fide_id=str(4400100 + i), national_id=f"N{i}", birth="1990" if i else "1975-03-04",
                           sex="f" if i % 2 else "m", ratings=(("fide", 1900 - 50 * i), ("national", 1950 - 50 * i)),
                           categories=("senior",) if i == 0 else ())
-        store.apply(lambda s, n=name, d=d, r=1900 - 50 * i: actions.add_player(s, n, r, "Tor Club", details=d))
+        store.append(actions.add_player(store.state, name, 1900 - 50 * i, "Tor Club", details=d))
     store.apply(lambda s: actions.forbid_pair(s, "Ada", "Bo", reason="siblings"))
     store.apply(lambda s: actions.forbid_pair(s, "Cy", "Dee", until_round=3))
     store.apply(lambda s: actions.announce_bye(s, "Eli", ByeKind.REQUESTED, 2))
@@ -111,7 +107,7 @@ def _rich_event(path: Any) -> EventStore:
     store.apply(actions.publish)
     state = store.state
     for g in state.rounds[0].games:
-        store.apply(lambda s, b=g.board: actions.record_result(s, b, "1-0"))
+        store.append(actions.record_result(store.state, g.board, "1-0"))
     store.apply(lambda s: change_settings(s, {"tiebreaks": "buchholz,wins", "rounds": "7"}))
     store.apply(lambda s: actions.add_player(s, "Gus Penn", 1500))
     store.apply(lambda s: actions.withdraw(s, "Dee", reason="ill"))
@@ -138,12 +134,12 @@ def test_every_setting_and_detail_survive_export_restore_export(tmp_path: Any) -
 
 
 def test_a_restored_event_keeps_the_do_not_pair_list_and_the_announced_byes(tmp_path: Any) -> None:
-    events = [
+    events: list[ev.Event] = [
         ev.EventCreated(name="Club night", rounds=3, seed=5),
         *(ev.PlayerRegistered(id=f"p{i}", name=f"Player {i}", rating=2000 - 10 * i) for i in range(1, 7)),
         ev.PairForbidden(a="p1", b="p4"),
-        ev.ByeRequested(player="p2", round=1, kind="requested"),
-        ev.ByeRequested(player="p6", round=1, kind="absence"),
+        ev.ByeRequested(player="p2", round=1, kind=ByeKind.REQUESTED),
+        ev.ByeRequested(player="p6", round=1, kind=ByeKind.ABSENCE),
     ]
     doc = export_event(fold(enumerate(events, 1)))
     store = EventStore.create_from(tmp_path / "r.pairings", restore_events(doc))
@@ -155,15 +151,15 @@ def test_a_restored_event_keeps_the_do_not_pair_list_and_the_announced_byes(tmp_
     assert "p2" not in on_boards and "p6" not in on_boards
     # Without the announcements the same four players pair p1-p4 (so the check above can fail).
     bare = [e for e in events if not isinstance(e, (ev.PairForbidden, ev.ByeRequested))]
-    bare_state = fold(enumerate(bare + [ev.ByeRequested(player="p2", round=1, kind="requested"),
-                                        ev.ByeRequested(player="p6", round=1, kind="absence")], 1))
+    bare_state = fold(enumerate(bare + [ev.ByeRequested(player="p2", round=1, kind=ByeKind.REQUESTED),
+                                        ev.ByeRequested(player="p6", round=1, kind=ByeKind.ABSENCE)], 1))
     first = actions.pair(bare_state)[0]
     assert isinstance(first, ev.RoundDrafted)
     assert frozenset(("p1", "p4")) in {frozenset((b.first, b.second)) for b in first.boards}
 
 
 def test_a_round_robin_comes_back_as_a_round_robin() -> None:
-    doc = export_event(fold([(1, ev.EventCreated(name="All play all", rounds=10, system="round_robin",
+    doc = export_event(fold([(1, ev.EventCreated(name="All play all", rounds=10, system=System.ROUND_ROBIN,
                                                    double_round=True))]))
     assert doc["event"]["system"] == "double-round-robin"
     state = fold(enumerate(restore_events(doc), 1))
@@ -181,7 +177,7 @@ def test_a_version_1_document_without_the_new_keys_still_restores() -> None:
                 del p[key]
     state = fold(enumerate(restore_events(doc), 1))
     assert state.settings.tiebreaks == fold([(1, ev.EventCreated(name="x", rounds=1))]).settings.tiebreaks
-    assert state.players["p4"].withdrawn_from == 3  # after the rounds given, as before
+    assert state.players[PlayerId("p4")].withdrawn_from == 3  # after the rounds given, as before
     assert state.rounds[1].state is RoundState.PUBLISHED
 
 

@@ -8,9 +8,10 @@ from pairings import events as ev
 from pairings.errors import InputError, RosterError
 from pairings.fold import fold
 from pairings.roster import decode, import_roster, read_roster
+from pairings.state import EventState
 
 
-def _empty():  # type: ignore[no-untyped-def]
+def _empty() -> EventState:
     return fold([(1, ev.EventCreated(name="Club night", rounds=5))])
 
 

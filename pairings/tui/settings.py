@@ -28,7 +28,7 @@ def _widget_id(setting: Setting) -> str:
 class SettingsPlace(Place):
     TITLE = "Settings"
     BINDINGS = [
-        Binding("ctrl+r", "revert", "Undo edits"),
+        Binding("ctrl+r", "revert", "Reset fields"),
     ]
     DEFAULT_CSS = """
     SettingsPlace #settings { height: 1fr; padding: 0 1; }

@@ -58,8 +58,8 @@ def _value(settings, field: str):  # type: ignore[no-untyped-def]
 
 
 @pytest.mark.parametrize(("option", "text", "field", "value"), CHANGES, ids=[c[0] for c in CHANGES])
-def test_each_setting_changes_with_one_logged_event(cli, tmp_path: Path, option: str, text: str, field: str,
-                                                    value: object) -> None:  # type: ignore[no-untyped-def]
+def test_each_setting_changes_with_one_logged_event(cli, tmp_path: Path, option: str, text: str, field: str,  # type: ignore[no-untyped-def]
+                                                    value: object) -> None:
     event = _event(cli, tmp_path)
     before, length = _settings(event)
     assert _value(before, field) != value
@@ -77,8 +77,8 @@ NEW = [c for c in CHANGES if c[0] not in ("--name", "--rounds")]  # new requires
 
 
 @pytest.mark.parametrize(("option", "text", "field", "value"), NEW, ids=[c[0] for c in NEW])
-def test_new_takes_the_same_options(cli, tmp_path: Path, option: str, text: str, field: str,
-                                    value: object) -> None:  # type: ignore[no-untyped-def]
+def test_new_takes_the_same_options(cli, tmp_path: Path, option: str, text: str, field: str,  # type: ignore[no-untyped-def]
+                                    value: object) -> None:
     event = _event(cli, tmp_path, option, text, players=0)
     assert _value(_settings(event)[0], field) == value
 
@@ -106,8 +106,8 @@ def test_settings_shown_as_text_and_json(cli, tmp_path: Path) -> None:  # type: 
         (["--system", "round-robin", "--acceleration", "baku"], "not a round robin"),
     ],
 )
-def test_bad_values_are_refused_and_the_file_is_unchanged(cli, tmp_path: Path, args: list[str],
-                                                          says: str) -> None:  # type: ignore[no-untyped-def]
+def test_bad_values_are_refused_and_the_file_is_unchanged(cli, tmp_path: Path, args: list[str],  # type: ignore[no-untyped-def]
+                                                          says: str) -> None:
     event = _event(cli, tmp_path)
     before = file_bytes(event)
     ran = cli("settings", event, *args)
@@ -126,8 +126,8 @@ def test_bad_values_are_refused_and_the_file_is_unchanged(cli, tmp_path: Path, a
         (["--rounds", "0"], "from 1 to 1000"),
     ],
 )
-def test_changes_that_would_alter_a_published_round_are_refused(cli, tmp_path: Path, args: list[str],
-                                                                says: str) -> None:  # type: ignore[no-untyped-def]
+def test_changes_that_would_alter_a_published_round_are_refused(cli, tmp_path: Path, args: list[str],  # type: ignore[no-untyped-def]
+                                                                says: str) -> None:
     event = _event(cli, tmp_path)
     _publish_round_one(cli, event)
     before = file_bytes(event)
