@@ -164,6 +164,8 @@ class FormDialog(Dialog[dict[str, str] | None]):
             field.cursor_position = len(f.value)
         self.query_one("#problem", Label).update("")
         self.set_focus(self.query_one("#field-0", Input))
+        box = self.query_one(".dialog")
+        self.call_after_refresh(box.scroll_home, animate=False)  # a tall form opens at its title
 
     def values(self) -> dict[str, str]:
         return {f.key: self.query_one(f"#field-{i}", Input).value for i, f in enumerate(self._c_fields)}

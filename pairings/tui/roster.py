@@ -46,6 +46,11 @@ def status_words(state: EventState, player: Player) -> str:
     return "active"
 
 
+def titled(player: Player) -> str:
+    """The name with the player's title before it, as sheets print it ("FM Ada Quince")."""
+    return f"{player.details.title} {player.name}" if player.details.title else player.name
+
+
 def _rating(text: str) -> int | None:
     text = text.strip()
     if not text:
@@ -81,7 +86,7 @@ class RosterPlace(Place):
 
     def on_mount(self) -> None:
         grid = self.query_one("#players", Grid)
-        grid.set_columns([Column("id", "Id", limit=8), Column("title", "Title", 5), Column("name", "Name", flex=True),
+        grid.set_columns([Column("id", "Id", limit=8), Column("name", "Name", flex=True),
                           Column("fed", "Fed", 3), Column("rating", "Rating", 7), Column("club", "Club", limit=20),
                           Column("score", "Score", 5), Column("status", "Status", limit=24)])
         grid.focus()
@@ -100,12 +105,12 @@ class RosterPlace(Place):
 
         def row(i: int) -> tuple[str, ...]:
             p = shown[i]
-            return (p.id, p.details.title or "", p.name, p.details.federation or "",
+            return (p.id, titled(p), p.details.federation or "",
                     str(p.rating) if p.rating is not None else "unrated", p.club or "",
                     points(state.score(p.id)), status[p.id])
 
         self.query_one("#players", Grid).set_source([p.id for p in shown], row, [
-            widest(p.id for p in shown), 5, widest(p.name for p in shown), 3, 7, widest(p.club or "" for p in shown), 5,
+            widest(p.id for p in shown), widest(titled(p) for p in shown), 3, 7, widest(p.club or "" for p in shown), 5,
             widest(status[p.id] for p in shown),
         ])
 

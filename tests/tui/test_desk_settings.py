@@ -102,6 +102,8 @@ def test_roster_form_takes_player_details(tmp_path: Path) -> None:
         async with app.run_test(size=(80, 24)) as pilot:
             await pilot.press("a")
             assert isinstance(app.screen, FormDialog)
+            await pilot.pause()
+            assert app.screen.query_one("#form-title").region.y >= 0  # the tall form opens at its title (80x24)
             await type_text(pilot, "Orla Penhallow")
             await pilot.press("tab")
             await type_text(pilot, "1600")
@@ -136,7 +138,8 @@ def test_roster_form_takes_player_details(tmp_path: Path) -> None:
             await pilot.press("escape")
             assert app.state.players[player.id].details.federation == "ENG"
             rows = app.screen.query_one("#players")
-            assert "WFM" in str(rows.render_line(1).text) and "ENG" in str(rows.render_line(1).text)
+            line = str(rows.render_line(1).text)
+            assert "WFM Orla Penhallow" in line and "ENG" in line, line
         store.close()
 
     asyncio.run(drive())
