@@ -265,7 +265,7 @@ def _check_more(doc: _Document) -> None:
         for item in p.announced:
             if item.round > doc.event.rounds:
                 raise InputError(f"player {p.id!r}: bye announced for round {item.round} of {doc.event.rounds}")
-        if (p.status == Status.WITHDRAWN.value) != (p.withdrawn_from is not None) and p.withdrawn_from is not None:
+        if p.status != Status.WITHDRAWN.value and p.withdrawn_from is not None:
             raise InputError(f"player {p.id!r}: withdrawn_from is given but the player is active")
 
 
