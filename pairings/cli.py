@@ -277,11 +277,13 @@ def cmd_settings(a: argparse.Namespace) -> None:
     if texts:
         before = _open_state(a.event)
         state = _run(a.event, lambda s: change_settings(s, texts))
+        if a.json:
+            _json(settings_document(state.settings))
+            return
         for line in _changed_lines(before, state):
             _say(line)
-        if state.settings.changed_after != before.settings.changed_after:
-            for note in changed_after_notes(state.settings)[len(before.settings.changed_after):]:
-                _say(note)
+        for note in changed_after_notes(state.settings)[len(before.settings.changed_after):]:
+            _say(note)
         return
     with _open(a.event) as store:
         settings = store.state.settings

@@ -77,7 +77,10 @@ def _sex(text: str) -> str:
     return SEXES[word]
 
 
-def read_ratings(items: list[str] | tuple[str, ...], start: tuple[tuple[str, int], ...] = ()) -> tuple[tuple[str, int], ...]:
+Ratings = tuple[tuple[str, int], ...]
+
+
+def read_ratings(items: list[str] | tuple[str, ...], start: Ratings = ()) -> Ratings:
     """``LIST=N`` items over ``start``; ``LIST=`` removes a list's rating."""
     ratings = dict(start)
     for item in items:

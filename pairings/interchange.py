@@ -323,8 +323,8 @@ def restore(data: object) -> Restored:
                          reason=f[2].reason if len(f) == 3 else "")
         for f in e.forbidden
     ]
-    out += [ev.ByeRequested(player=p.id, round=a.round, kind=ByeKind(a.kind)) for p in doc.players  # type: ignore[arg-type]
-            for a in p.announced]
+    out += [ev.ByeRequested(player=p.id, round=a.round, kind=ByeKind(a.kind))  # type: ignore[arg-type]
+            for p in doc.players for a in p.announced]
     for rnd in doc.rounds:
         out.append(
             ev.RoundDrafted(

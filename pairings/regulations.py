@@ -229,7 +229,9 @@ def _refusal(state: EventState, key: str, value: Any) -> str | None:
     label = BY_KEY[key].label.lower() if key in BY_KEY else key.replace("_", " ")
     if key == "rounds" and state.rounds and value < state.rounds[-1].number:
         return f"round {state.rounds[-1].number} is already paired: the event cannot have fewer rounds"
-    if last is not None and last.state is RoundState.DRAFT and key in ENGINE_READS | {"double_round"}:
+    # The final-round side exception reads which round is the last, so then the rounds count too.
+    read = key in ENGINE_READS | {"double_round"} or (key == "rounds" and state.settings.final_round_side_exception)
+    if last is not None and last.state is RoundState.DRAFT and read:
         return f"the draft of round {last.number} was made on the {label}: discard it first"
     if key == "late_entry_points":
         late = [p for p in state.players.values() if p.first_round > 1]

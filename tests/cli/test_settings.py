@@ -197,3 +197,15 @@ def test_late_entry_points_count_in_scores_and_standings(cli, tmp_path: Path) ->
     before = file_bytes(event)
     ran = cli("settings", event, "--late-entry-points", "0")
     assert ran.code == 2 and file_bytes(event) == before
+
+
+def test_rounds_wait_for_the_draft_when_the_final_round_exception_is_on(cli, tmp_path: Path) -> None:  # type: ignore[no-untyped-def]
+    event = _event(cli, tmp_path, "--final-round-exception", "yes")
+    assert cli("pair", event).code == 0
+    before = file_bytes(event)
+    ran = cli("settings", event, "--rounds", "1")
+    assert ran.code == 2 and "discard it first" in ran.err
+    assert file_bytes(event) == before
+    assert cli("discard", event).code == 0
+    doc = json.loads(cli("settings", event, "--rounds", "1", "--json").out)
+    assert doc["rounds"] == 1 and doc["final_round_side_exception"] is True
