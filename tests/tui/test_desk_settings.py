@@ -143,3 +143,41 @@ def test_roster_form_takes_player_details(tmp_path: Path) -> None:
         store.close()
 
     asyncio.run(drive())
+
+
+# Every setting, the text it is changed to in the desk (each one a change from the default).
+EVERY = [
+    ("name", "Spring Open"), ("rounds", "6"), ("system", "dutch"), ("acceleration", "baku"),
+    ("scoring", "3,1,0"), ("bye_points", "2"), ("requested_bye_points", "0"), ("requested_bye_limit", "1"),
+    ("requested_bye_last_round", "4"), ("late_entry_points", "1"), ("tiebreaks", "wins"),
+    ("unplayed", "as-they-stand"), ("max_meetings", "2"), ("final_round_side_exception", "yes"),
+    ("forfeit_is_meeting", "no"),
+]
+
+
+def test_every_setting_changes_from_the_desk_with_one_logged_event(tmp_path: Path) -> None:
+    from pairings.regulations import SETTINGS, parse_settings
+
+    assert sorted(k for k, _ in EVERY) == sorted(s.key for s in SETTINGS)
+
+    async def drive() -> None:
+        store = new_event(tmp_path / "e.pairings", players=2)
+        app = DeskApp(store, poll_seconds=60)
+        notes = Notes(app)
+        async with app.run_test(size=(80, 24)) as pilot:
+            await pilot.press("f8")
+            await settle(app, pilot)
+            for key, text in EVERY:
+                head = app.state.head
+                widget = app.screen.query_one(f"#setting-{key}")
+                if isinstance(widget, Select):
+                    widget.value = text
+                    await settle(app, pilot)
+                else:
+                    await _set_input(app, pilot, key, text)
+                assert app.state.head == head + 1, (key, notes.messages)
+                for field, value in parse_settings({key: text}).items():
+                    assert getattr(app.state.settings, field) == value, (key, field)
+        store.close()
+
+    asyncio.run(drive())
