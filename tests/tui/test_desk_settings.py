@@ -5,7 +5,7 @@ from __future__ import annotations
 import asyncio
 from pathlib import Path
 
-from textual.widgets import Input, Select
+from textual.widgets import Input, Label, Select
 
 from pairings import actions
 from pairings.state import Acceleration, RoundState, System
@@ -59,7 +59,7 @@ def test_settings_place_changes_each_kind_of_setting(tmp_path: Path) -> None:
             assert app.state.head == head
             assert "draws lie between" in notes.last()
             assert app.screen.query_one("#setting-scoring", Input).value == "1,0.5,0"
-            assert "not changed" in str(app.screen.query_one("#settings-note").content)
+            assert "not changed" in str(app.screen.query_one("#settings-note", Label).content)
         store.close()
 
     asyncio.run(drive())
@@ -134,7 +134,7 @@ def test_roster_form_takes_player_details(tmp_path: Path) -> None:
             dialog.query_one("#field-4", Input).value = "ENGLAND"
             dialog.query_one("#field-2", Input).focus()
             await pilot.press("enter")
-            assert "three-letter code" in str(dialog.query_one("#problem").content)
+            assert "three-letter code" in str(dialog.query_one("#problem", Label).content)
             await pilot.press("escape")
             assert app.state.players[player.id].details.federation == "ENG"
             rows = app.screen.query_one("#players")
