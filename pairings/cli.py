@@ -502,8 +502,7 @@ def _setting_options(sp: argparse.ArgumentParser, skip: tuple[str, ...] = ()) ->
 
     for s in SETTINGS:
         if s.key not in skip:
-            words = f" ({'|'.join(s.choices)})" if s.choices else ""
-            sp.add_argument(s.option, dest=s.key, metavar=s.key.split("_")[-1].upper(), help=s.help + words)
+            sp.add_argument(s.option, dest=s.key, metavar="|".join(s.choices) or s.metavar, help=s.help)
 
 
 def _detail_options(sp: argparse.ArgumentParser) -> None:

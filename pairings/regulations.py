@@ -45,6 +45,8 @@ class Setting:
     """The allowed words, when the value is one of a few."""
     flag: str = ""
     """The command-line option when it is not ``--key`` with dashes."""
+    metavar: str = "X"
+    """What the option's value looks like (choices show themselves)."""
 
     @property
     def option(self) -> str:
@@ -56,26 +58,28 @@ UNPLAYED_NAMES = {u.value.replace("_", "-"): u for u in Unplayed}
 ACCELERATION_NAMES = {a.value: a for a in Acceleration}
 
 SETTINGS: tuple[Setting, ...] = (
-    Setting("name", "Name", "the event's name"),
-    Setting("rounds", "Rounds", "the number of rounds"),
+    Setting("name", "Name", "the event's name", metavar="TEXT"),
+    Setting("rounds", "Rounds", "the number of rounds", metavar="N"),
     Setting("system", "System", "the pairing system", tuple(SYSTEM_NAMES)),
     Setting("acceleration", "Acceleration", "accelerated pairings for a Swiss system (C.04.5)",
             tuple(ACCELERATION_NAMES)),
-    Setting("scoring", "Scoring", "points for a win, a draw and a loss: W,D,L"),
+    Setting("scoring", "Scoring", "points for a win, a draw and a loss", metavar="W,D,L"),
     Setting("bye_points", "Bye points", "points for a pairing bye"),
     Setting("requested_bye_points", "Requested-bye points", "points for a requested bye"),
-    Setting("requested_bye_limit", "Requested byes per player", "most requested byes a player may have, or none"),
+    Setting("requested_bye_limit", "Requested byes per player", "most requested byes a player may have",
+            metavar="N|none"),
     Setting("requested_bye_last_round", "Last round for a requested bye",
-            "the last round a bye may be requested for, or none"),
+            "the last round a bye may be requested for", metavar="N|none"),
     Setting("late_entry_points", "Late-entry points", "points for each round missed before a late entry"),
-    Setting("tiebreaks", "Tiebreaks", "the tiebreaks in order, comma-separated"),
+    Setting("tiebreaks", "Tiebreaks", "the tiebreaks in order, comma-separated", metavar="LIST"),
     Setting("unplayed", "Unplayed games in tiebreaks", "how tiebreaks count unplayed games",
             tuple(UNPLAYED_NAMES)),
-    Setting("max_meetings", "Meetings allowed", "how often two players may meet (2 for a double round robin)"),
+    Setting("max_meetings", "Meetings allowed", "how often two players may meet (2 for a double round robin)",
+            metavar="N"),
     Setting("final_round_side_exception", "Final-round side exception",
-            "in the last round a side rule may give way to the score (yes or no)", YES_NO,
-            "--final-round-exception"),
-    Setting("forfeit_is_meeting", "A forfeit counts as a meeting", "yes or no", YES_NO, "--forfeit-meets"),
+            "in the last round a side rule may give way to the score", YES_NO, "--final-round-exception"),
+    Setting("forfeit_is_meeting", "A forfeit counts as a meeting",
+            "a forfeited pairing counts as a meeting of the two", YES_NO, "--forfeit-meets"),
 )
 BY_KEY = {s.key: s for s in SETTINGS}
 
