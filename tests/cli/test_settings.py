@@ -162,6 +162,7 @@ def test_allowed_after_publication_and_the_standings_say_so(cli, tmp_path: Path)
     assert settings.tiebreaks == ("wins",) and settings.rounds == 6
     standings = cli("standings", event).out
     assert "Tiebreaks changed after round 1; standings recomputed." in standings
+    assert "Tiebreaks changed after round 1" in cli("standings", event, "--format", "html").out
     assert "settings changed after round 1" in cli("log", event).out
 
 
