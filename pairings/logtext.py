@@ -38,15 +38,23 @@ def _(e: ev.PlayerRegistered) -> str:
     extra = [f"rating {e.rating}" if e.rating is not None else "unrated"]
     if e.club:
         extra.append(e.club)
-    if e.details is not None:
-        extra += [x for x in (e.details.title, e.details.federation) if x]
+    extra += _detail_words(e.details)
     late = f", from round {e.entry_round}" if e.entry_round > 1 else ""
     return f"player {e.id} registered: {e.name} ({', '.join(extra)}){late}"
 
 
+def _detail_words(d: ev.PlayerDetailsModel | None) -> list[str]:
+    """The details a reader looks for first: title, federation, ratings by list."""
+    if d is None:
+        return []
+    return [x for x in (d.title, d.federation) if x] + [f"{k} {v}" for k, v in sorted(d.ratings.items())]
+
+
 @_line.register
 def _(e: ev.PlayerEdited) -> str:
-    return f"player {e.id} edited: {e.name}, rating {e.rating if e.rating is not None else '-'}, club {e.club or '-'}"
+    details = "".join(f", {w}" for w in _detail_words(e.details))
+    return (f"player {e.id} edited: {e.name}, rating {e.rating if e.rating is not None else '-'}, "
+            f"club {e.club or '-'}{details}")
 
 
 @_line.register
