@@ -10,12 +10,15 @@ What may change once a round is published (our decision; the event's
 regulations and the chief arbiter prevail): the name, the tiebreaks and their
 treatment of unplayed games (standings are recomputed and the standings sheet
 names the change), the number of rounds upward (never below the rounds already
-paired), the meeting rules and the requested-bye limits (they govern pairings
-and requests to come). The scoring, the bye points, the system and the
-acceleration are fixed once round 1 is published: they would change published
-scores or the basis the published rounds were paired on. The late-entry points
-are fixed once a late entrant's missed rounds are published. No setting the
-engine reads may change while a draft is open (discard it first).
+paired, nor once the last round was paired with the final-round side
+exception), and the requested-bye limits (they govern requests to come). The
+scoring, the bye points, the system, the acceleration and the meeting rules
+(meetings allowed, the final-round side exception, whether a forfeit is a
+meeting) are fixed once round 1 is published: they would change published
+scores or the rules the published rounds were paired and are checked by
+(``verify`` checks every round under the event's settings). The late-entry
+points are fixed once a late entrant's missed rounds are published. No setting
+the engine reads may change while a draft is open (discard it first).
 """
 
 from __future__ import annotations
@@ -83,10 +86,8 @@ SETTINGS: tuple[Setting, ...] = (
 )
 BY_KEY = {s.key: s for s in SETTINGS}
 
-AFTER_PUBLICATION = frozenset({
-    "name", "tiebreaks", "unplayed", "rounds", "max_meetings", "final_round_side_exception",
-    "forfeit_is_meeting", "requested_bye_limit", "requested_bye_last_round",
-})
+AFTER_PUBLICATION = frozenset({"name", "tiebreaks", "unplayed", "rounds", "requested_bye_limit",
+                               "requested_bye_last_round"})
 """Settings that may change once a round is published (see the module notes)."""
 ENGINE_READS = frozenset({
     "system", "acceleration", "scoring", "bye_points", "requested_bye_points", "late_entry_points",
@@ -233,6 +234,9 @@ def _refusal(state: EventState, key: str, value: Any) -> str | None:
     label = BY_KEY[key].label.lower() if key in BY_KEY else key.replace("_", " ")
     if key == "rounds" and state.rounds and value < state.rounds[-1].number:
         return f"round {state.rounds[-1].number} is already paired: the event cannot have fewer rounds"
+    if key == "rounds" and state.settings.final_round_side_exception and state.rounds \
+            and state.rounds[-1].number == state.settings.rounds:
+        return f"round {state.rounds[-1].number} was paired as the last round, with the final-round side exception"
     # The final-round side exception reads which round is the last, so then the rounds count too.
     read = key in ENGINE_READS | {"double_round"} or (key == "rounds" and state.settings.final_round_side_exception)
     if last is not None and last.state is RoundState.DRAFT and read:

@@ -123,6 +123,9 @@ def test_bad_values_are_refused_and_the_file_is_unchanged(cli, tmp_path: Path, a
         (["--requested-bye-points", "1"], "round 1 is published"),
         (["--system", "round-robin"], "round 1 is published"),
         (["--acceleration", "baku"], "round 1 is published"),
+        (["--max-meetings", "2"], "round 1 is published"),
+        (["--final-round-exception", "yes"], "round 1 is published"),
+        (["--forfeit-meets", "no"], "round 1 is published"),
         (["--rounds", "0"], "from 1 to 1000"),
     ],
 )
@@ -210,3 +213,32 @@ def test_rounds_wait_for_the_draft_when_the_final_round_exception_is_on(cli, tmp
     assert cli("discard", event).code == 0
     doc = json.loads(cli("settings", event, "--rounds", "1", "--json").out)
     assert doc["rounds"] == 1 and doc["final_round_side_exception"] is True
+
+
+def test_the_last_round_paired_with_the_final_round_exception_keeps_the_rounds(cli, tmp_path: Path) -> None:  # type: ignore[no-untyped-def]
+    event = tmp_path / "e.pairings"
+    assert cli("new", event, "--name", "Short", "--rounds", "1", "--final-round-exception", "yes").code == 0
+    for name in ("Ada Quince", "Bo Rill"):
+        assert cli("player", "add", event, "--name", name).code == 0
+    _publish_round_one(cli, event)
+    before = file_bytes(event)
+    ran = cli("settings", event, "--rounds", "2")
+    assert ran.code == 2 and "paired as the last round" in ran.err
+    assert file_bytes(event) == before
+
+
+def test_verify_checks_late_entrants_on_their_late_entry_points(cli, tmp_path: Path) -> None:  # type: ignore[no-untyped-def]
+    event = _event(cli, tmp_path, "--late-entry-points", "1", players=5)
+    for number in (1, 2, 3):
+        if number == 2:
+            for name in ("Late One", "Late Two", "Late Three"):
+                assert cli("player", "add", event, "--name", name, "--rating", "1400").code == 0
+        assert cli("pair", event).code == 0, number
+        assert cli("publish", event).code == 0
+        with EventStore.open(event) as store:
+            boards = len(store.state.rounds[-1].games)
+        for board in range(1, boards + 1):
+            assert cli("result", event, board, "0-1" if board % 2 else "1-0").code == 0
+    ran = cli("verify", event)
+    assert ran.code == 0, ran.out
+    assert "breach" not in ran.out and "cheaper pairing" not in ran.out, ran.out
