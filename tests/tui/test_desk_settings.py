@@ -181,3 +181,24 @@ def test_every_setting_changes_from_the_desk_with_one_logged_event(tmp_path: Pat
         store.close()
 
     asyncio.run(drive())
+
+
+def test_roster_import_in_the_desk_names_the_columns_it_does_not_read(tmp_path: Path) -> None:
+    roster = tmp_path / "roster.tsv"
+    roster.write_text("Name\tElo\tFed\tShirt size\nAda Quince\t1500.0\tWLS\tM\n", encoding="utf-8")
+
+    async def drive() -> None:
+        store = new_event(tmp_path / "e.pairings")
+        app = DeskApp(store, poll_seconds=60, start="roster")
+        notes = Notes(app)
+        async with app.run_test(size=(80, 24)) as pilot:
+            await pilot.press("i")
+            await type_text(pilot, str(roster))
+            await pilot.press("enter")
+            await settle(app, pilot)
+            (player,) = app.state.players.values()
+            assert (player.rating, player.details.federation) == (1500, "WLS")
+            assert any("column 4 ('Shirt size') is not read" in m for m in notes.messages), notes.messages
+        store.close()
+
+    asyncio.run(drive())
