@@ -44,10 +44,16 @@ class EventCreated(_Event):
     seed: int = 0
     acceleration: Acceleration = Acceleration.NONE
     forfeit_is_meeting: bool = True
+    late_entry_points: float = 0.0
+    requested_bye_limit: int | None = Field(default=None, ge=0)
+    requested_bye_last_round: int | None = Field(default=None, ge=1)
+
+
+ClearableSetting = Literal["requested_bye_limit", "requested_bye_last_round"]
 
 
 class SettingsChanged(_Event):
-    """Changes some settings; only the fields given (not None) change."""
+    """Changes some settings; only the fields given (not None) change, and those in ``cleared`` become None."""
 
     type: Literal["settings-changed"] = "settings-changed"
     name: str | None = None
@@ -62,6 +68,13 @@ class SettingsChanged(_Event):
     forfeit_is_meeting: bool | None = None
     max_meetings: int | None = Field(default=None, ge=1)
     final_round_side_exception: bool | None = None
+    double_round: bool | None = None
+    late_entry_points: float | None = None
+    requested_bye_limit: int | None = Field(default=None, ge=0)
+    requested_bye_last_round: int | None = Field(default=None, ge=1)
+    cleared: tuple[ClearableSetting, ...] = ()
+    after_round: int = 0
+    """The last round published when the change was made (0: before round 1); the sheets name it."""
 
 
 class PlayerDetailsModel(_Event):
