@@ -16,6 +16,7 @@ from pairings import events as ev
 from pairings.errors import AmbiguousPlayerError, InputError, RoundStateError, UnknownPlayerError
 from pairings.state import ByeKind, EventState, PlayerId, Result, Round, RoundState, Status, System
 from pairings.store import StoredEvent, undo_target
+from pairings.text import fold
 
 if TYPE_CHECKING:  # the engine (and networkx) load only for the commands that pair
     from pairings.engine import Draft, Overrides
@@ -64,17 +65,21 @@ def clean_text(value: str, what: str, *, required: bool = True, limit: int = MAX
 
 
 def find_player(state: EventState, text: str) -> PlayerId:
-    """A player by id, by exact name (any case), or by a part of the name that only one has."""
+    """A player by id, by exact name, or by a part of the name that only one has (case and accents ignored)."""
     key = text.strip()
     if key in state.players:
         return PlayerId(key)
-    folded = key.casefold()
+    folded = fold(key)
     if not folded:
         raise UnknownPlayerError("no player given")
-    exact = [p.id for p in state.players.values() if p.name.casefold() == folded]
+    same = [p.id for p in state.players.values() if p.name.casefold() == key.casefold()]
+    if len(same) == 1:  # "Zoe" is Zoe even when a Zoë plays too
+        return same[0]
+    by_id = {p.id: fold(p.name) for p in state.players.values()}
+    exact = [pid for pid, n in by_id.items() if n == folded]
     if len(exact) == 1:
         return exact[0]
-    matches = exact or [p.id for p in state.players.values() if folded in p.name.casefold()]
+    matches = exact or [pid for pid, n in by_id.items() if folded in n]
     if not matches:
         raise UnknownPlayerError(f"no player {text!r} (give an id or a name)")
     if len(matches) > 1:

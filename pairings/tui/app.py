@@ -11,6 +11,7 @@ processes and reloads.
 from __future__ import annotations
 
 import gc
+from collections import deque
 from dataclasses import dataclass
 from pathlib import Path
 from time import monotonic
@@ -20,13 +21,14 @@ from textual import events, on, work
 from textual.app import App, SystemCommand
 from textual.binding import Binding
 from textual.message import Message
+from textual.dom import DOMNode
 from textual.screen import Screen
 
 from pairings.errors import ConflictError, InputError, RosterError
 from pairings.state import EventState
 from pairings.store import EventStore
 from pairings.tui.base import Action, Place
-from pairings.tui.dialogs import Field, FormDialog, HelpDialog, open_dialog
+from pairings.tui.dialogs import Dialog, Field, FormDialog, HelpDialog, open_dialog
 from pairings.tui.log import LogPlace
 from pairings.tui.offload import Job, Offload
 from pairings.tui.results import ResultsPlace
@@ -113,6 +115,9 @@ class DeskApp(App[None]):
         self.last_output: Path | None = None
         """Where the latest printout went."""
         self._last_key = monotonic()
+        self._keys: deque[events.Key] = deque()
+        """Keys read and not handled yet (see :meth:`_hand_on_keys`)."""
+        self._key_in_hand = False
         self.offload = Offload(store.path)
         """Where the engine works for the desk (a child process for big fields)."""
         for name, place in PLACES.items():
@@ -131,9 +136,48 @@ class DeskApp(App[None]):
         self.set_interval(QUIET_SECONDS / 2, self.tidy)
 
     async def on_event(self, event: events.Event) -> None:
-        if isinstance(event, events.Key):
+        if isinstance(event, events.Key) and not event.is_forwarded:
             self._last_key = monotonic()
+            self._keys.append(event)
+            await self._hand_on_keys()
+            return
         await super().on_event(event)
+
+    async def _hand_on_keys(self) -> None:
+        """Handle the next key typed once the one before it has been handled all the way.
+
+        textual hands a key to the focused widget's queue and runs a place's
+        binding only when the key has bubbled back up, so a fast typist's next
+        keys went out to the old focus before the previous key had opened a
+        dialog or moved to the next field. Keys wait here, in order, while one
+        is on its way (see :meth:`_after`) or while a dialog just opened has no
+        field to type into yet (``Dialog.ready``).
+        """
+        while self._keys and not self._key_in_hand and getattr(self.screen, "ready", True):
+            key = self._keys.popleft()
+            target = self.focused or self.screen
+            self._key_in_hand = True
+            await super().on_event(key)
+            self._after(target)
+
+    def _after(self, node: DOMNode | None) -> None:
+        """Go on with the keys once ``node`` and every node above it have handled what they hold.
+
+        A key not used up by a widget bubbles up through each parent's queue;
+        a call queued behind it at each step runs once it has moved on.
+        """
+        if node is None or node is self:
+            self.call_later(self._key_handled)
+        elif not node.call_later(self._after, node.parent):
+            self._after(node.parent)
+
+    async def _key_handled(self) -> None:
+        self._key_in_hand = False
+        await self._hand_on_keys()
+
+    @on(Dialog.Ready)
+    async def dialog_ready(self) -> None:
+        await self._hand_on_keys()
 
     def tidy(self) -> None:
         """A full collection once the keys have been quiet for a while and something new was kept."""

@@ -20,6 +20,7 @@ from textual.app import App, ComposeResult
 from textual.binding import Binding
 from textual.containers import Vertical, VerticalScroll
 from textual.content import Content
+from textual.message import Message
 from textual.screen import ModalScreen
 from textual.widgets import Input, Label
 
@@ -45,9 +46,14 @@ Check = Callable[[dict[str, str]], str | None]
 class Dialog(ModalScreen[T], Generic[T]):
     """A dialog that can be shown again with new contents (see :func:`open_dialog`)."""
 
+    class Ready(Message):
+        """Posted to the app once a new dialog has its widgets and its focus (see ``DeskApp.on_event``)."""
+
     def __init__(self) -> None:
         super().__init__()
         self.in_use = False
+        self.ready = False
+        """False until the widgets exist: keys typed before that wait in the app (``DeskApp._hand_on_keys``)."""
 
     @property
     def shape(self) -> str:
@@ -61,11 +67,16 @@ class Dialog(ModalScreen[T], Generic[T]):
 
     def on_mount(self) -> None:
         self.fill()
+        self.ready = True
+        self.app.post_message(self.Ready())
 
     def fill(self) -> None:
         """Bring the widgets up to the contents."""
 
     def close(self, value: T) -> None:
+        """Dismiss with ``value``; a second close before the screen is gone (Enter twice) does nothing."""
+        if not self.in_use:
+            return
         self.in_use = False
         self.dismiss(value)
 
@@ -118,9 +129,19 @@ class ConfirmDialog(Dialog[bool]):
 
 
 class FormDialog(Dialog[dict[str, str] | None]):
-    """A few text fields; Enter moves on and, in the last field, saves (after ``check``); Esc cancels."""
+    """A few text fields; Enter moves on and, in the last field, saves (after ``check``); Esc cancels.
 
-    BINDINGS = [Binding("escape", "cancel", "Cancel")]
+    Enter in a field before the last is a priority binding: it runs when the
+    app reads the key, so the focus is on the next field before the keys typed
+    after it are handed out (as an ``Input.Submitted`` message it ran only after
+    them, and fast typing landed in the first field). Enter in the last field
+    stays the field's own, so it submits after every key typed before it.
+    """
+
+    BINDINGS = [
+        Binding("escape", "cancel", "Cancel"),
+        Binding("enter", "next_field", "Next field", show=False, priority=True),
+    ]
 
     def __init__(
         self, title: str, fields: Sequence[Field], check: Check | None = None, intro: Sequence[str] = ()
@@ -161,11 +182,23 @@ class FormDialog(Dialog[dict[str, str] | None]):
     def values(self) -> dict[str, str]:
         return {f.key: self.query_one(f"#field-{i}", Input).value for i, f in enumerate(self._c_fields)}
 
+    def _last_field(self) -> str:
+        return f"field-{len(self._c_fields) - 1}"
+
+    def check_action(self, action: str, parameters: tuple[object, ...]) -> bool | None:
+        if action == "next_field":
+            focused = self.focused
+            return isinstance(focused, Input) and focused.id != self._last_field()
+        return True
+
+    def action_next_field(self) -> None:
+        self.focus_next(Input)
+
     @on(Input.Submitted)
     def submit(self, event: Input.Submitted) -> None:
         event.stop()
-        if event.input.id != f"field-{len(self._c_fields) - 1}":
-            self.focus_next()
+        if event.input.id != self._last_field():
+            self.focus_next(Input)
             return
         values = self.values()
         problem = self._c_check(values) if self._c_check is not None else None
