@@ -211,6 +211,31 @@ class FormDialog(Dialog[dict[str, str] | None]):
         self.close(None)
 
 
+class ReadDialog(Dialog[None]):
+    """A text to read whole (wrapped, scrolled), for a line a table had to cut."""
+
+    BINDINGS = [Binding("escape,enter,q", "close_text", "Close")]
+
+    def __init__(self, title: str, lines: Sequence[str]) -> None:
+        super().__init__()
+        self._c_title = title
+        self._c_lines = list(lines)
+
+    def compose(self) -> ComposeResult:
+        with Vertical(classes="dialog"):
+            yield Label("", id="read-title", classes="dialog-title")
+            with VerticalScroll(classes="dialog-lines"):
+                yield Label("", id="read-text", classes="read-text")
+            yield Label("Esc / Enter: close", classes="dialog-keys")
+
+    def fill(self) -> None:
+        self.query_one("#read-title", Label).update(cell(self._c_title))
+        self.query_one("#read-text", Label).update(Content("\n".join(safe(line) for line in self._c_lines)))
+
+    def action_close_text(self) -> None:
+        self.close(None)
+
+
 class HelpDialog(Dialog[None]):
     """Every action of every place with its key (the same list feeds the command palette)."""
 

@@ -79,7 +79,7 @@ class Grid(ScrollView, can_focus=True):
     ]
     COMPONENT_CLASSES: ClassVar[set[str]] = {"grid--header", "grid--cursor", "grid--odd"}
     DEFAULT_CSS = """
-    Grid { height: 1fr; }
+    Grid { height: 1fr; overflow-x: hidden; }
     Grid > .grid--header { text-style: bold; background: $panel; }
     Grid > .grid--cursor { background: $accent 40%; text-style: bold; }
     Grid:focus > .grid--cursor { background: $accent; color: $text; }
@@ -192,6 +192,7 @@ class Grid(ScrollView, can_focus=True):
 
     def on_resize(self, event: events.Resize) -> None:
         self._layout()
+        self._show_cursor()
 
     def _line(self, cells: Sequence[str]) -> str:
         return " " + " ".join(fit(text, w) for text, w in zip(cells, self._widths))
@@ -214,13 +215,18 @@ class Grid(ScrollView, can_focus=True):
 
     # -- cursor ----------------------------------------------------------------------------
 
-    def watch_cursor(self, old: int, new: int) -> None:
+    def _show_cursor(self) -> None:
+        """Scroll so that the cursor row is on screen (again after a resize: rows set before the
+        grid had a size were scrolled against a height of nothing)."""
         body = max(1, self.size.height - 1)
-        top = int(self.scroll_offset.y)
+        top, new = int(self.scroll_offset.y), self.cursor
         if new < top:
             self.scroll_to(y=new, animate=False, immediate=True)
         elif new >= top + body:
             self.scroll_to(y=new - body + 1, animate=False, immediate=True)
+
+    def watch_cursor(self, old: int, new: int) -> None:
+        self._show_cursor()
         self.refresh()
         if self._keys:
             self.post_message(self.Highlighted(self, new, self._keys[new]))

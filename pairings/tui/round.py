@@ -42,6 +42,15 @@ WIDE = 96
 
 
 
+def prefill(state: EventState, pid: PlayerId) -> str:
+    """What a player field starts with: the name, or the id when the name alone would not find them."""
+    player = state.players[pid]
+    try:
+        return player.name if actions.find_player(state, player.name) == pid else pid
+    except InputError:
+        return pid
+
+
 class RoundPlace(Place):
     TITLE = "Round"
     BINDINGS = [
@@ -351,7 +360,7 @@ class RoundPlace(Place):
             if values is not None:
                 self.start_preview((kind, tuple(found)), base)
 
-        first = game.first if game is not None else ""
+        first = prefill(self.state, game.first) if game is not None else ""
         fields = [Field(f"p{i}", label, first if i == 0 else "", "id or name") for i, label in enumerate(labels)]
         open_dialog(self.app, FormDialog(title, fields, check), done)
 

@@ -5,9 +5,13 @@ from __future__ import annotations
 import asyncio
 from pathlib import Path
 
+from textual.widgets import Label
+
 from pairings import actions
+from pairings.state import ByeKind, PlayerId
 from pairings.store import EventStore
 from pairings.tui.app import DeskApp
+from pairings.tui.dialogs import FormDialog, ReadDialog
 from pairings.tui.grid import Grid
 from tests.tui.desk_support import settle, type_text
 
@@ -42,5 +46,55 @@ def test_roster_filter_ignores_accents_and_matches_ids_and_clubs(tmp_path: Path)
             assert await shown("tarnside") == ["Zoë Quillfeather", "Corvin Cole"]
             assert await shown("p3") == ["Brisa Bray"]
             assert await shown("OLD MILL") == ["Brisa Bray"]
+
+    asyncio.run(run())
+
+
+def test_log_opens_at_the_newest_entry_in_names_and_reads_whole(tmp_path: Path) -> None:
+    store = roster_event(tmp_path / "e.pairings")
+    for i in range(40):
+        store.append(actions.add_player(store.state, f"Filler Player {i}", None, None))
+    zoe = PlayerId("p1")
+    store.append(actions.announce_bye(store.state, zoe, ByeKind.REQUESTED))
+    reason = "travelling to the regional youth final with the whole junior squad, back on Sunday"
+    store.append(actions.withdraw(store.state, PlayerId("p2"), None, reason))
+
+    async def run() -> None:
+        app = DeskApp(store, poll_seconds=3600, start="round")
+        async with app.run_test(size=(80, 24)) as pilot:
+            await pilot.press("f6")
+            await settle(app, pilot)
+            grid = app.screen.query_one("#events", Grid)
+            count = len(store.log)
+            assert grid.cursor_key == str(count)
+            # The newest row is on screen: nothing hides it (a horizontal scrollbar did), it is not scrolled off.
+            assert grid.scrollbar_size_horizontal == 0
+            top = int(grid.scroll_offset.y)
+            assert top <= count - 1 < top + grid.size.height - 1
+            assert grid.cell(str(count - 1), "what") == "Zoë Quillfeather (p1) asked for a bye in round 1"
+            assert grid.render_line(count - top).text.rstrip().endswith("…")  # cut at 80 columns ...
+            await pilot.press("enter")  # ... and read whole
+            assert isinstance(app.screen, ReadDialog)
+            text = str(app.screen.query_one("#read-text", Label).content)
+            assert text == f"Anders Ångström (p2) withdrawn from round 1 on ({reason})"
+            await pilot.press("escape")
+            assert not isinstance(app.screen, ReadDialog)
+
+    asyncio.run(run())
+
+
+def test_swap_dialog_starts_with_the_players_name(tmp_path: Path) -> None:
+    store = roster_event(tmp_path / "e.pairings")
+
+    async def run() -> None:
+        app = DeskApp(store, poll_seconds=3600, start="round")
+        async with app.run_test(size=(80, 24)) as pilot:
+            await pilot.press("n")
+            await settle(app, pilot)
+            rnd = app.state.last_round
+            assert rnd is not None
+            await pilot.press("s")
+            assert isinstance(app.screen, FormDialog)
+            assert app.screen.values()["p0"] == app.state.players[rnd.games[0].first].name
 
     asyncio.run(run())
