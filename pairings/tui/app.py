@@ -278,10 +278,6 @@ class DeskApp(App[None]):
 
     def action_output(self) -> None:
         def check(values: dict[str, str]) -> str | None:
-            if values["kind"] not in KINDS:
-                return f"kind must be one of {', '.join(KINDS)}"
-            if values["format"] not in FORMATS:
-                return f"format must be one of {', '.join(FORMATS)}"
             if values["round"] and not values["round"].isdigit():
                 return "round must be a number (or empty for the latest)"
             if not Path(values["file"] or ".").expanduser().parent.is_dir():
@@ -297,13 +293,17 @@ class DeskApp(App[None]):
             self.notify(f"writing {values['kind']} ({values['format']}) …")
             self.write_report(self.state, values["kind"], values["format"], number, path)
 
+        def follow(values: dict[str, str]) -> dict[str, str]:
+            return {"file": str(self.default_output(values["kind"], values["format"]))}
+
         fields = [
-            Field("kind", f"What ({', '.join(KINDS)})", "pairings"),
-            Field("format", f"Format ({', '.join(FORMATS)})", "text"),
+            Field("kind", "What (← →, or type the first letters)", "pairings", choices=KINDS),
+            Field("format", "Format", "text", choices=tuple(FORMATS)),
             Field("round", "Round (empty: the latest)", ""),
-            Field("file", "File (empty: beside the event file)", "", str(self.default_output("pairings", "text"))),
+            Field("file", "File (empty: the name shown, beside the event file)", "",
+                  str(self.default_output("pairings", "text"))),
         ]
-        open_dialog(self, FormDialog("Print / export", fields, check), chosen)
+        open_dialog(self, FormDialog("Print / export", fields, check, follow=follow), chosen)
 
     @work(thread=True, exclusive=True, group="output", description="write a printout")
     def write_report(self, state: EventState, kind: str, fmt: str, number: int | None, path: Path) -> None:

@@ -15,13 +15,14 @@ from __future__ import annotations
 from dataclasses import dataclass
 from typing import Any, Callable, Generic, Sequence, TypeVar
 
-from textual import on
+from textual import events, on
 from textual.app import App, ComposeResult
 from textual.binding import Binding
 from textual.containers import Vertical, VerticalScroll
 from textual.content import Content
 from textual.message import Message
 from textual.screen import ModalScreen
+from textual.widget import Widget
 from textual.widgets import Input, Label
 
 from pairings.tui.text import cell, safe
@@ -31,16 +32,90 @@ T = TypeVar("T")
 
 @dataclass(frozen=True)
 class Field:
-    """One line of a form: its key in the result, its label, a starting value."""
+    """One line of a form: its key in the result, its label, a starting value; ``choices`` makes it a choice."""
 
     key: str
     label: str
     value: str = ""
     placeholder: str = ""
+    choices: tuple[str, ...] = ()
+
+
+class Choice(Widget, can_focus=True):
+    """One of a few words, all shown on one line: ← / → or the first letters of a word choose it.
+
+    The choice changes at once with the key (a ``RadioSet`` takes its new value
+    only when a message comes back, so an Enter typed right after could save
+    the old one). The chosen word is bracketed, so it reads in any colours.
+    """
+
+    DEFAULT_CSS = """
+    Choice { height: 1; width: 100%; }
+    Choice:focus { background: $accent 25%; }
+    """
+    BINDINGS = [Binding("left", "step(-1)", "Previous", show=False), Binding("right", "step(1)", "Next", show=False)]
+
+    @dataclass
+    class Changed(Message):
+        choice: "Choice"
+
+        @property
+        def control(self) -> "Choice":
+            return self.choice
+
+    def __init__(self, *, id: str | None = None) -> None:
+        super().__init__(id=id)
+        self.choices: tuple[str, ...] = ()
+        self.index = 0
+        self._typed = ""
+
+    def set_choices(self, choices: Sequence[str], value: str) -> None:
+        self.choices = tuple(choices)
+        self.index = self.choices.index(value) if value in self.choices else 0
+        self._typed = ""
+        self.refresh()
+
+    @property
+    def value(self) -> str:
+        return self.choices[self.index] if self.choices else ""
+
+    def _choose(self, index: int) -> None:
+        if index != self.index:
+            self.index = index
+            self.refresh()
+            self.post_message(self.Changed(self))
+
+    def action_step(self, step: int) -> None:
+        self._typed = ""
+        if self.choices:
+            self._choose((self.index + step) % len(self.choices))
+
+    def on_key(self, event: events.Key) -> None:
+        char = event.character
+        if char is None or len(char) != 1 or not char.isalnum():
+            return
+        event.stop()
+        for typed in (self._typed + char.casefold(), char.casefold()):
+            found = next((i for i, c in enumerate(self.choices) if c.casefold().startswith(typed)), None)
+            if found is not None:
+                self._typed = typed
+                self._choose(found)
+                return
+
+    def on_blur(self) -> None:
+        self._typed = ""
+
+    def render(self) -> Content:
+        parts: list[str | tuple[str, str]] = []
+        for i, word in enumerate(self.choices):
+            parts += [(f"[{word}]", "bold reverse") if i == self.index else f" {word} ", " "]
+        return Content.assemble(*parts)
 
 
 Check = Callable[[dict[str, str]], str | None]
 """Returns the problem with the values (one line), or None when they can be used."""
+Follow = Callable[[dict[str, str]], dict[str, str]]
+"""Placeholders by field key, worked out from the values (called when a choice changes)."""
 
 
 class Dialog(ModalScreen[T], Generic[T]):
@@ -144,26 +219,29 @@ class FormDialog(Dialog[dict[str, str] | None]):
     ]
 
     def __init__(
-        self, title: str, fields: Sequence[Field], check: Check | None = None, intro: Sequence[str] = ()
+        self, title: str, fields: Sequence[Field], check: Check | None = None, intro: Sequence[str] = (),
+        follow: Follow | None = None,
     ) -> None:
         super().__init__()
         self._c_title = title
         self._c_fields = list(fields)
         self._c_check = check
         self._c_intro = list(intro)
+        self._c_follow = follow
 
     @property
     def shape(self) -> str:
-        return f"{len(self._c_fields)} {len(self._c_intro)}"
+        kinds = ",".join("|".join(f.choices) for f in self._c_fields)
+        return f"{len(self._c_fields)} {len(self._c_intro)} {kinds}"
 
     def compose(self) -> ComposeResult:
         with Vertical(classes="dialog"):
             yield Label("", id="form-title", classes="dialog-title")
             for i in range(len(self._c_intro)):
                 yield Label("", id=f"intro-{i}", classes="dialog-intro")
-            for i in range(len(self._c_fields)):
+            for i, f in enumerate(self._c_fields):
                 yield Label("", id=f"label-{i}", classes="field-label")
-                yield Input(id=f"field-{i}", compact=True)
+                yield Choice(id=f"field-{i}") if f.choices else Input(id=f"field-{i}", compact=True)
             yield Label("", id="problem", classes="problem")
             yield Label("Enter: next field, save after the last    Esc: cancel", classes="dialog-keys")
 
@@ -173,14 +251,32 @@ class FormDialog(Dialog[dict[str, str] | None]):
             self.query_one(f"#intro-{i}", Label).update(cell(line))
         for i, f in enumerate(self._c_fields):
             self.query_one(f"#label-{i}", Label).update(cell(f.label))
+            if f.choices:
+                self.query_one(f"#field-{i}", Choice).set_choices(f.choices, f.value)
+                continue
             field = self.query_one(f"#field-{i}", Input)
             field.value, field.placeholder = f.value, f.placeholder
             field.cursor_position = len(f.value)
         self.query_one("#problem", Label).update("")
-        self.set_focus(self.query_one("#field-0", Input))
+        self.set_focus(self.query_one("#field-0"))
 
     def values(self) -> dict[str, str]:
-        return {f.key: self.query_one(f"#field-{i}", Input).value for i, f in enumerate(self._c_fields)}
+        return {f.key: self._value(i) for i, f in enumerate(self._c_fields)}
+
+    def _value(self, i: int) -> str:
+        if self._c_fields[i].choices:
+            return self.query_one(f"#field-{i}", Choice).value
+        return self.query_one(f"#field-{i}", Input).value
+
+    @on(Choice.Changed)
+    def choice_changed(self) -> None:
+        """Placeholders that depend on a choice (the printout's file name on its format) follow it."""
+        if self._c_follow is None:
+            return
+        shown = self._c_follow(self.values())
+        for i, f in enumerate(self._c_fields):
+            if f.key in shown and not f.choices:
+                self.query_one(f"#field-{i}", Input).placeholder = shown[f.key]
 
     def _last_field(self) -> str:
         return f"field-{len(self._c_fields) - 1}"
@@ -188,18 +284,25 @@ class FormDialog(Dialog[dict[str, str] | None]):
     def check_action(self, action: str, parameters: tuple[object, ...]) -> bool | None:
         if action == "next_field":
             focused = self.focused
-            return isinstance(focused, Input) and focused.id != self._last_field()
+            return isinstance(focused, Choice) or isinstance(focused, Input) and focused.id != self._last_field()
         return True
 
     def action_next_field(self) -> None:
-        self.focus_next(Input)
+        if self.focused is not None and self.focused.id == self._last_field():
+            self.save()
+        else:
+            self.focus_next("Input, Choice")
 
     @on(Input.Submitted)
     def submit(self, event: Input.Submitted) -> None:
         event.stop()
         if event.input.id != self._last_field():
-            self.focus_next(Input)
+            self.focus_next("Input, Choice")
             return
+        self.save()
+
+    def save(self) -> None:
+        """Close with the values, unless ``check`` finds a problem (shown in the form)."""
         values = self.values()
         problem = self._c_check(values) if self._c_check is not None else None
         if problem:

@@ -32,7 +32,7 @@ from pairings.tui.dialogs import ConfirmDialog, Field, FormDialog, open_dialog
 from pairings.tui.grid import Column, Grid
 from pairings.tui.offload import Job
 from pairings.tui.text import (
-    cell, describe_round, flag_words, name, open_flags, points, safe, short_result, widest,
+    cell, describe_round, flag_words, flagged_games, name, open_flags, points, safe, short_result, widest,
 )
 
 WHY_DELAY = 0.25
@@ -391,7 +391,7 @@ class RoundPlace(Place):
         state, base = self.state, self.shown_head
         lines = [
             f"board {g.board}: {', '.join(open_flags(g.flags))} ({name(state, g.first)} – {name(state, g.second)})"
-            for g in rnd.games if open_flags(g.flags)
+            for g in flagged_games(rnd)
         ]
         lines = [f"Flags still open: {len(lines)}"] + lines if lines else ["No flags open."]
         lines += [f"bye: {name(state, y.player)} ({y.kind.value})" for y in rnd.byes]

@@ -5,15 +5,15 @@ from __future__ import annotations
 import asyncio
 from pathlib import Path
 
-from textual.widgets import Label
+from textual.widgets import Input, Label
 
 from pairings import actions
 from pairings.state import ByeKind, PlayerId
 from pairings.store import EventStore
 from pairings.tui.app import DeskApp
-from pairings.tui.dialogs import FormDialog, ReadDialog
+from pairings.tui.dialogs import Choice, ConfirmDialog, FormDialog, ReadDialog
 from pairings.tui.grid import Grid
-from tests.tui.desk_support import settle, type_text
+from tests.tui.desk_support import Notes, burst, settle, type_text
 
 # Invented names and clubs.
 ROSTER = [("Zoë Quillfeather", "Tarnside"), ("Anders Ångström", "Nordvik"), ("Brisa Bray", "Old Mill"),
@@ -96,5 +96,63 @@ def test_swap_dialog_starts_with_the_players_name(tmp_path: Path) -> None:
             await pilot.press("s")
             assert isinstance(app.screen, FormDialog)
             assert app.screen.values()["p0"] == app.state.players[rnd.games[0].first].name
+
+    asyncio.run(run())
+
+
+def test_flagged_count_is_the_same_in_the_header_and_the_publish_check(tmp_path: Path) -> None:
+    store = roster_event(tmp_path / "e.pairings")
+
+    async def run() -> None:
+        app = DeskApp(store, poll_seconds=3600, start="round")
+        async with app.run_test(size=(80, 24)) as pilot:
+            await pilot.press("n")
+            await settle(app, pilot)
+            await pilot.press("k")  # pin board 1: "pinned" is the organiser's own flag, not one still open
+            await settle(app, pilot)
+            await type_text(pilot, "arbiter")
+            await pilot.press("enter")
+            await settle(app, pilot)
+            rnd = app.state.last_round
+            assert rnd is not None and any("pinned" in g.flags for g in rnd.games)
+            header = str(app.screen.query_one("#topline", Label).content)
+            await pilot.press("p")
+            assert isinstance(app.screen, ConfirmDialog)
+            facts = str(app.screen.query_one("#facts", Label).content)
+            listed = int(facts.split("Flags still open: ")[1].split()[0]) if "still open" in facts else 0
+            assert f"{listed} flagged" in header, (header, facts)
+
+    asyncio.run(run())
+
+
+def test_print_dialog_offers_choices_and_the_file_name_follows_the_format(tmp_path: Path) -> None:
+    store = roster_event(tmp_path / "e.pairings")
+
+    async def run() -> None:
+        app = DeskApp(store, poll_seconds=3600, start="round")
+        async with app.run_test(size=(80, 24)) as pilot:
+            await pilot.press("n")
+            await settle(app, pilot)
+            await pilot.press("p", "y", "f7")
+            await pilot.pause()
+            dialog = app.screen
+            assert isinstance(dialog, FormDialog)
+            kind, fmt = dialog.query_one("#field-0", Choice), dialog.query_one("#field-1", Choice)
+            assert kind.choices == ("pairings", "names", "slips", "standings", "crosstable")
+            file = dialog.query_one("#field-3", Input)
+            assert file.placeholder.endswith("e-pairings-round1.txt")
+            notes = Notes(app)
+            await pilot.press("right", "right", "right", "left", "left", "enter")  # names
+            await type_text(pilot, "pd")  # pdf
+            await pilot.pause()
+            assert (kind.value, fmt.value) == ("names", "pdf")
+            assert file.placeholder.endswith("e-names-round1.pdf"), file.placeholder
+            await pilot.press("left")  # html
+            await pilot.pause()
+            assert file.placeholder.endswith("e-names-round1.html")
+            burst(app, "enter", "enter", "enter")  # the latest round, the file shown
+            await settle(app, pilot)
+            assert app.last_output == tmp_path / "e-names-round1.html", notes.messages
+            assert app.last_output.read_text(encoding="utf-8").lstrip().startswith("<")
 
     asyncio.run(run())
