@@ -21,13 +21,14 @@ from textual import events, on, work
 from textual.app import App, SystemCommand
 from textual.binding import Binding
 from textual.message import Message
+from textual.notifications import SeverityLevel
 from textual.dom import DOMNode
 from textual.screen import Screen
 
 from pairings.errors import ConflictError, InputError, RosterError
 from pairings.state import EventState
 from pairings.store import EventStore
-from pairings.tui.base import Action, Place
+from pairings.tui.base import Action, KeyLine, Place
 from pairings.tui.dialogs import Dialog, Field, FormDialog, HelpDialog, open_dialog
 from pairings.tui.log import LogPlace
 from pairings.tui.offload import Job, Offload
@@ -186,6 +187,15 @@ class DeskApp(App[None]):
 
     def on_unmount(self) -> None:
         self.offload.close()
+
+    def notify(self, message: str, *, title: str = "", severity: SeverityLevel = "information",
+               timeout: float | None = None, markup: bool = False) -> None:
+        """A notice on the place's bottom line, one at a time (see :meth:`KeyLine.say`); over a dialog, a toast."""
+        place = self.screen
+        if isinstance(place, Place) and place.is_mounted:
+            place.query_one(KeyLine).say(str(message), severity, timeout)
+        else:
+            super().notify(message, title=title, severity=severity, timeout=timeout, markup=False)
 
     # -- state -----------------------------------------------------------------------------
 

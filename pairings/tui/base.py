@@ -19,6 +19,7 @@ from textual.binding import Binding
 from textual.containers import Horizontal
 from textual.content import Content
 from textual.screen import Screen
+from textual.timer import Timer
 from textual.widgets import Label
 
 from pairings.events import Event
@@ -53,28 +54,62 @@ class KeyList(Label):
                 return
 
 
+NOTICE_SECONDS = 4.0
+"""How long a notice stays on the bottom line unless a newer one replaces it."""
+NOTICE_WORDS = {"error": "problem: ", "warning": "note: ", "information": ""}
+"""Said before a notice, so its weight reads without colour."""
+
+
 class KeyLine(Horizontal):
     """The bottom line: the place's keys, then the desk's, and the palette key at the right.
 
     Drawn once when the place is made. (textual's ``Footer`` rebuilds a widget
     per key each time the focus or the screen changes, a tenth of a second on
     every switch of place; the desk's keys never change while it runs.)
+    A notice (:meth:`say`) takes the keys' place for a few seconds: one line,
+    replaced by the next (textual's toasts stacked up over the data).
     """
 
     DEFAULT_CSS = """
     KeyLine { height: 1; background: $footer-background; }
     KeyLine > .keys { width: 1fr; }
+    KeyLine > .notice { width: 1fr; padding: 0 1; display: none; text-style: bold; }
+    KeyLine > .notice.-error { color: $error; }
+    KeyLine > .notice.-warning { color: $warning; }
+    KeyLine > .notice.-information { color: $success; }
+    KeyLine.-noticed > .keys { display: none; }
+    KeyLine.-noticed > .notice { display: block; }
     KeyLine > .palette { width: auto; padding: 0 1 0 0; }
     """
 
     def __init__(self, bindings: Sequence[object]) -> None:
         super().__init__()
         self._shown_keys = [b for b in bindings if isinstance(b, Binding) and b.show and b.description]
+        self._notice_timer: Timer | None = None
 
     def compose(self) -> ComposeResult:
         yield KeyList([(b.key.split(",")[0], self.app.get_key_display(b), b.description) for b in self._shown_keys],
                       classes="keys")
+        yield Label("", classes="notice")
         yield KeyList([("ctrl+p", "▏^p", "palette")], classes="palette")
+
+    def say(self, text: str, severity: str = "information", seconds: float | None = None) -> None:
+        """Show ``text`` on one line instead of the keys, replacing the notice before it."""
+        notice = self.query_one(".notice", Label)
+        notice.set_classes(f"notice -{severity}")
+        notice.update(cell(NOTICE_WORDS.get(severity, "") + " · ".join(text.splitlines())))
+        self.add_class("-noticed")
+        if self._notice_timer is not None:
+            self._notice_timer.stop()
+        self._notice_timer = self.set_timer(seconds or NOTICE_SECONDS, self.clear_notice)
+
+    @property
+    def notice(self) -> str:
+        """The notice on the line now ("" when the keys show)."""
+        return str(self.query_one(".notice", Label).content) if self.has_class("-noticed") else ""
+
+    def clear_notice(self) -> None:
+        self.remove_class("-noticed")
 
 
 class Place(Screen[None]):

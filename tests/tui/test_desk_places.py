@@ -6,11 +6,13 @@ import asyncio
 from pathlib import Path
 
 from textual.widgets import Input, Label
+from textual.widgets._toast import Toast
 
 from pairings import actions
 from pairings.state import ByeKind, PlayerId
 from pairings.store import EventStore
 from pairings.tui.app import DeskApp
+from pairings.tui.base import KeyLine
 from pairings.tui.dialogs import Choice, ConfirmDialog, FormDialog, ReadDialog
 from pairings.tui.grid import Grid
 from tests.tui.desk_support import Notes, burst, settle, type_text
@@ -154,5 +156,24 @@ def test_print_dialog_offers_choices_and_the_file_name_follows_the_format(tmp_pa
             await settle(app, pilot)
             assert app.last_output == tmp_path / "e-names-round1.html", notes.messages
             assert app.last_output.read_text(encoding="utf-8").lstrip().startswith("<")
+
+    asyncio.run(run())
+
+
+def test_notices_during_result_entry_take_one_line_replaced_not_stacked(tmp_path: Path) -> None:
+    store = roster_event(tmp_path / "e.pairings")
+
+    async def run() -> None:
+        app = DeskApp(store, poll_seconds=3600, start="round")
+        async with app.run_test(size=(80, 24)) as pilot:
+            await pilot.press("n")
+            await settle(app, pilot)
+            await pilot.press("p", "y", "f4")
+            burst(app, "1", "f", "2", "d", "9", "f")
+            await settle(app, pilot)
+            assert not app.screen.query(Toast)  # nothing drawn over the boards or the header
+            line = app.screen.query_one(KeyLine)
+            assert line.notice == "problem: round 1 has no board 9 (boards 1-2)"
+            assert line.region.y == 23  # the bottom line, below the data
 
     asyncio.run(run())
