@@ -48,10 +48,23 @@ class KeyList(Label):
         super().__init__(Content.assemble(*parts), classes=classes)
 
     def on_mouse_down(self, event: events.MouseDown) -> None:
+        self.press_at(event.x)
+
+    def press_at(self, x: int) -> None:
         for start, end, key in self._spans:
-            if start <= event.x < end:
+            if start <= x < end:
                 self.app.simulate_key(key)
                 return
+
+
+class Notice(Label):
+    """The notice in place of the keys; a click on it is a click on the key it covers."""
+
+    def on_mouse_down(self, event: events.MouseDown) -> None:
+        line = self.parent
+        if isinstance(line, KeyLine):
+            line.clear_notice()
+            line.query_one(".keys", KeyList).press_at(event.x)
 
 
 NOTICE_SECONDS = 4.0
@@ -90,12 +103,12 @@ class KeyLine(Horizontal):
     def compose(self) -> ComposeResult:
         yield KeyList([(b.key.split(",")[0], self.app.get_key_display(b), b.description) for b in self._shown_keys],
                       classes="keys")
-        yield Label("", classes="notice")
+        yield Notice("", classes="notice")
         yield KeyList([("ctrl+p", "▏^p", "palette")], classes="palette")
 
     def say(self, text: str, severity: str = "information", seconds: float | None = None) -> None:
         """Show ``text`` on one line instead of the keys, replacing the notice before it."""
-        notice = self.query_one(".notice", Label)
+        notice = self.query_one(Notice)
         notice.set_classes(f"notice -{severity}")
         notice.update(cell(NOTICE_WORDS.get(severity, "") + " · ".join(text.splitlines())))
         self.add_class("-noticed")
@@ -106,7 +119,7 @@ class KeyLine(Horizontal):
     @property
     def notice(self) -> str:
         """The notice on the line now ("" when the keys show)."""
-        return str(self.query_one(".notice", Label).content) if self.has_class("-noticed") else ""
+        return str(self.query_one(Notice).content) if self.has_class("-noticed") else ""
 
     def clear_notice(self) -> None:
         self.remove_class("-noticed")
