@@ -304,14 +304,14 @@ class DeskApp(App[None]):
             self.write_report(self.state, values["kind"], values["format"], number, path)
 
         def follow(values: dict[str, str]) -> dict[str, str]:
-            return {"file": str(self.default_output(values["kind"], values["format"]))}
+            return {"file": self.default_output(values["kind"], values["format"]).name}
 
         fields = [
             Field("kind", "What (← →, or type the first letters)", "pairings", choices=KINDS),
             Field("format", "Format", "text", choices=tuple(FORMATS)),
             Field("round", "Round (empty: the latest)", ""),
             Field("file", "File (empty: the name shown, beside the event file)", "",
-                  str(self.default_output("pairings", "text"))),
+                  self.default_output("pairings", "text").name),
         ]
         open_dialog(self, FormDialog("Print / export", fields, check, follow=follow), chosen)
 

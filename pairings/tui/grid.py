@@ -35,6 +35,10 @@ class Column:
     flex: bool = False
     """Takes a share of the width the other columns leave."""
     limit: int = 40
+    least: int = 6
+    """A flex column's narrowest width."""
+    rank: int = 0
+    """Flex columns of a lower rank grow to their longest cell first (names before a result's words)."""
 
 
 RowMaker = Callable[[int], Sequence[object]]
@@ -183,9 +187,17 @@ class Grid(ScrollView, can_focus=True):
         fixed = [c.width if c.width is not None else min(self._natural[i], c.limit) if not c.flex else 0
                  for i, c in enumerate(self.columns)]
         flex = [i for i, c in enumerate(self.columns) if c.flex]
-        spare = width - sum(fixed) - len(self.columns) - 2
         for i in flex:
-            fixed[i] = max(6, min(self._natural[i], spare // len(flex))) if spare > 0 else 6
+            fixed[i] = min(self.columns[i].least, self._natural[i])
+        left = width - sum(fixed) - len(self.columns) - 2  # a space before each column, the scrollbar
+        for rank in sorted({self.columns[i].rank for i in flex}):
+            # Within a rank, the shortest needs are met first and what they leave goes to the others.
+            waiting = sorted((i for i in flex if self.columns[i].rank == rank), key=lambda i: self._natural[i])
+            while waiting and left > 0:
+                i = waiting.pop(0)
+                grow = min(self._natural[i] - fixed[i], left // (len(waiting) + 1))
+                fixed[i] += max(0, grow)
+                left -= max(0, grow)
         self._widths = fixed
         self.virtual_size = Size(width, len(self._keys) + 1)
         self.refresh()

@@ -75,8 +75,8 @@ class RosterPlace(Place):
 
     def on_mount(self) -> None:
         grid = self.query_one("#players", Grid)
-        grid.set_columns([Column("id", "Id", limit=8), Column("name", "Name", flex=True),
-                          Column("rating", "Rating", 7), Column("club", "Club", limit=20),
+        grid.set_columns([Column("id", "Id", limit=8), Column("name", "Name", flex=True, least=10),
+                          Column("rating", "Rating", 7), Column("club", "Club", flex=True, rank=1),
                           Column("score", "Score", 5), Column("status", "Status", limit=24)])
         grid.focus()
 

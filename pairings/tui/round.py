@@ -61,6 +61,7 @@ class RoundPlace(Place):
         Binding("b", "bye", "To/from bye"),
         Binding("x", "discard", "Discard draft"),
         Binding("p", "publish", "Publish"),
+        Binding("w", "why", "Why panel"),
         Binding("comma", "browse(-1)", "Earlier round", key_display=","),
         Binding("full_stop", "browse(1)", "Later round", key_display="."),
     ]
@@ -115,7 +116,23 @@ class RoundPlace(Place):
 
     def on_mount(self) -> None:
         self.query_one("#busy").display = False
+        self.query_one("#why").border_title = "Why · ↑ ↓ PgUp PgDn · w / Esc: back to the boards"
         self.query_one("#boards", Grid).focus()
+
+    def action_why(self) -> None:
+        """Into the Why panel (opened beside the boards in a narrow terminal) and back out of it."""
+        why, main = self.query_one("#why", VerticalScroll), self.query_one("#round-main")
+        if why.has_focus:
+            main.remove_class("-why-open")
+            self.query_one("#boards", Grid).focus()
+            return
+        main.add_class("-why-open")
+        why.focus()
+        self.explain_selected()
+
+    def key_escape(self) -> None:
+        if self.query_one("#why").has_focus:
+            self.action_why()
 
     # -- showing ---------------------------------------------------------------------------
 
@@ -138,8 +155,9 @@ class RoundPlace(Place):
             self._boards = ()
             return
         sides = state.settings.sides or ("First", "Second")
-        what = f"Round {rnd.number}: {describe_round(rnd)}"
         costs = [f"{k} {points(v)}" for k, v in rnd.cost.items() if v]
+        # The topline says how the latest round stands; this line says it for a round browsed back to.
+        what = f"Round {rnd.number}" if rnd is state.last_round else f"Round {rnd.number}: {describe_round(rnd)}"
         what += " · cost: " + (", ".join(costs) if costs else "none")
         status.update(cell(what))
         shape = (rnd.number, tuple((g.board, g.first, g.second, g.flags, g.result) for g in rnd.games))
@@ -207,6 +225,8 @@ class RoundPlace(Place):
     def start_explain(self) -> None:
         """One explanation at a time (each is a full re-draft), for the board the cursor rests on."""
         if self._explaining or self._wanted is None or self._wanted[0] != self.state.head:
+            return
+        if not self.query_one("#why").display:  # closed in a narrow terminal: worked out when opened (w)
             return
         self._explaining = True
         _, number, board = self._wanted

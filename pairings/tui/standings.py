@@ -5,6 +5,7 @@ from __future__ import annotations
 from dataclasses import dataclass
 from typing import TYPE_CHECKING, ClassVar
 
+from rich.text import Text
 from textual import on, work
 from textual.app import ComposeResult
 from textual.binding import BindingType
@@ -16,7 +17,7 @@ from pairings.errors import InputError
 from pairings.state import EventState
 from pairings.tui.base import Place
 from pairings.tui.grid import Column, Grid
-from pairings.tui.text import cell, points, widest
+from pairings.tui.text import cell, points, safe, widest
 
 if TYPE_CHECKING:  # standings loads in the worker
     from pairings.standings import Standings
@@ -68,7 +69,8 @@ class StandingsPlace(Place):
             status.update(cell(message.problem))
             return
         note = "provisional: results still open" if st.provisional else "final for this round"
-        status.update(cell(f"After round {st.after_round} ({note}); {UNPLAYED_LABELS[st.unplayed]}"))
+        status.update(Text(safe(f"After round {st.after_round} ({note}); tiebreaks count "
+                                f"{UNPLAYED_LABELS[st.unplayed]}")))  # two lines in 80 columns
         grid.set_columns([Column("rank", "Rank", limit=9), Column("name", "Name", flex=True),
                           Column("points", "Points", 6)]
                          + [Column(key, TIEBREAKS[key].short, limit=8) for key in st.tiebreaks]

@@ -117,7 +117,7 @@ def test_flagged_count_is_the_same_in_the_header_and_the_publish_check(tmp_path:
             await settle(app, pilot)
             rnd = app.state.last_round
             assert rnd is not None and any("pinned" in g.flags for g in rnd.games)
-            header = str(app.screen.query_one("#topline", Label).content)
+            header = str(app.screen.query_one("#topline-state", Label).content)
             await pilot.press("p")
             assert isinstance(app.screen, ConfirmDialog)
             facts = str(app.screen.query_one("#facts", Label).content)
@@ -175,5 +175,60 @@ def test_notices_during_result_entry_take_one_line_replaced_not_stacked(tmp_path
             line = app.screen.query_one(KeyLine)
             assert line.notice == "problem: round 1 has no board 9 (boards 1-2)"
             assert line.region.y == 23  # the bottom line, below the data
+
+    asyncio.run(run())
+
+
+LONG_NAMES = ["Perpetua Pennywhistle", "Kasimir Kestrelmoor", "Odalys Orchardleigh", "Bettany Cobbledick",
+              "Nicanor Nimblewood", "Rosalind Rookwood"]  # invented
+
+
+def test_80_by_24_names_take_the_free_width_and_the_why_panel_is_one_key_away(tmp_path: Path) -> None:
+    store = EventStore.create(tmp_path / "e.pairings", actions.new_event("Test Open", 3, seed=7))
+    for i, player in enumerate(LONG_NAMES):
+        store.append(actions.add_player(store.state, player, 2000 - 10 * i, None))
+
+    async def run() -> None:
+        app = DeskApp(store, poll_seconds=3600, start="round")
+        async with app.run_test(size=(80, 24)) as pilot:
+            await pilot.press("n")
+            await settle(app, pilot)
+            grid = app.screen.query_one("#boards", Grid)
+            widest = max(len(n) for n in LONG_NAMES)
+
+            def name_widths() -> list[int]:
+                return [w for c, w in zip(grid.columns, grid._widths) if c.key in ("first", "second")]
+
+            assert min(name_widths()) >= widest - 2, name_widths()  # the longest names of each side, about
+            rnd = app.state.last_round
+            assert rnd is not None
+            await pilot.press("s", "ctrl+a", "ctrl+k")
+            await type_text(pilot, rnd.games[0].first)
+            await pilot.press("enter")
+            await type_text(pilot, rnd.games[1].second)
+            await pilot.press("enter")
+            await settle(app, pilot)
+            await type_text(pilot, "club mates")
+            await pilot.press("enter")
+            await settle(app, pilot)
+            assert app.state.last_round is not None and app.state.last_round.source == "override"
+            assert any("changed" in g.flags for g in app.state.last_round.games)
+            assert min(name_widths()) >= widest - 2, name_widths()  # a swap's flags do not squeeze the names
+
+            # The Why panel: closed at 80 columns, one key opens it with the focus, the same key goes back.
+            why = app.screen.query_one("#why")
+            assert not why.display
+            await pilot.press("w")
+            assert why.display and why.has_focus and why.region.width > 60
+            assert why.styles.border_top[0] != ""  # framed while it has the focus
+            await pilot.press("w")
+            assert not why.display and grid.has_focus
+
+            await pilot.press("p", "y", "f4")
+            games = app.screen.query_one("#games", Grid)
+            result = [w for c, w in zip(games.columns, games._widths) if c.key in ("first", "second")]
+            assert min(result) >= widest - 2, result
+            state = app.screen.query_one("#topline-state", Label)
+            assert state.region.width >= len(str(state.content)), str(state.content)
 
     asyncio.run(run())
