@@ -56,7 +56,7 @@ def new_event(path: Path, players: int = 0) -> EventStore:
     """An event made as `pairings new E --name "Test Open" --rounds 3 --seed 7` makes it."""
     store = EventStore.create(path, actions.new_event("Test Open", 3, seed=7))
     for name, rating, club in PLAYERS[:players]:
-        store.apply(lambda s, n=name, r=rating, c=club: actions.add_player(s, n, int(r) if r else None, c or None))
+        store.append(actions.add_player(store.state, name, int(rating) if rating else None, club or None))
     return store
 
 
