@@ -10,7 +10,7 @@ the desk both call these; neither holds any rule of its own.
 from __future__ import annotations
 
 import secrets
-from typing import TYPE_CHECKING, Sequence
+from typing import TYPE_CHECKING, Mapping, Sequence
 
 from pairings import events as ev
 from pairings.errors import AmbiguousPlayerError, InputError, RoundStateError, UnknownPlayerError
@@ -337,11 +337,11 @@ def record_result(
     return [ev.ResultRecorded(round=rnd.number, board=board, result=code)]
 
 
-def undo(log: Sequence[StoredEvent]) -> list[ev.Event]:
-    """Take back the newest action still in effect."""
+def undo(log: Sequence[StoredEvent], names: Mapping[str, str] | None = None) -> list[ev.Event]:
+    """Take back the newest action still in effect; ``names`` (player id to name) word its summary."""
     from pairings.logtext import describe
 
     target = undo_target(log)
     if target is None:
         raise InputError("nothing to undo")
-    return [ev.Undone(target=target.seq, summary=describe(target.event))]
+    return [ev.Undone(target=target.seq, summary=describe(target.event, names))]

@@ -265,8 +265,10 @@ def cmd_log(a: argparse.Namespace) -> None:
 
 
 def cmd_undo(a: argparse.Namespace) -> None:
+    from pairings.logtext import roster_names
+
     with _open(a.event) as store:
-        events = actions.undo(store.log)
+        events = actions.undo(store.log, roster_names(store.state))
         store.append(events)
     _say(f"undone: {events[0].summary}")  # type: ignore[union-attr]
 

@@ -37,3 +37,13 @@ def test_the_command_line_log_names_players(tmp_path: Path) -> None:
     out = subprocess.run([sys.executable, "-m", "pairings", "log", str(path)], capture_output=True, text=True,
                          timeout=60, check=True).stdout
     assert "Zoë Quillfeather (p1) asked for a bye in round 1" in out
+
+
+def test_undo_says_whom_it_concerned(tmp_path: Path) -> None:
+    path = tmp_path / "e.pairings"
+    with EventStore.create(path, actions.new_event("Test Open", 3, seed=7)) as store:
+        store.append(actions.add_player(store.state, "Zoë Quillfeather", None, None))
+        store.append(actions.withdraw(store.state, PlayerId("p1"), None, "ill"))
+    out = subprocess.run([sys.executable, "-m", "pairings", "undo", str(path)], capture_output=True, text=True,
+                         timeout=60, check=True).stdout
+    assert out.strip() == "undone: Zoë Quillfeather (p1) withdrawn from round 1 on (ill)"

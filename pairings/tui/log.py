@@ -83,7 +83,7 @@ class LogPlace(Place):
 
         def done(yes: bool | None) -> None:
             if yes:
-                self.apply(lambda s: actions.undo(self.desk.store.log), f"undone: {self.describe(target.event)}", base)
+                self.apply(lambda s: actions.undo(self.desk.store.log, self._names), f"undone: {self.describe(target.event)}", base)
 
         open_dialog(self.app, ConfirmDialog("Undo this action?", [f"{target.seq}: {self.describe(target.event)}"]), done)
 
