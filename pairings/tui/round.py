@@ -116,7 +116,7 @@ class RoundPlace(Place):
 
     def on_mount(self) -> None:
         self.query_one("#busy").display = False
-        self.query_one("#why").border_title = "Why · ↑ ↓ PgUp PgDn · w / Esc: back"
+        self.query_one("#why").border_title = "Why · ↑↓ PgUp PgDn · w/Esc: back"
         self.query_one("#boards", Grid).focus()
 
     def action_why(self) -> None:
