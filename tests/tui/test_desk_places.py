@@ -225,6 +225,7 @@ def test_80_by_24_names_take_the_free_width_and_the_why_panel_is_one_key_away(tm
             assert not why.display and grid.has_focus
 
             await pilot.press("p", "y", "f4")
+            await settle(app, pilot)
             games = app.screen.query_one("#games", Grid)
             result = [w for c, w in zip(games.columns, games._widths) if c.key in ("first", "second")]
             assert min(result) >= widest - 2, result
