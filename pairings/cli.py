@@ -424,19 +424,21 @@ def cmd_restore(a: argparse.Namespace) -> None:
 
 
 def cmd_log(a: argparse.Namespace) -> None:
-    from pairings.logtext import describe
+    from pairings.logtext import describe, roster_names
 
     with _open(a.event) as store:
-        log = store.log
+        log, names = store.log, roster_names(store.state)
     undone = {s.event.target for s in log if isinstance(s.event, Undone)}
     for s in log:
         mark = "  (undone)" if s.seq in undone else ""
-        _say(f"{s.seq:>5}  {s.recorded_at[:19].replace('T', ' ')}  {describe(s.event)}{mark}")
+        _say(f"{s.seq:>5}  {s.recorded_at[:19].replace('T', ' ')}  {describe(s.event, names)}{mark}")
 
 
 def cmd_undo(a: argparse.Namespace) -> None:
+    from pairings.logtext import roster_names
+
     with _open(a.event) as store:
-        events = actions.undo(store.log)
+        events = actions.undo(store.log, roster_names(store.state))
         store.append(events)
     _say(f"undone: {events[0].summary}")  # type: ignore[union-attr]
 
