@@ -11,7 +11,6 @@ from __future__ import annotations
 
 from dataclasses import dataclass, field
 from enum import StrEnum
-from fractions import Fraction
 from types import MappingProxyType
 from typing import Mapping, NewType
 
@@ -144,19 +143,6 @@ class Scoring:
     def points(self, outcome: str) -> float:
         return {"win": self.win, "draw": self.draw, "loss": self.loss}[outcome]
 
-    @property
-    def unit(self) -> Fraction:
-        """The largest step that divides every score: scores are integer multiples of it."""
-        values = [Fraction(v).limit_denominator(1000) for v in (self.win, self.draw, self.loss)]
-        values = [v for v in values if v]
-        if not values:
-            return Fraction(1)
-        from math import gcd, lcm
-
-        den = lcm(*(v.denominator for v in values))
-        num = gcd(*(int(v * den) for v in values))
-        return Fraction(num, den)
-
 
 DEFAULT_TIEBREAKS: tuple[str, ...] = ("BH-C1", "BH", "SB", "WIN")
 """The list of event files that stored none (new events get the C.07 recommendation instead)."""
@@ -263,12 +249,6 @@ class Game:
     flags: tuple[str, ...] = ()
     cost: Mapping[str, int] = field(default_factory=lambda: MappingProxyType({}))
 
-    def side_of(self, player: PlayerId) -> Side:
-        return Side.FIRST if player == self.first else Side.SECOND
-
-    def opponent_of(self, player: PlayerId) -> PlayerId:
-        return self.second if player == self.first else self.first
-
 
 @dataclass(frozen=True, slots=True)
 class Bye:
@@ -374,10 +354,6 @@ class PlayerRecord:
     def opponents(self) -> tuple[PlayerId, ...]:
         """Opponents actually met over the board (forfeits are not meetings)."""
         return tuple(e.opponent for e in self.entries if e.played and e.opponent is not None)
-
-    @property
-    def floats(self) -> tuple[tuple[int, Float | None], ...]:
-        return tuple((e.round, e.float) for e in self.entries)
 
     @property
     def had_pairing_bye(self) -> bool:

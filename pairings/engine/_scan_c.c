@@ -377,6 +377,44 @@ static int buffer_of(Py_buffer *buf, Py_ssize_t count, Py_ssize_t itemsize, cons
     return 0;
 }
 
+#define SCORE_LIMIT (1LL << 30)
+
+/* The caller's inputs, checked before anything is read through them: NULL when they hold, else why not.
+ * The walk indexes players by the partner ranges (ends), the gap table by score differences (the rank
+ * order: scores never rise), the cost row by the missed-preference columns, and searches the sorted keys. */
+static const char *bad_players(const int64_t *pl, const int64_t *ends, Py_ssize_t n) {
+    for (Py_ssize_t i = 0; i < n; i++) {
+        const int64_t *x = pl + 14 * i, *prev = pl + 14 * (i - 1);
+        if (x[0] <= -SCORE_LIMIT || x[0] >= SCORE_LIMIT || x[3] < 0 || x[3] >= SCORE_LIMIT)
+            return "a player's score or side difference is beyond the scan's range";
+        if (i > 0 && (x[0] > prev[0] || (x[0] == prev[0] && x[1] <= prev[1])))
+            return "the players are not in rank order (score, then rank in the score group)";
+        if (x[2] < 1 || x[2] >= SCORE_LIMIT || x[1] < 0 || x[1] >= x[2])
+            return "a player's rank in its score group is outside the group";
+        if (x[4] < -1 || x[4] > 1 || x[5] < 0 || x[5] > 3)
+            return "a side wish or its strength is out of range";
+        for (int k = 6; k < 12; k++)
+            if (x[k] != 0 && x[k] != 1)
+                return "a side-rule or float flag is neither 0 nor 1";
+        for (int k = 12; k < 14; k++)
+            if (x[k] != 0 && (x[k] < 5 || x[k] > 7))
+                return "a missed-preference column is not 5, 6 or 7";
+        if (ends[i] < 0 || ends[i] > n)
+            return "a player's partner range ends outside the field";
+    }
+    return NULL;
+}
+
+static const char *bad_keys(const int64_t *keys, Py_ssize_t count, Py_ssize_t n) {
+    for (Py_ssize_t k = 0; k < count; k++) {
+        if (keys[k] < 0 || keys[k] >= (int64_t)n * n)
+            return "a rematch or do-not-pair key names a player outside the field";
+        if (k > 0 && keys[k] <= keys[k - 1])
+            return "the rematch and do-not-pair keys are not sorted without repeats";
+    }
+    return NULL;
+}
+
 /* prepare(n, players, ends, words, hfirst, hsecond, rematch, forbid, sides, levels, bound)
  * players: int64 n x 14 (units, grank, gsize, abs_sd, want, strength, breaks_first, breaks_second,
  * down1, up1, down2, up2, miss_first, miss_second). */
@@ -393,12 +431,25 @@ static PyObject *prepare(PyObject *self, PyObject *args) {
         PyErr_NoMemory();
         goto done;
     }
-    if (n < 0 || words < 1 || levels < 0 || buffer_of(&players, n * 14, 8, "players") ||
+    if (n < 0 || n >= (1 << 20) || words < 1 || words >= (1 << 16) || levels < 0 || levels >= (1 << 20) ||
+        buffer_of(&players, n * 14, 8, "players") ||
         buffer_of(&ends, n, 8, "ends") || buffer_of(&hfirst, n * words, 8, "history") ||
         buffer_of(&hsecond, n * words, 8, "history") || buffer_of(&bound, levels + 10, 8, "bound") ||
         rematch.len % 8 || forbid.len % 8) {
         if (!PyErr_Occurred())
             PyErr_SetString(PyExc_ValueError, "bad scan arguments");
+        goto done;
+    }
+    const char *why = bad_players(players.buf, ends.buf, n);
+    if (why == NULL)
+        why = bad_keys(rematch.buf, rematch.len / 8, n);
+    if (why == NULL)
+        why = bad_keys(forbid.buf, forbid.len / 8, n);
+    for (Py_ssize_t k = 0; why == NULL && k < levels + 10; k++)
+        if (((const int64_t *)bound.buf)[k] < 0)
+            why = "a bound entry is negative";
+    if (why != NULL) {
+        PyErr_SetString(PyExc_ValueError, why);
         goto done;
     }
     s->n = n;

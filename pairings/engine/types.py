@@ -20,7 +20,7 @@ CRITERIA: tuple[str, ...] = (
     "rematch",          # H1 relaxed: the pair has met max_meetings times already
     "side_rule",        # H3 relaxed: players ending with |SD| > 2 or a third same side in a row
     "repeat_bye",       # H2 relaxed: a pairing bye for a player who already scored without playing
-    "score_gap",        # S2: score difference of the pair, in scoring units (Scoring.unit)
+    "score_gap",        # S2: score difference of the pair, in scoring units (Field.unit)
     "bye_rank",         # S3: players ranked below the one given the pairing bye
     "pref_absolute",    # S4: absolute side preferences missed
     "pref_strong",      # S4: strong side preferences missed

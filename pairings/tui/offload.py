@@ -1,8 +1,10 @@
 """The desk's heavy work (drafts, explanations, override previews and records, printouts) as plain-data jobs.
 
-:func:`run` does a :class:`Job` on a state in this process. The engine is
-pure Python, so in a worker thread it shares the interpreter lock with the
-screen, and while a 2,000-player draft runs every key waits for its turn.
+:func:`run` does a :class:`Job` on a state in this process. The engine's
+compiled kernels (the blossom and the pair scan) let go of the interpreter
+lock while they run, but the Python around them (the field, the bounds, sides,
+boards, explanations) and the printouts hold it, so in a worker thread a
+large job still takes turns with the screen and keys wait.
 From :data:`PROCESS_FROM` players on, :class:`Offload` therefore runs the job
 in a child process (a fresh interpreter running :func:`main`): the child gets the
 event file's path and the job on its standard input, opens the file itself,
