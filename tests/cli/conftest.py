@@ -2,8 +2,10 @@
 
 from __future__ import annotations
 
+import io
 import subprocess
 import sys
+from contextlib import redirect_stderr, redirect_stdout
 from dataclasses import dataclass
 from pathlib import Path
 
@@ -31,6 +33,14 @@ def cli(capsys: pytest.CaptureFixture[str]):  # type: ignore[no-untyped-def]
         return Ran(code, captured.out, captured.err)
 
     return run
+
+
+def run_in_process(*args: object) -> Ran:
+    """The command line run by :func:`pairings.cli.main` in this interpreter, its output captured."""
+    out, err = io.StringIO(), io.StringIO()
+    with redirect_stdout(out), redirect_stderr(err):
+        code = main([str(a) for a in args])
+    return Ran(code, out.getvalue(), err.getvalue())
 
 
 def run_process(*args: str, cwd: Path | None = None) -> Ran:

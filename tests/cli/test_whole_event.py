@@ -1,4 +1,4 @@
-"""A whole 5-round, 9-player event through the command line (subprocess, real files).
+"""A whole 5-round, 9-player event through the command line (in-process, real files; one real process).
 
 The exported JSON is compared with ``expected/five-rounds.json``, a capture that was checked by hand
 when it was made: every round pairs each active player once, no two players meet twice, the odd player
@@ -13,7 +13,7 @@ from pathlib import Path
 from pairings.fold import fold
 from pairings.interchange import export_event
 from pairings.store import EventStore
-from tests.cli.conftest import run_process
+from tests.cli.conftest import run_in_process, run_process
 
 EXPECTED = Path(__file__).parent / "expected" / "five-rounds.json"
 PLAYERS = [
@@ -32,7 +32,7 @@ def _result(round_number: int, board: int, first_rating: int, second_rating: int
 
 
 def ok(*args: object) -> str:
-    ran = run_process(*map(str, args))
+    ran = run_in_process(*args)
     assert ran.code == 0, ran.err
     return ran.out
 
@@ -92,6 +92,9 @@ def test_whole_event_matches_the_hand_checked_export(tmp_path: Path) -> None:
     rows = json.loads(ok("standings", event, "--format", "json"))
     assert {row["player"]: row["points"] for row in rows} == points
     assert [row["points"] for row in rows] == sorted((row["points"] for row in rows), reverse=True)
+    # The same export from a real process (the installed entry's path: argument parsing, exit status).
+    ran = run_process("export", str(event))
+    assert ran.code == 0 and json.loads(ran.out) == doc, ran.err
 
 
 def test_replaying_the_log_gives_an_identical_state(tmp_path: Path) -> None:

@@ -1,15 +1,13 @@
 """A whole 3-round event driven through the desk by keyboard, checked against the command line.
 
-The same actions are then replayed with ``python -m pairings`` on a second
-file; the two events' interchange documents must be equal.
+The same actions are then replayed through the command line (``pairings.cli.main``,
+in this process) on a second file; the two events' interchange documents must be equal.
 """
 
 from __future__ import annotations
 
 import asyncio
 import json
-import subprocess
-import sys
 from pathlib import Path
 
 from pairings import actions
@@ -18,14 +16,14 @@ from pairings.state import RoundState
 from pairings.store import EventStore
 from pairings.tui.app import DeskApp
 from pairings.tui.dialogs import ConfirmDialog, FormDialog
+from tests.cli.conftest import run_in_process
 from tests.tui.desk_support import PLAYERS, Notes, new_event, settle, type_text
 
 
 def cli(*args: object) -> str:
-    proc = subprocess.run([sys.executable, "-m", "pairings", *map(str, args)], capture_output=True, text=True,
-                          timeout=120)
-    assert proc.returncode == 0, proc.stderr
-    return proc.stdout
+    ran = run_in_process(*args)
+    assert ran.code == 0, ran.err
+    return ran.out
 
 
 async def drive(path: Path, sheet: Path) -> tuple[dict[str, object], list[list[object]]]:
