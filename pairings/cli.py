@@ -19,6 +19,7 @@ from pairings import actions
 from pairings.errors import InputError, NoPairingError, PairingsError
 from pairings.events import Undone
 from pairings.cliawards import add_award_commands
+from pairings.clirated import add_rated_commands
 from pairings.printouts import FORMATS, KINDS, PAPERS
 from pairings.state import ByeKind, EventState, RoundState
 from pairings.store import EventStore
@@ -325,12 +326,31 @@ def cmd_export(a: argparse.Namespace) -> None:
     from pairings.interchange import export_event
 
     with _open(a.event) as store:
-        _json(export_event(store.state))
+        state = store.state
+    if a.format == "trf":
+        from pairings.trf import write_trf
+
+        text = write_trf(state)
+    else:
+        text = json.dumps(export_event(state), indent=2, ensure_ascii=False) + "\n"
+    if a.output:
+        from pairings.reports.files import write_file
+
+        write_file(Path(a.output), text)
+        _say(f"wrote {a.output}")
+    else:
+        sys.stdout.write(text)
 
 
 def cmd_restore(a: argparse.Namespace) -> None:
     from pairings.interchange import restore_events
 
+    if _is_trf(a.file):
+        from pairings.trf import read_trf
+
+        EventStore.create_from(Path(a.event), read_trf(_read_text(a.file))).close()
+        _say(f"restored {a.event} from the report file")
+        return
     try:
         doc = json.loads(Path(a.file).read_text(encoding="utf-8-sig"))
     except OSError as exc:
@@ -340,6 +360,27 @@ def cmd_restore(a: argparse.Namespace) -> None:
     events = restore_events(doc)
     EventStore.create_from(Path(a.event), events).close()
     _say(f"restored {a.event}")
+
+
+def _read_text(path: str) -> str:
+    try:
+        return Path(path).read_bytes().decode("utf-8-sig")
+    except OSError as exc:
+        raise InputError(f"{path}: cannot read ({exc.strerror})") from None
+    except UnicodeDecodeError as exc:
+        raise InputError(f"{path}: not UTF-8 text (byte {exc.start + 1})") from None
+
+
+def _is_trf(path: str) -> bool:
+    """A FIDE report file: named ``*.trf``, or a file whose first record is a TRF tag (``012 ...``)."""
+    if path.lower().endswith(".trf"):
+        return True
+    try:
+        with open(path, "rb") as f:
+            head = f.read(4).removeprefix(b"\xef\xbb\xbf")
+    except OSError:
+        return False
+    return len(head) == 4 and head[:3].isdigit() and head[3:] == b" "
 
 
 def cmd_log(a: argparse.Namespace) -> None:
@@ -499,11 +540,15 @@ def build_parser() -> argparse.ArgumentParser:
     _sheet_options(sp)
 
     add_award_commands(sub, _Parser)
+    add_rated_commands(sub, _Parser)
     sp = add("publish-web", cmd_publish_web, "write static web pages (pairings, standings) to a folder")
     sp.add_argument("directory", metavar="DIR", type=_path)
-    add("export", cmd_export, "print the event as one JSON document")
-    sp = add("restore", cmd_restore, "rebuild an event file from an exported JSON document", event=False)
-    sp.add_argument("file", metavar="FILE.json", type=_path)
+    sp = add("export", cmd_export, "print the event as one JSON document, or as a FIDE report file (TRF16)")
+    sp.add_argument("--format", choices=("json", "trf"), default="json")
+    sp.add_argument("-o", "--output", metavar="FILE", type=_path)
+    sp = add("restore", cmd_restore, "rebuild an event file from an exported JSON document or a FIDE report "
+             "file (*.trf)", event=False)
+    sp.add_argument("file", metavar="FILE", type=_path)
     sp.add_argument("event", metavar="EVENT", type=_path)
     add("log", cmd_log, "the event's history")
     add("undo", cmd_undo, "take back the last action still in effect")

@@ -78,6 +78,9 @@ def _(e: ev.EventCreated, b: _Builder) -> None:
         seed=e.seed,
         acceleration=e.acceleration,
         forfeit_is_meeting=e.forfeit_is_meeting,
+        city=e.city, federation=e.federation, start_date=e.start_date, end_date=e.end_date,
+        chief_arbiter=e.chief_arbiter, deputy_arbiters=tuple(e.deputy_arbiters), time_control=e.time_control,
+        round_dates=tuple(e.round_dates),
     )
 
 
@@ -87,6 +90,9 @@ def _(e: ev.SettingsChanged, b: _Builder) -> None:
     changes = {k: v for k, v in e.model_dump(exclude={"type"}).items() if v is not None}
     if "tiebreaks" in changes:
         changes["tiebreaks"] = tuple(changes["tiebreaks"])
+    for key in ("deputy_arbiters", "round_dates"):
+        if key in changes:
+            changes[key] = tuple(changes[key])
     if e.scoring is not None:
         changes["scoring"] = Scoring(e.scoring.win, e.scoring.draw, e.scoring.loss)
     b.settings = replace(b.settings, **changes)

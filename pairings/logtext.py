@@ -42,7 +42,8 @@ def _(e: ev.PlayerRegistered) -> str:
 
 @_line.register
 def _(e: ev.PlayerEdited) -> str:
-    return f"player {e.id} edited: {e.name}, rating {e.rating if e.rating is not None else '-'}, club {e.club or '-'}"
+    why = f" ({e.reason})" if e.reason else ""
+    return f"player {e.id} edited: {e.name}, rating {e.rating if e.rating is not None else '-'}, club {e.club or '-'}{why}"
 
 
 @_line.register
