@@ -95,6 +95,9 @@ SCORING_TAG = "PTS"
 """Our own record, not part of TRF16: points for a win, a draw, a loss, a pairing bye and a requested
 half-point bye, written only when they differ from 1, 0.5, 0, 1, 0.5. Readers that do not know it skip it,
 as the standard asks of unknown tags."""
+TIEBREAK_TAG = "TBK"
+"""Our own record, not part of TRF16: the event's tiebreak acronyms and its treatment of unplayed
+rounds, which decide the places in columns 86-89; written only when they differ from the defaults."""
 
 WHITE, BLACK, NO_COLOUR = "w", "b", "-"
 PLAYED_CODES = {"1": "win", "=": "draw", "0": "loss"}

@@ -17,11 +17,11 @@ from pairings import events as ev
 from pairings.actions import clean_text
 from pairings.errors import InputError, ReportFileError
 from pairings.eventinfo import check_date
-from pairings.standings.tiebreaks import default_tiebreaks
-from pairings.state import ByeKind, Result, Side, System
+from pairings.standings import check_tiebreaks, default_tiebreaks
+from pairings.state import ByeKind, Result, Side, System, Unplayed
 from pairings.trf.layout import (
     BLACK, BYE_CODES, FORFEIT_CODES, HEADER, NO_COLOUR, PLAYED_CODES, PLAYER, PLAYER_TAG, ROUNDS_TAG,
-    SCORING_TAG, UNRATED_CODES, WHITE, Span, slot_spans, slot_start,
+    SCORING_TAG, TIEBREAK_TAG, UNRATED_CODES, WHITE, Span, slot_spans, slot_start,
 )
 from pairings.trf.write import DEFAULT_POINTS, TYPES
 
@@ -169,6 +169,7 @@ class _Header:
     round_dates: tuple[str, ...] = ()
     rounds: int | None = None
     points: tuple[float, float, float, float, float] = DEFAULT_POINTS
+    tiebreaks: tuple[tuple[str, ...], Unplayed] | None = None
 
 
 def _round_dates(line_no: int, text: str) -> tuple[str, ...]:
@@ -211,6 +212,12 @@ def _header_line(h: _Header, line_no: int, tag: str, text: str) -> None:
         if len(numbers) != 5:
             raise _fail(line_no, 5, "points must be five numbers: win, draw, loss, pairing bye, requested bye")
         h.points = (numbers[0], numbers[1], numbers[2], numbers[3], numbers[4])
+    elif tag == TIEBREAK_TAG:
+        names, _, unplayed = value.partition(" ")
+        try:
+            h.tiebreaks = (check_tiebreaks([n for n in names.split(",") if n != "-"]), Unplayed(unplayed))
+        except ValueError as exc:
+            raise _fail(line_no, 5, f"tiebreaks: {exc}") from None
     else:
         h.values[tag] = value
 
@@ -237,7 +244,7 @@ def _parse(text: str) -> tuple[_Header, list[_Entry]]:
             raise _fail(line_no, 4, f"column 4 after the tag {tag!r} must be blank")
         if tag == PLAYER_TAG:
             players.append(_player(line_no, line))
-        elif tag in HEADER or tag in (ROUNDS_TAG, SCORING_TAG):
+        elif tag in HEADER or tag in (ROUNDS_TAG, SCORING_TAG, TIEBREAK_TAG):
             _header_line(header, line_no, tag, line)
     if not header.values.get("012"):
         raise ReportFileError("line 1, column 1: no tournament name (record 012): not a TRF file")
@@ -321,11 +328,12 @@ def read_trf(text: str) -> list[ev.Event]:
     system, double = _system(header.values.get("092", ""))
     win, draw, loss, bye, half = header.points
     v = header.values
+    tiebreaks, unplayed = header.tiebreaks or (default_tiebreaks(system, True), Unplayed.VIRTUAL_OPPONENT)
     try:
         first: ev.Event = ev.EventCreated(
             name=clean_text(v["012"], "tournament name"), rounds=total,
             scoring=ev.ScoringModel(win=win, draw=draw, loss=loss), bye_points=bye, requested_bye_points=half,
-            system=system, double_round=double, tiebreaks=default_tiebreaks(system, True), seed=0,
+            system=system, double_round=double, tiebreaks=tiebreaks, unplayed=unplayed, seed=0,
             city=v.get("022", ""), federation=v.get("032", "").upper(), start_date=v.get("042", ""),
             end_date=v.get("052", ""), chief_arbiter=v.get("102", ""), deputy_arbiters=tuple(header.deputies),
             time_control=v.get("122", ""), round_dates=header.round_dates,

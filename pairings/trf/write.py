@@ -9,9 +9,13 @@ that goes with them).
 
 from __future__ import annotations
 
-from pairings.state import ByeKind, EventState, Player, PlayerId, RoundEntry, RoundState, Settings, Side, System
+from pairings.standings import check_tiebreaks, default_tiebreaks
+from pairings.state import (
+    ByeKind, EventState, Player, PlayerId, RoundEntry, RoundState, Settings, Side, System, Unplayed,
+)
 from pairings.trf.layout import (
-    BLACK, COLOUR_TAG, NO_COLOUR, PLAYER, PLAYER_TAG, ROUNDS_TAG, SCORING_TAG, WHITE, slot_spans, slot_start,
+    BLACK, COLOUR_TAG, NO_COLOUR, PLAYER, PLAYER_TAG, ROUNDS_TAG, SCORING_TAG, TIEBREAK_TAG, WHITE, slot_spans,
+    slot_start,
 )
 
 DEFAULT_POINTS = (1.0, 0.5, 0.0, 1.0, 0.5)
@@ -150,6 +154,9 @@ def write_trf(state: EventState) -> str:
         lines.append(f"{COLOUR_TAG} {colour}")
     if scoring_values(s) != DEFAULT_POINTS:
         lines.append(f"{SCORING_TAG} " + " ".join(points_text(v) for v in scoring_values(s)))
+    tiebreaks = check_tiebreaks(list(s.tiebreaks))
+    if tiebreaks != default_tiebreaks(s.system, True) or s.unplayed is not Unplayed.VIRTUAL_OPPONENT:
+        lines.append(f"{TIEBREAK_TAG} {','.join(tiebreaks) or '-'} {s.unplayed.value}")
     if s.round_dates:
         dates = [" "] * (slot_start(len(s.round_dates) + 1) - 1)
         dates[0:3] = "132"
