@@ -302,7 +302,7 @@ def _report(a: argparse.Namespace, kind: str) -> None:
         chosen = check_tiebreaks([t for t in a.tiebreaks.split(",") if t.strip()])
         state = replace(state, settings=replace(state.settings, tiebreaks=chosen))
     out = render(state, kind, a.format, getattr(a, "round", None), category=getattr(a, "category", None),
-                 paper=getattr(a, "paper", None))
+                 paper=getattr(a, "paper", None), ratings=getattr(a, "ratings", False))
     if a.output:
         from pairings.reports.files import write_file
 
@@ -531,6 +531,8 @@ def build_parser() -> argparse.ArgumentParser:
     _sheet_options(sp, category=True)
     sp.add_argument("--tiebreaks", metavar="LIST",
                     help="another tiebreak list for this printout only, e.g. BH-C1,BH,SB,WIN")
+    sp.add_argument("--ratings", action="store_true",
+                    help="add each player's expected score, rating change and performance (FIDE rating rules)")
     sp = add("print", cmd_print, "a printout: " + ", ".join(KINDS))
     sp.add_argument("kind", choices=KINDS)
     sp.add_argument("--round", type=int)

@@ -7,6 +7,6 @@ pure. See :mod:`pairings.trf.layout` for the columns and the edition followed.
 
 from pairings.trf.layout import EDITION
 from pairings.trf.read import read_trf
-from pairings.trf.write import fide_rating, write_trf
+from pairings.trf.write import write_trf
 
-__all__ = ["EDITION", "fide_rating", "read_trf", "write_trf"]
+__all__ = ["EDITION", "read_trf", "write_trf"]

@@ -10,6 +10,7 @@ that goes with them).
 from __future__ import annotations
 
 from pairings.standings import check_tiebreaks, default_tiebreaks
+from pairings.standings.ratingchange import fide_rating
 from pairings.state import (
     ByeKind, EventState, Player, PlayerId, RoundEntry, RoundState, Settings, Side, System, Unplayed,
 )
@@ -28,12 +29,6 @@ TYPES = {
     (System.ROUND_ROBIN, True): "Individual: double round robin",
 }
 """The 092 text per pairing system (our wording; TRF16 leaves it free)."""
-
-
-def fide_rating(player: Player) -> int | None:
-    """The rating a report file carries: the player's ``fide`` list rating, else the event's rating."""
-    listed = dict(player.details.ratings).get("fide")
-    return listed if listed is not None else player.rating
 
 
 def trf_date(iso: str, short: bool = False) -> str:

@@ -14,7 +14,7 @@ from pairings import events as ev
 from pairings.errors import ReportFileError
 from pairings.fold import fold
 from pairings.simulate import simulate_events
-from pairings.state import ByeKind, EventState, Result, System
+from pairings.state import ByeKind, EventState, PlayerId, Result, System
 from pairings.trf import EDITION, read_trf, write_trf
 
 
@@ -159,7 +159,7 @@ def test_requested_byes_late_entry_withdrawal_open_board_and_other_scoring() -> 
     assert fir[91:99] == "        " and fir[101:] == "   4 b"  # a game without its result yet
     _round_trip(_state(events))
     restored = _state(read_trf(text))
-    assert restored.players["p6"].entry_round == 2 and restored.players["p5"].withdrawn_from == 2
+    assert restored.players[PlayerId("p6")].entry_round == 2 and restored.players[PlayerId("p5")].withdrawn_from == 2
     assert restored.settings.scoring.win == 3 and restored.rounds[1].games[0].result is Result.FIRST_HALF_SECOND_LOSES
 
 
