@@ -14,7 +14,8 @@ or ``implicit``: whether the pruned edges were held in arrays or walked by
 the compiled scan;
 ``fallback``: the compiled solver on every pruned edge), and asserts that the
 two cost vectors are equal. ``--fold N`` also times folding a whole
-``--rounds``-round log of ``N`` players (:func:`pairings.fold.fold`).
+``--rounds``-round log of ``N`` players (:func:`pairings.fold.fold`). ``--rating-list N`` times one
+streamed read of a generated N-line FIDE rating list (default two million lines) for a 500-player event.
 """
 
 from __future__ import annotations
@@ -94,6 +95,41 @@ def bench_fold(n: int, rounds: int, seed: int) -> str:
     return f"fold: {n:,} players, {rounds} rounds, {len(log):,} events: {fold_s:.2f} s"
 
 
+def bench_rating_list(lines: int, players: int, seed: int) -> str:
+    """Time one streamed pass over a generated FIDE-layout list of ``lines`` lines (a temp file) for an
+    event of ``players`` players: half with a FIDE ID somewhere in the list, a tenth looked for by name."""
+    import random
+    import tempfile
+    from pathlib import Path
+
+    from pairings import events as ev
+    from pairings.ratinglist import FIDE_COLUMNS, FIDE_HEADINGS, plan_update, read_list_file
+
+    rng = random.Random(seed)
+    widths = [b - a for a, b in zip(FIDE_COLUMNS, FIDE_COLUMNS[1:])] + [4]
+    chosen = set(rng.sample(range(lines), players))
+    log: list[ev.Event] = [ev.EventCreated(name="List bench", rounds=9, seed=seed)]
+    with tempfile.TemporaryDirectory() as tmp:
+        path = Path(tmp) / "players_list.txt"
+        with open(path, "w", encoding="utf-8") as f:
+            f.write("".join(h.ljust(w) for h, w in zip(FIDE_HEADINGS, widths)).rstrip() + "\n")
+            for i in range(lines):
+                fide_id, name = str(10_000_000 + i), f"Surname{i}, Given{i % 977}"
+                values = (fide_id, name, "ENG", "M", "", "", "", "", str(1400 + i % 1400), "0", "20", "", "", "",
+                          "", "", "", str(1950 + i % 60), "")
+                f.write("".join(v.ljust(w) for v, w in zip(values, widths)).rstrip() + "\n")
+                if i in chosen:
+                    by_name = len(log) % 10 == 0
+                    log.append(ev.PlayerRegistered(id=f"p{len(log)}", name=f"Given{i % 977} Surname{i}",
+                                                   details=ev.PlayerDetailsModel(fide_id=None if by_name else fide_id)))
+        state = fold(enumerate(log, 1))
+        size = path.stat().st_size
+        found, seconds, peak = _peak_mb(lambda: read_list_file(path, state))
+    plan = plan_update(state, found, accept_names=True)
+    return (f"rating list: {lines:,} lines ({size / 2**20:.0f} MB), {players:,} players: {seconds:.2f} s, "
+            f"{len(plan.changes):,} matched, peak memory {peak:.0f} MB (streamed line by line)")
+
+
 def main(argv: list[str] | None = None) -> None:
     parser = argparse.ArgumentParser(prog="python -m pairings.bench", description=__doc__.splitlines()[0])
     parser.add_argument("--sizes", default="64,256,512,1000,2000",
@@ -104,6 +140,8 @@ def main(argv: list[str] | None = None) -> None:
     parser.add_argument("--reference-limit", type=int, default=512,
                         help="largest field also solved by networkx on the full graph (default %(default)s)")
     parser.add_argument("--fold", type=int, default=0, help="also time folding a whole log of this many players")
+    parser.add_argument("--rating-list", type=int, default=2_000_000, metavar="LINES",
+                        help="lines of the generated FIDE rating list read once (default %(default)s; 0 skips it)")
     args = parser.parse_args(argv)
     engine = "compiled blossom and pair scan (implicit pruned pairs)" if implicit.available() else \
         f"{'rustworkx (compiled)' if fast_available() else 'networkx'} on the listed pruned pairs"
@@ -114,6 +152,8 @@ def main(argv: list[str] | None = None) -> None:
         print(bench_one(n, args.rounds, args.played, args.seed, args.reference_limit), flush=True)
     if args.fold:
         print(bench_fold(args.fold, args.rounds, args.seed))
+    if args.rating_list:
+        print(bench_rating_list(args.rating_list, 500, args.seed), flush=True)
 
 
 if __name__ == "__main__":
