@@ -13,7 +13,7 @@ from pydantic import BaseModel, ConfigDict, Field, TypeAdapter
 
 from pairings.state import Acceleration, BetterPrize, ByeKind, PrizeTies, Result, System, Unplayed
 
-SCHEMA_VERSION = 3
+SCHEMA_VERSION = 4
 
 
 class _Event(BaseModel):
