@@ -18,7 +18,7 @@ from pairings.errors import (
     AmbiguousPlayerError, DuplicatePlayerError, HardRuleError, InputError, NoPairingError, NoShowError,
     RoundStateError, UnknownPlayerError,
 )
-from pairings.state import ByeKind, EventState, PlayerId, Result, Round, RoundState, Status, System
+from pairings.state import ByeKind, EventState, PlayerDetails, PlayerId, Result, Round, RoundState, Status, System
 from pairings.store import StoredEvent, undo_target
 from pairings.text import counted
 from pairings.standings.tiebreaks import default_tiebreaks
@@ -37,15 +37,13 @@ def new_event(
 
     ``seed`` fixes the round-1 side lot; when not given it is drawn now and recorded.
     """
+    from pairings.regulations import parse_scoring
+
     name = clean_text(name, "event name")
     if rounds < 1:
         raise InputError(f"the number of rounds must be 1 or more (got {rounds})")
-    try:
-        win, draw, loss = (float(x) for x in scoring.split(","))
-    except ValueError:
-        raise InputError(f"scoring {scoring!r} must be three numbers: win,draw,loss (e.g. 1,0.5,0)") from None
-    if not (win > loss >= 0 and loss <= draw <= win):
-        raise InputError(f"scoring {scoring!r}: a win must score more than a loss, and draws lie between")
+    points_of = parse_scoring(scoring)
+    win, draw, loss = points_of.win, points_of.draw, points_of.loss
     points = win if bye_points is None else bye_points
     if not 0 <= points <= win:
         raise InputError(f"bye points {points} must lie between 0 and a win ({win})")
@@ -118,7 +116,10 @@ def _player_fields(name: str, rating: int | None, club: str | None) -> tuple[str
 def add_player(
     state: EventState, name: str, rating: int | None = None, club: str | None = None, pid: str | None = None,
     allow_duplicates: bool = False,
+    details: PlayerDetails | None = None,
 ) -> list[ev.Event]:
+    from pairings.details import details_model
+
     name, club = _player_fields(name, rating, club)
     if pid is not None:
         pid = clean_text(pid, "id", limit=40)
@@ -126,7 +127,8 @@ def add_player(
             raise InputError(f"id {pid!r} is already taken by {state.players[PlayerId(pid)].name}")
     events: list[ev.Event] = [
         ev.PlayerRegistered(
-            id=pid or new_id(state), name=name, rating=rating, club=club, entry_round=entry_round(state)
+            id=pid or new_id(state), name=name, rating=rating, club=club, entry_round=entry_round(state),
+            details=details_model(details) if details is not None else None,
         )
     ]
     return refuse_duplicates(state, events, allow_duplicates)
@@ -170,10 +172,17 @@ def refuse_duplicates(state: EventState, events: list[ev.Event], allow: bool = F
     return events
 
 
-def edit_player(state: EventState, player: str, name: str, rating: int | None, club: str | None) -> list[ev.Event]:
+def edit_player(
+    state: EventState, player: str, name: str, rating: int | None, club: str | None,
+    details: PlayerDetails | None = None,
+) -> list[ev.Event]:
+    """Change a player's name, rating and club; ``details`` (when given) replaces the details whole."""
+    from pairings.details import details_model
+
     pid = find_player(state, player)
     name, club = _player_fields(name, rating, club)
-    return [ev.PlayerEdited(id=pid, name=name, rating=rating, club=club)]
+    stored = None if details is None else details_model(details) or ev.PlayerDetailsModel()
+    return [ev.PlayerEdited(id=pid, name=name, rating=rating, club=club, details=stored)]
 
 
 def _round_exists(state: EventState, number: int) -> None:
@@ -215,7 +224,32 @@ def announce_bye(state: EventState, player: str, kind: ByeKind, round_number: in
     number = _future_round(state, round_number)
     if state.requests.get(number, {}).get(pid) is kind:
         raise InputError(f"{state.players[pid].name} already has a {kind.value} bye in round {number}")
+    if kind is ByeKind.REQUESTED:
+        _check_bye_request(state, pid, number)
     return [ev.ByeRequested(player=pid, round=number, kind=kind)]  # type: ignore[arg-type]
+
+
+def requested_bye_rounds(state: EventState, pid: PlayerId) -> tuple[int, ...]:
+    """The rounds the player has a requested bye in: announced, or given in a round already made."""
+    asked = {r for r, who in state.requests.items() if who.get(pid) is ByeKind.REQUESTED}
+    given = {r.number for r in state.rounds for y in r.byes if y.player == pid and y.kind is ByeKind.REQUESTED}
+    return tuple(sorted(asked | given))
+
+
+def _check_bye_request(state: EventState, pid: PlayerId, number: int) -> None:
+    """The event's limits on requested byes: how many per player, and the last round one may be asked for."""
+    s, name = state.settings, state.players[pid].name
+    if s.requested_bye_last_round is not None and number > s.requested_bye_last_round:
+        raise InputError(
+            f"{name}: a bye can be requested up to round {s.requested_bye_last_round} only (asked for round {number})"
+        )
+    taken = [r for r in requested_bye_rounds(state, pid) if r != number]
+    if s.requested_bye_limit is not None and len(taken) >= s.requested_bye_limit:
+        rounds = ", ".join(map(str, taken)) or "none"
+        raise InputError(
+            f"{name} already has {len(taken)} requested bye{'s' if len(taken) != 1 else ''} (rounds: {rounds}); "
+            f"the event allows {s.requested_bye_limit} per player"
+        )
 
 
 def cancel_bye(state: EventState, player: str, round_number: int | None = None) -> list[ev.Event]:
@@ -399,12 +433,13 @@ def stale_draft(state: EventState) -> list[str]:
     if rnd is None or rnd.state is not RoundState.DRAFT:
         return []
     name = {pid: p.name for pid, p in state.players.items()}
-    available = set(state.available(rnd.number))
+    ranked = state.available(rnd.number)
+    available = set(ranked)
     asked = state.requests.get(rnd.number, {})
-    paired = [p for g in rnd.games for p in (g.first, g.second)]
-    paired += [y.player for y in rnd.byes if y.kind is ByeKind.PAIRING]
+    paired = dict.fromkeys([p for g in rnd.games for p in (g.first, g.second)]
+                           + [y.player for y in rnd.byes if y.kind is ByeKind.PAIRING])
     on_bye = {y.player: y.kind for y in rnd.byes if y.kind is not ByeKind.PAIRING}
-    out = [f"{name[p]} is not in it" for p in state.available(rnd.number) if p not in paired and p not in on_bye]
+    out = [f"{name[p]} is not in it" for p in ranked if p not in paired and p not in on_bye]
     for pid in paired:
         if pid in asked:
             what = "an absence" if asked[pid] is ByeKind.ABSENCE else "a requested bye"

@@ -47,7 +47,7 @@ def matches(rule: CategoryRule, player: Player) -> bool:
     """True when ``player`` meets every condition of ``rule``."""
     d = player.details
     if rule.age_under is not None or rule.age_from is not None:
-        age = age_on(d.birth, date.fromisoformat(rule.age_on or "2000-01-01"))
+        age = age_on(d.birth, date.fromisoformat(rule.age_on)) if rule.age_on else None
         if age is None:
             return False
         if rule.age_under is not None and age >= rule.age_under:
@@ -110,28 +110,33 @@ def describe_rule(rule: CategoryRule | None) -> str:
     return ", ".join(parts)
 
 
+def check_rule(rule: CategoryRule) -> None:
+    """Refuse a rule nobody could meet or that misses its date (PrizeError naming the problem)."""
+    if (rule.age_under is not None or rule.age_from is not None) != (rule.age_on is not None):
+        raise PrizeError("an age rule needs the date ages are counted on (--on YYYY-MM-DD), and --on an age")
+    if rule.age_on is not None:
+        try:
+            date.fromisoformat(rule.age_on)
+        except ValueError:
+            raise PrizeError(f"date {rule.age_on!r}: write it as YYYY-MM-DD") from None
+    if rule.age_under is not None and rule.age_from is not None and rule.age_from >= rule.age_under:
+        raise PrizeError(f"nobody is aged {rule.age_from} or more and under {rule.age_under}")
+    low, high = rule.rating_from, rule.rating_below
+    if low is not None and high is not None and low >= high:
+        raise PrizeError(f"rating band {low} to below {high} is empty")
+    if rule.unrated and (low is not None or high is not None):
+        raise PrizeError("a category cannot be both unrated and in a rating band")
+    if rule == CategoryRule():
+        raise PrizeError("the rule has no condition: give one, or --by-hand")
+
+
 def define_category(state: EventState, name: str, rule: CategoryRule | None) -> Sequence[ev.Event]:
     """Define (or redefine) a category; checks the name and that the rule can be met."""
     name = clean_text(name, "category name", limit=40)
     if name.casefold() == OVERALL:
         raise PrizeError(f"{OVERALL!r} names the whole field: choose another category name")
     if rule is not None:
-        if (rule.age_under is not None or rule.age_from is not None) != (rule.age_on is not None):
-            raise PrizeError("an age rule needs the date ages are counted on (--on YYYY-MM-DD), and --on an age")
-        if rule.age_on is not None:
-            try:
-                date.fromisoformat(rule.age_on)
-            except ValueError:
-                raise PrizeError(f"date {rule.age_on!r}: write it as YYYY-MM-DD") from None
-        if rule.age_under is not None and rule.age_from is not None and rule.age_from >= rule.age_under:
-            raise PrizeError(f"nobody is aged {rule.age_from} or more and under {rule.age_under}")
-        low, high = rule.rating_from, rule.rating_below
-        if low is not None and high is not None and low >= high:
-            raise PrizeError(f"rating band {low} to below {high} is empty")
-        if rule.unrated and (low is not None or high is not None):
-            raise PrizeError("a category cannot be both unrated and in a rating band")
-        if rule == CategoryRule():
-            raise PrizeError("the rule has no condition: give one, or --by-hand")
+        check_rule(rule)
     existing = next((c.name for c in state.categories.values() if c.name.casefold() == name.casefold()), name)
     model = ev.CategoryRuleModel(**{
         k: getattr(rule, k) for k in ev.CategoryRuleModel.model_fields}) if rule is not None else None

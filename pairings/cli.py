@@ -12,16 +12,17 @@ import argparse
 import json
 import os
 import sys
+from dataclasses import replace
 from pathlib import Path
 from typing import Any, Callable, NoReturn, Sequence
 
 from pairings import actions
-from pairings.errors import InputError, NoPairingError, PairingsError
-from pairings.events import Undone
 from pairings.cliawards import add_award_commands
-from pairings.clirated import add_rated_commands
+from pairings.clirated import add_info_options, add_rated_commands
+from pairings.errors import InputError, NoPairingError, PairingsError
+from pairings.events import BreachAccepted, NoShowKept, Undone
 from pairings.printouts import FORMATS, KINDS, PAPERS
-from pairings.state import ByeKind, EventState, RoundState
+from pairings.state import ByeKind, EventState, PlayerDetails, RoundState, Settings
 from pairings.store import EventStore
 from pairings.text import cells, counted, fit, one_line, plain
 
@@ -72,16 +73,41 @@ def _json(data: object) -> None:
 # -- commands ----------------------------------------------------------------------------
 
 
+def _setting_texts(a: argparse.Namespace, skip: tuple[str, ...] = ()) -> dict[str, str]:
+    """The settings given as options (see :func:`_setting_options`), as text."""
+    from pairings.regulations import SETTINGS
+
+    return {s.key: getattr(a, s.key) for s in SETTINGS if s.key not in skip and getattr(a, s.key) is not None}
+
+
 def cmd_new(a: argparse.Namespace) -> None:
+    from pairings.regulations import created_settings
+
     first = actions.new_event(
-        a.name, a.rounds, a.scoring, not a.no_sides, a.bye_points, a.seed, a.round_robin, a.double
+        a.name, a.rounds, a.scoring or "1,0.5,0", not a.no_sides, None, a.seed, a.round_robin, a.double
     )
+    first = created_settings(first, _setting_texts(a, skip=("name", "rounds", "scoring")))
     EventStore.create(Path(a.event), first).close()
     _say(f"created {a.event}: {first.name}, {first.rounds} rounds")
 
 
+def _details(a: argparse.Namespace, base: PlayerDetails = PlayerDetails()) -> PlayerDetails:
+    """``base`` with the detail options given (see :func:`_detail_options`)."""
+    from pairings.details import read_categories, read_details, read_ratings
+
+    texts = {k: getattr(a, k) for k in ("title", "federation", "fide_id", "national_id", "birth", "sex")
+             if getattr(a, k) is not None}
+    details = read_details(texts, base)
+    if a.rating_list:
+        details = replace(details, ratings=read_ratings(a.rating_list, details.ratings))
+    if a.categories is not None:
+        details = replace(details, categories=read_categories(a.categories))
+    return details
+
+
 def cmd_player_add(a: argparse.Namespace) -> None:
-    state = _run(a.event, lambda s: actions.add_player(s, a.name, a.rating, a.club, a.id, a.allow_duplicates))
+    details = _details(a)
+    state = _run(a.event, lambda s: actions.add_player(s, a.name, a.rating, a.club, a.id, a.allow_duplicates, details))
     p = list(state.players.values())[-1]
     late = f", plays from round {p.entry_round}" if p.entry_round > 1 else ""
     _say(f"registered {plain(p.name)} as {plain(p.id)}{late}")
@@ -96,6 +122,7 @@ def cmd_player_edit(a: argparse.Namespace) -> None:
         return actions.edit_player(
             s, p.id, a.name if a.name is not None else p.name,
             a.rating if a.rating is not None else p.rating, a.club if a.club is not None else p.club,
+            _details(a, p.details),
         )
 
     state = _run(a.event, act)
@@ -103,20 +130,25 @@ def cmd_player_edit(a: argparse.Namespace) -> None:
 
 
 def cmd_player_import(a: argparse.Namespace) -> None:
-    from pairings.roster import decode, import_roster
+    from pairings.roster import decode, read_roster
 
     try:
         data = Path(a.roster).read_bytes()
     except OSError as exc:
         raise InputError(f"{a.roster}: cannot read ({exc.strerror})") from None
     text = decode(data)
+    warnings: list[str] = []
     before: list[int] = []
 
     def act(s: EventState) -> Sequence[Any]:
         before.append(len(s.players))
-        return actions.refuse_duplicates(s, import_roster(s, text), a.allow_duplicates)
+        read = read_roster(s, text)
+        warnings[:] = read.warnings
+        return actions.refuse_duplicates(s, read.events, a.allow_duplicates)
 
     state = _run(a.event, act)
+    for line in warnings:
+        print(f"pairings: warning: {one_line(line)}", file=sys.stderr)
     _say(f"imported {counted(len(state.players) - before[0], 'player')}; {len(state.players)} registered")
 
 
@@ -172,7 +204,9 @@ def cmd_player_list(a: argparse.Namespace) -> None:
     for p in s.players.values():
         rating = str(p.rating) if p.rating is not None else "-"
         name, club = fit(plain(p.name), 40), fit(plain(p.club or ""), 20)
-        _say(f"{plain(p.id):>6}  {_pad(name, 40)} {rating:>5}  {_pad(club, 20)} {s.score(p.id):>4g}  {p.status.value}")
+        title, fed = p.details.title or "", p.details.federation or ""
+        _say(f"{plain(p.id):>6}  {title:<3} {_pad(name, 40)} {fed:<3} {rating:>5}  {_pad(club, 20)} "
+             f"{s.score(p.id):>4g}  {p.status.value}")
 
 
 def _draft_json(state: EventState, rnd_number: int) -> dict[str, Any]:
@@ -212,12 +246,15 @@ def print_round(state: EventState, number: int) -> None:
 
 
 def cmd_pair(a: argparse.Namespace) -> None:
-    state = _run(a.event, lambda s: actions.pair(s, replace=a.replace, keep=a.keep))
+    state, events = _run_kept(a.event, lambda s: actions.pair(s, replace=a.replace, keep=a.keep))
     number = state.rounds[-1].number
     if a.json:
         _json(_draft_json(state, number))
-    else:
-        print_round(state, number)
+        return
+    for e in events:
+        if isinstance(e, NoShowKept):
+            _say(f"{_who(state, e.player)} stays in after the double forfeit of round {e.round}")
+    print_round(state, number)
 
 
 def cmd_swap(a: argparse.Namespace) -> None:
@@ -250,8 +287,10 @@ def cmd_publish(a: argparse.Namespace) -> None:
         raise InputError("--accept needs --reason TEXT (it goes into the log)")
     if a.reason and not a.accept:
         raise InputError("--reason goes with --accept (publishing a draft that breaks a hard rule)")
-    state = _run(a.event, lambda s: actions.publish(s, a.reason or ""))
-    _say(f"round {state.rounds[-1].number} published")
+    state, events = _run_kept(a.event, lambda s: actions.publish(s, a.reason or ""))
+    accepted = [e for e in events if isinstance(e, BreachAccepted)]
+    what = f", breaking {plain('; '.join(accepted[0].breaches))} (accepted)" if accepted else ""
+    _say(f"round {state.rounds[-1].number} published{what}")
 
 
 def cmd_unpublish(a: argparse.Namespace) -> None:
@@ -299,7 +338,7 @@ def _report(a: argparse.Namespace, kind: str) -> None:
     with _open(a.event) as store:
         state = store.state
     if getattr(a, "tiebreaks", None):   # another list for this printout only; the event keeps its own
-        chosen = check_tiebreaks([t for t in a.tiebreaks.split(",") if t.strip()])
+        chosen = check_tiebreaks(a.tiebreaks)
         state = replace(state, settings=replace(state.settings, tiebreaks=chosen))
     out = render(state, kind, a.format, getattr(a, "round", None), category=getattr(a, "category", None),
                  paper=getattr(a, "paper", None), ratings=getattr(a, "ratings", False))
@@ -322,17 +361,75 @@ def cmd_publish_web(a: argparse.Namespace) -> None:
     _say(f"wrote {counted(len(written), 'file')} to {a.directory}")
 
 
+def cmd_settings(a: argparse.Namespace) -> None:
+    from pairings.clirated import info_change
+    from pairings.eventinfo import info_lines, set_event_info
+    from pairings.regulations import change_settings, changed_after_notes, settings_lines
+
+    texts, info = _setting_texts(a), info_change(a)
+    if texts or info:
+        before = _open_state(a.event)
+        state = _run(a.event, lambda s: (change_settings(s, texts) if texts else [])
+                     + (set_event_info(s, info) if info else []))
+        if a.json:
+            _json(_settings_json(state.settings))
+            return
+        for line in _changed_lines(before, state):
+            _say(line)
+        for (label, old), (_, new) in zip(info_lines(before.settings), info_lines(state.settings)):
+            if old != new:
+                _say(f"{label}: {plain(old)} -> {plain(new)}")
+        for note in changed_after_notes(state.settings)[len(before.settings.changed_after):]:
+            _say(note)
+        return
+    with _open(a.event) as store:
+        settings = store.state.settings
+    if a.json:
+        _json(_settings_json(settings))
+        return
+    for label, value in settings_lines(settings) + info_lines(settings):
+        _say(f"{label + ':':<32} {plain(value)}")
+
+
+def _settings_json(settings: Settings) -> dict[str, Any]:
+    """The interchange document's ``event`` object (its ``report`` part only when a detail is set)."""
+    from pairings.eventinfo import info_document
+    from pairings.regulations import settings_document
+
+    report = info_document(settings)
+    return settings_document(settings) | ({"report": report} if report else {})
+
+
+def _open_state(path: str) -> EventState:
+    with _open(path) as store:
+        return store.state
+
+
+def _changed_lines(before: EventState, after: EventState) -> list[str]:
+    from pairings.regulations import settings_lines
+
+    old = dict(settings_lines(before.settings))
+    return [f"{label}: {plain(old[label])} -> {plain(value)}"
+            for label, value in settings_lines(after.settings) if old[label] != value]
+
+
 def cmd_export(a: argparse.Namespace) -> None:
-    from pairings.interchange import export_event
+    from pairings.interchange import export_event, export_log
 
     with _open(a.event) as store:
         state = store.state
+        log = store.log if a.log else None
     if a.format == "trf":
+        if a.log:
+            raise InputError("export: --log goes with the JSON document, not the report file")
         from pairings.trf import write_trf
 
         text = write_trf(state)
     else:
-        text = json.dumps(export_event(state), indent=2, ensure_ascii=False) + "\n"
+        doc = export_event(state)
+        if log is not None:
+            doc["log"] = export_log(log)
+        text = json.dumps(doc, indent=2, ensure_ascii=False) + "\n"
     if a.output:
         from pairings.reports.files import write_file
 
@@ -343,7 +440,7 @@ def cmd_export(a: argparse.Namespace) -> None:
 
 
 def cmd_restore(a: argparse.Namespace) -> None:
-    from pairings.interchange import restore_events
+    from pairings.interchange import restore
 
     if _is_trf(a.file):
         from pairings.trf import read_trf
@@ -357,8 +454,10 @@ def cmd_restore(a: argparse.Namespace) -> None:
         raise InputError(f"{a.file}: cannot read ({exc.strerror})") from None
     except (UnicodeDecodeError, json.JSONDecodeError) as exc:
         raise InputError(f"{a.file}: not JSON ({exc})") from None
-    events = restore_events(doc)
-    EventStore.create_from(Path(a.event), events).close()
+    restored = restore(doc)
+    EventStore.create_from(Path(a.event), restored.events).close()
+    for line in restored.lost:
+        print(f"pairings: not restored: {one_line(line)}", file=sys.stderr)
     _say(f"restored {a.event}")
 
 
@@ -450,9 +549,8 @@ def build_parser() -> argparse.ArgumentParser:
     sp = add("new", cmd_new, "create a new event file")
     sp.add_argument("--name", required=True)
     sp.add_argument("--rounds", required=True, type=int)
-    sp.add_argument("--scoring", default="1,0.5,0", help="points for win,draw,loss (default 1,0.5,0)")
+    _setting_options(sp, skip=("name", "rounds"))
     sp.add_argument("--no-sides", action="store_true", help="the game has no first/second side")
-    sp.add_argument("--bye-points", type=float, default=None, help="points for a pairing bye (default: a win)")
     sp.add_argument("--seed", type=int, default=None, help="seed of the round-1 side lot (default: drawn now)")
     sp.add_argument("--round-robin", action="store_true", help="all-play-all by the Berger tables (3-24 players)")
     sp.add_argument("--double", action="store_true", help="double round robin, sides reversed in the second cycle")
@@ -472,11 +570,13 @@ def build_parser() -> argparse.ArgumentParser:
     sp.add_argument("--club")
     sp.add_argument("--id")
     sp.add_argument("--allow-duplicates", action="store_true", help="register even if the name is already there")
-    sp = padd("edit", cmd_player_edit, "change a player's name, rating or club")
+    _detail_options(sp)
+    sp = padd("edit", cmd_player_edit, "change a player's name, rating, club or details (an empty value clears)")
     sp.add_argument("player", metavar="PLAYER")
     sp.add_argument("--name")
     sp.add_argument("--rating", type=int)
     sp.add_argument("--club")
+    _detail_options(sp)
     sp = padd("import", cmd_player_import, "register every player of a CSV roster (header row)")
     sp.add_argument("roster", metavar="ROSTER.csv", type=_path)
     sp.add_argument("--allow-duplicates", action="store_true", help="import even rows that look registered")
@@ -545,7 +645,12 @@ def build_parser() -> argparse.ArgumentParser:
     add_rated_commands(sub, _Parser)
     sp = add("publish-web", cmd_publish_web, "write static web pages (pairings, standings) to a folder")
     sp.add_argument("directory", metavar="DIR", type=_path)
+    sp = add("settings", cmd_settings, "show the event's settings, or change them (one logged change)")
+    sp.add_argument("--json", action="store_true", help="print the settings as JSON")
+    _setting_options(sp)
+    add_info_options(sp)
     sp = add("export", cmd_export, "print the event as one JSON document, or as a FIDE report file (TRF16)")
+    sp.add_argument("--log", action="store_true", help="add the whole history (every logged event)")
     sp.add_argument("--format", choices=("json", "trf"), default="json")
     sp.add_argument("-o", "--output", metavar="FILE", type=_path)
     sp = add("restore", cmd_restore, "rebuild an event file from an exported JSON document or a FIDE report "
@@ -568,6 +673,27 @@ def _sheet_options(sp: argparse.ArgumentParser, category: bool = False) -> None:
     sp.add_argument("--paper", choices=PAPERS, help="PDF and HTML page size (default: from the locale; US/CA letter)")
     if category:
         sp.add_argument("--category", metavar="NAME", help="the standings of one prize category")
+
+
+def _setting_options(sp: argparse.ArgumentParser, skip: tuple[str, ...] = ()) -> None:
+    """The settings as options, for ``new`` and ``settings`` alike."""
+    from pairings.regulations import SETTINGS
+
+    for s in SETTINGS:
+        if s.key not in skip:
+            sp.add_argument(s.option, dest=s.key, metavar="|".join(s.choices) or s.metavar, help=s.help)
+
+
+def _detail_options(sp: argparse.ArgumentParser) -> None:
+    sp.add_argument("--title", help="GM, IM, FM, CM, WGM, WIM, WFM or WCM")
+    sp.add_argument("--federation", help="three-letter code, e.g. ENG")
+    sp.add_argument("--fide-id", dest="fide_id")
+    sp.add_argument("--national-id", dest="national_id")
+    sp.add_argument("--birth", help="year (1987) or date (1987-04-23)")
+    sp.add_argument("--sex", help="m or f")
+    sp.add_argument("--rating-list", dest="rating_list", action="append", metavar="LIST=N",
+                    help="a rating on a named list, e.g. fide=2010 (repeat for more lists; LIST= removes)")
+    sp.add_argument("--categories", help="category labels, comma-separated (empty clears)")
 
 
 _CODE_MARK = "result:"

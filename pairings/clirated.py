@@ -1,4 +1,5 @@
-"""The command line's rated-event commands: ``pairings event-info`` and ``pairings ratings update``.
+"""The command line's rated-event parts: ``pairings ratings update`` and the report-file options of
+``pairings settings``.
 
 Thin like :mod:`pairings.cli`: parse, call the pure functions of
 :mod:`pairings.eventinfo` and :mod:`pairings.ratinglist`, print. The report file
@@ -10,31 +11,46 @@ from __future__ import annotations
 
 import argparse
 from pathlib import Path
-from typing import Any, Callable
+from typing import TYPE_CHECKING, Any, Callable
 
 from pairings.errors import InputError
 from pairings.store import EventStore
 from pairings.text import plain
+
+if TYPE_CHECKING:
+    from pairings.eventinfo import InfoChange
 
 
 def _say(text: str) -> None:
     print(text)
 
 
-def cmd_event_info(a: argparse.Namespace) -> None:
-    from pairings.eventinfo import InfoChange, info_lines, set_event_info
+def info_change(a: argparse.Namespace) -> "InfoChange | None":
+    """The report-file details given as ``settings`` options (:func:`add_info_options`), or None."""
+    from pairings.eventinfo import InfoChange
 
     change = InfoChange(
-        city=a.city, federation=a.federation, start_date=a.start, end_date=a.end, chief_arbiter=a.chief_arbiter,
+        city=a.city, federation=a.event_federation, start_date=a.start, end_date=a.end,
+        chief_arbiter=a.chief_arbiter,
         deputy_arbiters=tuple(a.deputy) if a.deputy is not None else (() if a.no_deputies else None),
         time_control=a.time_control,
         round_dates=tuple(a.round_dates.split(",")) if a.round_dates is not None else None,
     )
-    with EventStore.open(Path(a.event)) as store:
-        if change != InfoChange():
-            store.apply(lambda s: set_event_info(s, change))
-        for line in info_lines(store.state.settings):
-            _say(plain(line))
+    return None if change == InfoChange() else change
+
+
+def add_info_options(sp: argparse.ArgumentParser) -> None:
+    """The report-file details as options of ``pairings settings`` (an empty text clears one)."""
+    sp.add_argument("--city")
+    sp.add_argument("--federation", dest="event_federation", metavar="FED",
+                    help="three-letter code of the federation the event is held in")
+    sp.add_argument("--start", metavar="YYYY-MM-DD", help="the first day")
+    sp.add_argument("--end", metavar="YYYY-MM-DD", help="the last day")
+    sp.add_argument("--chief-arbiter", metavar="NAME")
+    sp.add_argument("--deputy", action="append", metavar="NAME", help="a deputy arbiter (repeat; replaces the list)")
+    sp.add_argument("--no-deputies", action="store_true", help="clear the deputy arbiters")
+    sp.add_argument("--time-control", metavar="TEXT", help="the rate of play, as the regulations state it")
+    sp.add_argument("--round-dates", metavar="D1,D2,...", help="YYYY-MM-DD per round, round 1 first")
 
 
 def cmd_ratings_update(a: argparse.Namespace) -> None:
@@ -52,25 +68,13 @@ def cmd_ratings_update(a: argparse.Namespace) -> None:
 
 
 def add_rated_commands(sub: Any, parser_class: type[argparse.ArgumentParser]) -> None:
-    """Add ``event-info`` and ``ratings update`` to the command line's subparsers."""
+    """Add ``ratings update`` to the command line's subparsers."""
 
     def add(where: Any, name: str, fn: Callable[[argparse.Namespace], None], help_: str) -> argparse.ArgumentParser:
         sp: argparse.ArgumentParser = where.add_parser(name, help=help_, description=help_)
         sp.add_argument("event", metavar="EVENT", help="the event file")
         sp.set_defaults(fn=fn)
         return sp
-
-    sp = add(sub, "event-info", cmd_event_info,
-             "show or set the report-file details: city, federation, dates, arbiters, rate of play, round dates")
-    sp.add_argument("--city")
-    sp.add_argument("--federation", help="three-letter code")
-    sp.add_argument("--start", metavar="YYYY-MM-DD")
-    sp.add_argument("--end", metavar="YYYY-MM-DD")
-    sp.add_argument("--chief-arbiter", metavar="NAME")
-    sp.add_argument("--deputy", action="append", metavar="NAME", help="a deputy arbiter (repeat; replaces the list)")
-    sp.add_argument("--no-deputies", action="store_true", help="clear the deputy arbiters")
-    sp.add_argument("--time-control", metavar="TEXT")
-    sp.add_argument("--round-dates", metavar="D1,D2,...", help="YYYY-MM-DD per round, round 1 first")
 
     ratings = sub.add_parser("ratings", help="take ratings from a published rating list")
     rsub = ratings.add_subparsers(dest="ratings_command", required=True, parser_class=parser_class)

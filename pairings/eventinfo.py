@@ -1,15 +1,18 @@
 """The event's report-file details: city, federation, dates, arbiters, rate of play, round dates.
 
 These are the header fields of the FIDE tournament report file (:mod:`pairings.trf`)
-that the rest of the desk does not need; they are ordinary event settings, changed
-by one logged ``SettingsChanged``. :func:`set_event_info` checks every value first,
-so a refused change writes nothing.
+that the rest of the desk does not need; they are ordinary event settings, shown and
+changed by ``pairings settings`` (one logged ``SettingsChanged``) and carried by the
+interchange document's ``event.report``. :func:`checked_info` checks every value
+first, so a refused change writes nothing. They never change a pairing or a score,
+so they may change at any time.
 """
 
 from __future__ import annotations
 
 from dataclasses import dataclass
 from datetime import date
+from typing import Any
 
 from pairings import events as ev
 from pairings.actions import clean_text
@@ -46,51 +49,71 @@ def _text(value: str | None, what: str) -> str | None:
     return None if value is None else clean_text(value, what, required=False, limit=200)
 
 
-def set_event_info(state: EventState, change: InfoChange) -> list[ev.Event]:
-    """The one ``SettingsChanged`` that applies ``change``, after checking every field.
+def checked_info(change: InfoChange, settings: Settings) -> dict[str, Any]:
+    """The fields ``change`` sets, each checked (None fields left out); InputError on a bad value.
 
     Federation: three letters (upper-cased). Dates: ``YYYY-MM-DD``; the end not
     before the start; at most one round date per round, in order (common practice,
     no source: rounds are played in order, several may share a day).
     """
-    federation = None
+    out: dict[str, Any] = {}
+    for key in ("city", "chief_arbiter", "time_control"):
+        value = getattr(change, key)
+        if value is not None:
+            out[key] = clean_text(value, key.replace("_", " "), required=False, limit=200)
     if change.federation is not None:
         federation = change.federation.strip().upper()
         if federation and not (len(federation) == 3 and federation.isascii() and federation.isalpha()):
             raise InputError(f"federation {change.federation!r} is not a three-letter code")
-    start = check_date(change.start_date, "start date") if change.start_date else change.start_date
-    end = check_date(change.end_date, "end date") if change.end_date else change.end_date
-    s = state.settings
-    first, last = (start if start is not None else s.start_date), (end if end is not None else s.end_date)
+        out["federation"] = federation
+    for key, what in (("start_date", "start date"), ("end_date", "end date")):
+        value = getattr(change, key)
+        if value is not None:
+            out[key] = check_date(value, what) if value.strip() else ""
+    first, last = out.get("start_date", settings.start_date), out.get("end_date", settings.end_date)
     if first and last and last < first:
         raise InputError(f"the end date {last} is before the start date {first}")
-    dates = None
     if change.round_dates is not None:
         dates = tuple(check_date(d, f"round {i} date") for i, d in enumerate(change.round_dates, 1) if d.strip())
-        if len(dates) > s.rounds:
-            raise InputError(f"{len(dates)} round dates for an event of {s.rounds} rounds")
+        if len(dates) > settings.rounds:
+            raise InputError(f"{len(dates)} round dates for an event of {settings.rounds} rounds")
         if list(dates) != sorted(dates):
             raise InputError("the round dates must be in order, round 1 first")
-    deputies = None
+        out["round_dates"] = dates
     if change.deputy_arbiters is not None:
-        deputies = tuple(d for d in (_text(x, "deputy arbiter") or "" for x in change.deputy_arbiters) if d)
-    event = ev.SettingsChanged(
-        city=_text(change.city, "city"), federation=federation, start_date=start, end_date=end,
-        chief_arbiter=_text(change.chief_arbiter, "chief arbiter"), deputy_arbiters=deputies,
-        time_control=_text(change.time_control, "time control"), round_dates=dates,
-    )
-    if not any(v is not None for k, v in event.model_dump(exclude={"type"}).items()):
+        out["deputy_arbiters"] = tuple(
+            d for d in (clean_text(x, "deputy arbiter", required=False, limit=200) for x in change.deputy_arbiters) if d)
+    return out
+
+
+def set_event_info(state: EventState, change: InfoChange) -> list[ev.Event]:
+    """The one ``SettingsChanged`` that applies ``change``, after checking every field (:func:`checked_info`)."""
+    fields = checked_info(change, state.settings)
+    if not fields:
         raise InputError("nothing to change: give at least one option")
-    return [event]
+    return [ev.SettingsChanged(**fields)]
 
 
-def info_lines(settings: Settings) -> list[str]:
-    """The report-file details as ``label: value`` lines ("-" where not given)."""
+KEYS = ("city", "federation", "start_date", "end_date", "chief_arbiter", "deputy_arbiters", "time_control",
+        "round_dates")
+
+
+def info_document(settings: Settings) -> dict[str, Any]:
+    """The fields that are set, for the interchange document's ``event.report`` (empty: none set)."""
+    out: dict[str, Any] = {}
+    for key in KEYS:
+        value = getattr(settings, key)
+        if value:
+            out[key] = list(value) if isinstance(value, tuple) else value
+    return out
+
+
+def info_lines(settings: Settings) -> list[tuple[str, str]]:
+    """(label, value) per report-file detail, as ``pairings settings`` prints them ("-" where not given)."""
     s = settings
     rows = [
-        ("city", s.city), ("federation", s.federation), ("start date", s.start_date), ("end date", s.end_date),
-        ("chief arbiter", s.chief_arbiter), ("deputy arbiters", "; ".join(s.deputy_arbiters)),
-        ("time control", s.time_control),
-        ("round dates", ", ".join(f"{i}: {d}" for i, d in enumerate(s.round_dates, 1))),
+        ("City", s.city), ("Federation", s.federation), ("Start date", s.start_date), ("End date", s.end_date),
+        ("Chief arbiter", s.chief_arbiter), ("Deputy arbiters", "; ".join(s.deputy_arbiters)),
+        ("Time control", s.time_control), ("Round dates", ",".join(s.round_dates)),
     ]
-    return [f"{label}: {value or '-'}" for label, value in rows]
+    return [(label, value or "-") for label, value in rows]

@@ -52,10 +52,16 @@ class EventCreated(_Event):
     deputy_arbiters: tuple[str, ...] = ()
     time_control: str = ""
     round_dates: tuple[str, ...] = ()
+    late_entry_points: float = 0.0
+    requested_bye_limit: int | None = Field(default=None, ge=0)
+    requested_bye_last_round: int | None = Field(default=None, ge=1)
+
+
+ClearableSetting = Literal["requested_bye_limit", "requested_bye_last_round"]
 
 
 class SettingsChanged(_Event):
-    """Changes some settings; only the fields given (not None) change."""
+    """Changes some settings; only the fields given (not None) change, and those in ``cleared`` become None."""
 
     type: Literal["settings-changed"] = "settings-changed"
     name: str | None = None
@@ -79,6 +85,13 @@ class SettingsChanged(_Event):
     deputy_arbiters: tuple[str, ...] | None = None
     time_control: str | None = None
     round_dates: tuple[str, ...] | None = None
+    double_round: bool | None = None
+    late_entry_points: float | None = None
+    requested_bye_limit: int | None = Field(default=None, ge=0)
+    requested_bye_last_round: int | None = Field(default=None, ge=1)
+    cleared: tuple[ClearableSetting, ...] = ()
+    after_round: int = 0
+    """The last round published when the change was made (0: before round 1); the sheets name it."""
 
 
 class PlayerDetailsModel(_Event):

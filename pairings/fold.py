@@ -37,6 +37,7 @@ from pairings.state import (
     Side,
     Settings,
     Status,
+    late_entry_points,
 )
 
 
@@ -69,6 +70,9 @@ def _(e: ev.EventCreated, b: _Builder) -> None:
         bye_points=e.bye_points,
         requested_bye_points=e.requested_bye_points,
         tiebreaks=e.tiebreaks if e.tiebreaks is not None else DEFAULT_TIEBREAKS,
+        late_entry_points=e.late_entry_points,
+        requested_bye_limit=e.requested_bye_limit,
+        requested_bye_last_round=e.requested_bye_last_round,
         unplayed=e.unplayed,
         default_rating=e.default_rating,
         max_meetings=e.max_meetings,
@@ -87,7 +91,10 @@ def _(e: ev.EventCreated, b: _Builder) -> None:
 @_apply.register
 def _(e: ev.SettingsChanged, b: _Builder) -> None:
     assert b.settings is not None
-    changes = {k: v for k, v in e.model_dump(exclude={"type"}).items() if v is not None}
+    changes = {k: v for k, v in e.model_dump(exclude={"type", "cleared", "after_round"}).items() if v is not None}
+    changes.update({k: None for k in e.cleared})
+    if e.after_round:
+        changes["changed_after"] = b.settings.changed_after + tuple((e.after_round, k) for k in changes)
     if "tiebreaks" in changes:
         changes["tiebreaks"] = tuple(changes["tiebreaks"])
     for key in ("deputy_arbiters", "round_dates"):
@@ -103,7 +110,7 @@ def _(e: ev.PlayerRegistered, b: _Builder) -> None:
     pid = PlayerId(e.id)
     b.players[pid] = Player(
         id=pid, name=e.name, rating=e.rating, club=e.club, status=Status.ACTIVE,
-        order=len(b.players), entry_round=e.entry_round, details=_details(e.details),
+        order=len(b.players), entry_round=e.entry_round, details=_details(e.details), first_round=e.entry_round,
     )
 
 
@@ -306,11 +313,18 @@ class _Played:
     round: Round
     entries: dict[PlayerId, RoundEntry]
     score_after: dict[PlayerId, float]
+    late: tuple[float, tuple[tuple[PlayerId, int], ...]] | None = None
+    """The late-entry points and late entrants this round was counted with (a change recounts it)."""
 
 
-def _round_entries(scoring: Scoring, rnd: Round, before: dict[PlayerId, float]) -> _Played:
+def _round_entries(
+    scoring: Scoring, rnd: Round, before: dict[PlayerId, float], late: dict[PlayerId, float]
+) -> _Played:
+    """``late``: each late entrant's points for this round if it is one they missed before entry."""
     entries: dict[PlayerId, RoundEntry] = {}
     score = dict(before)
+    for pid, credit in late.items():
+        score[pid] = score.get(pid, 0.0) + credit
     for g in rnd.games:
         for pid, opp, side in ((g.first, g.second, Side.FIRST), (g.second, g.first, Side.SECOND)):
             mine, theirs = before.get(pid, 0.0), before.get(opp, 0.0)
@@ -342,18 +356,25 @@ def _records(
     by the builder until they change).
     """
     counted = [r for r in rounds if r.state is not RoundState.DRAFT]
+    per_round = settings.late_entry_points
+    late_key = (per_round, tuple((pid, p.first_round) for pid, p in players.items() if p.first_round > 1))
     keep = 0
-    while keep < min(len(cache), len(counted)) and cache[keep].round is counted[keep]:
+    while keep < min(len(cache), len(counted)) and cache[keep].round is counted[keep] and cache[keep].late == late_key:
         keep += 1
     del cache[keep:]
     for rnd in counted[keep:]:
-        cache.append(_round_entries(settings.scoring, rnd, cache[-1].score_after if cache else {}))
+        late = {pid: pts for pid, p in players.items()
+                if (pts := late_entry_points(per_round, p.first_round, rnd.number))} if per_round else {}
+        played = _round_entries(settings.scoring, rnd, cache[-1].score_after if cache else {}, late)
+        cache.append(replace(played, late=late_key))
     final = cache[-1].score_after if cache else {}
     return {
         pid: PlayerRecord(
             player=pid,
             entries=tuple(p.entries[pid] for p in cache if pid in p.entries),
             score=final.get(pid, 0.0),
+            late_points=per_round,
+            first_round=players[pid].first_round,
         )
         for pid in players
     }

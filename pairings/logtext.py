@@ -27,8 +27,10 @@ def _(e: ev.EventCreated) -> str:
 
 @_line.register
 def _(e: ev.SettingsChanged) -> str:
-    changed = {k: v for k, v in e.model_dump(exclude={"type"}).items() if v is not None}
-    return "settings changed: " + ", ".join(f"{k}={v}" for k, v in changed.items())
+    from pairings.regulations import change_words
+
+    after = f" after round {e.after_round}" if e.after_round else ""
+    return f"settings changed{after}: " + "; ".join(change_words(e))
 
 
 @_line.register
@@ -36,14 +38,24 @@ def _(e: ev.PlayerRegistered) -> str:
     extra = [f"rating {e.rating}" if e.rating is not None else "unrated"]
     if e.club:
         extra.append(e.club)
+    extra += _detail_words(e.details)
     late = f", from round {e.entry_round}" if e.entry_round > 1 else ""
     return f"player {e.id} registered: {e.name} ({', '.join(extra)}){late}"
 
 
+def _detail_words(d: ev.PlayerDetailsModel | None) -> list[str]:
+    """The details a reader looks for first: title, federation, ratings by list."""
+    if d is None:
+        return []
+    return [x for x in (d.title, d.federation) if x] + [f"{k} {v}" for k, v in sorted(d.ratings.items())]
+
+
 @_line.register
 def _(e: ev.PlayerEdited) -> str:
+    details = "".join(f", {w}" for w in _detail_words(e.details))
     why = f" ({e.reason})" if e.reason else ""
-    return f"player {e.id} edited: {e.name}, rating {e.rating if e.rating is not None else '-'}, club {e.club or '-'}{why}"
+    return (f"player {e.id} edited: {e.name}, rating {e.rating if e.rating is not None else '-'}, "
+            f"club {e.club or '-'}{details}{why}")
 
 
 @_line.register

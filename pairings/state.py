@@ -193,6 +193,39 @@ class Settings:
     """The rate of play as the regulations state it (e.g. ``90 min + 30 s per move``)."""
     round_dates: tuple[str, ...] = ()
     """``YYYY-MM-DD`` per round, from round 1 (may be shorter than the number of rounds)."""
+    late_entry_points: float = 0.0
+    """Points a late entrant gets for each round missed before entry (see :func:`late_entry_points`)."""
+    requested_bye_limit: int | None = None
+    """Most requested byes one player may have (None: no limit)."""
+    requested_bye_last_round: int | None = None
+    """The last round a requested bye may be asked for (None: any round)."""
+    changed_after: tuple[tuple[int, str], ...] = ()
+    """(round, setting) for each setting changed once that round was published (the sheets say so)."""
+
+
+SYSTEM_NAMES: Mapping[str, tuple[System, bool]] = MappingProxyType({
+    "whole-round": (System.SWISS, False),
+    "dutch": (System.DUTCH, False),
+    "round-robin": (System.ROUND_ROBIN, False),
+    "double-round-robin": (System.ROUND_ROBIN, True),
+})
+"""The pairing systems as users name them (command line, desk, interchange): (system, double round)."""
+
+
+def system_name(settings: "Settings") -> str:
+    """The user's name of the event's system (the inverse of :data:`SYSTEM_NAMES`)."""
+    key = (settings.system, settings.double_round and settings.system is System.ROUND_ROBIN)
+    return next(name for name, value in SYSTEM_NAMES.items() if value == key)
+
+
+def late_entry_points(per_round: float, first_round: int, round_number: int) -> float:
+    """Points for round ``round_number`` to a player registered to start in ``first_round``.
+
+    A late entrant scores the event's ``late_entry_points`` for each round missed
+    before entry (a choice of the event's regulations; common practice, no
+    source); any other round scores by its game or bye.
+    """
+    return per_round if round_number < first_round else 0.0
 
 
 @dataclass(frozen=True, slots=True)
@@ -229,6 +262,8 @@ class Player:
     withdrawn_from: int | None = None
     """First round the player is no longer paired in, when withdrawn."""
     details: PlayerDetails = PlayerDetails()
+    first_round: int = 1
+    """The round the player was registered to start in (unlike ``entry_round``, kept on reinstatement)."""
 
 
 @dataclass(frozen=True, slots=True)
@@ -321,6 +356,9 @@ class PlayerRecord:
     entries: tuple[RoundEntry, ...]
     """One entry per round the player took part in (game or bye), in round order."""
     score: float
+    late_points: float = 0.0
+    """The event's points per round missed before entry (see :func:`late_entry_points`)."""
+    first_round: int = 1
 
     def entry(self, round_number: int) -> RoundEntry | None:
         for e in self.entries:
@@ -329,7 +367,10 @@ class PlayerRecord:
         return None
 
     def score_before(self, round_number: int) -> float:
-        return sum(e.points or 0.0 for e in self.entries if e.round < round_number)
+        played = sum(e.points or 0.0 for e in self.entries if e.round < round_number)
+        if not self.late_points:
+            return played
+        return played + sum(late_entry_points(self.late_points, self.first_round, r) for r in range(1, round_number))
 
     @property
     def played_sides(self) -> tuple[Side, ...]:

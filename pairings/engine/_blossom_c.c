@@ -1,35 +1,32 @@
-/* Maximum-weight perfect matching with its optimal dual: the compiled kernel of
- * pairings/engine/blossom.py (same algorithm, same integer dual, same warm starts).
+/* Maximum-weight perfect matching with its optimal dual: the compiled twin of
+ * pairings/engine/edmonds.py (Edmonds' blossom algorithm).
  *
- * The primal-dual method of Edmonds (1965) in the O(n^3) form surveyed by Galil (1986):
- * one alternating tree at a time grows from an exposed vertex, odd cycles are shrunk into
- * blossoms, and the dual of the tree moves by the largest step that keeps every reduced cost
- * non-negative. blossom.py's module notes explain the doubled integer duals and the locality
- * of a stage; this file follows its structure function by function.
+ * Same design, same names: struct Search holds the structures of edmonds.Search (each with the
+ * invariant it keeps, stated there and repeated here), and each function below is the method of
+ * the same name. edmonds.py's module notes give the formulation (the primal-dual method of
+ * Edmonds 1965, in the weighted form of Galil 1986 and Korte & Vygen, chapter 11), the doubled
+ * integer duals and the locality of a stage. On the same input both make the same choices: the
+ * same lists in the same order, the same strict comparisons, the same blossom ids.
  *
- * Differences from the Python version that do not change the result's optimality:
- * - the sets (labelled blossoms, vertices with a best edge) are arrays in insertion order,
- *   so among dual steps of equal size another one may be taken (a different optimum of
- *   equal weight may come out), but the same input always gives the same output;
- * - a blossom's vertices are a chain through next[] from first[b] to last[b] (the children's
- *   chains joined in cycle order) instead of a cached list per blossom: O(n) memory;
- * - the recursions of blossom.py (expanding nested blossoms of zero dual at the end of a
- *   stage, augmenting through nested blossoms) run on explicit heap stacks: blossoms nest up
- *   to n / 2 deep and the C stack is never at risk.
+ * What C does its own way, without changing a choice:
+ * - a blossom's members are a chain through member_next from first_member to last_member (the
+ *   children's chains joined in cycle order when it is made: the order of edmonds.py's list),
+ *   so memory stays O(n + m);
+ * - no recursion: rebase and dissolve work from explicit task arrays, as in edmonds.py;
+ * - arithmetic is __int128: every |w| < 2**118 and every dual stays below 2**124 in absolute
+ *   value (checked where a dual is set or moved), so no reduced cost can overflow; beyond that
+ *   the kernel raises Unsupported and blossom.py runs the Python search instead.
  *
- * Arithmetic: weights, duals and slacks are __int128. Every weight must satisfy |w| < 2**118
- * and every dual stays below 2**124 in absolute value (checked where a dual changes), so no
- * sum of the form d[u] + d[v] - 2 w can overflow; a dual beyond the bound raises
- * Unsupported and the Python wrapper runs the pure-Python code instead.
- *
- * Buffers in and out: int64 values in native byte order, int128 values as 16 bytes
- * little-endian two's complement (see solve()'s docstring).
+ * The search runs without the GIL. Buffers in and out: int64 values in native byte order,
+ * int128 values as 16 bytes little-endian two's complement (see solve()'s docstring).
  *
  * References
+ * J. Edmonds, "Paths, trees, and flowers", Canadian J. Math. 17 (1965).
  * J. Edmonds, "Maximum matching and a polyhedron with 0,1-vertices",
  * J. Res. Nat. Bur. Standards 69B (1965).
  * Z. Galil, "Efficient algorithms for finding maximum matching in graphs",
  * ACM Computing Surveys 18 (1986).
+ * B. Korte and J. Vygen, Combinatorial Optimization, chapter 11 (weighted matching).
  */
 #define PY_SSIZE_T_CLEAN
 #include <Python.h>
@@ -39,797 +36,683 @@
 
 typedef __int128 i128;
 typedef unsigned __int128 u128;
-typedef int32_t idx; /* vertex, blossom, endpoint or edge id */
+typedef int32_t idx; /* a vertex, node or edge id */
 
+#define NONE (-1)
 #define WEIGHT_LIMIT ((i128)1 << 118)
 #define DUAL_LIMIT ((i128)1 << 124)
 #define MAX_VERTICES ((Py_ssize_t)1 << 28)
 #define MAX_EDGES ((Py_ssize_t)1 << 29)
 
+typedef enum { FREE = 0, OUTER = 1, INNER = 2 } Label;                          /* edmonds.Label */
+typedef enum { UNBOUNDED = 0, GROW = 1, AUGMENT = 2, SHRINK = 3, EXPAND = 4 } DualStep; /* .DualStep */
 enum { OK = 0, FAIL_MEMORY = 1, FAIL_RANGE = 2, FAIL_INTERNAL = 3 };
 
-static PyObject *Unsupported; /* values out of range: the caller uses the Python version */
+static PyObject *Unsupported; /* values out of range: the caller runs the Python search */
+
+/* A cycle edge of a blossom: a in cycle[i], c in the next child (cyclically). */
+typedef struct {
+    idx a, c;
+} Link;
+
+/* A growable list of edge ids. */
+typedef struct {
+    idx *at;
+    idx len, cap;
+} EdgeList;
 
 typedef struct {
     idx n;
     Py_ssize_t m;
-    idx *end;      /* 2m: endpoint p of edge p / 2 */
-    i128 *w;       /* m */
-    idx *nbstart;  /* n + 1: CSR of the endpoints facing away from each vertex, in edge order */
-    idx *nb;       /* 2m */
-    i128 *d;       /* 2n: doubled vertex duals, then z of the blossoms */
-    idx *mate;     /* n: endpoint of the mate, or -1 */
-    idx *top;      /* n: top-level blossom of each vertex */
-    idx *parent;   /* 2n */
-    idx **childs;  /* 2n: sub-blossoms in cycle order, base's first */
-    idx **endps;   /* 2n: endpoints of the cycle edges */
-    idx *nchild;   /* 2n */
-    idx *first, *last, *next; /* vertices of a blossom: a chain from first[b] to last[b] */
-    idx *base;     /* 2n, -1 for an unused blossom id */
-    idx *unused;
+    idx *eu, *ev;             /* m: the ends of each edge */
+    i128 *w;                  /* m */
+    idx *adj_start;           /* n + 1: adjacency of v is adj_edge/adj_other[adj_start[v]..], edge order */
+    idx *adj_edge, *adj_other;
+    i128 *y2;                 /* n: 2 y_v; the dual is feasible on every edge */
+    i128 *z;                  /* 2n: z_B >= 0 for a blossom id, > 0 top-level between stages */
+    idx *mate;                /* n: partner or NONE; matched edges are tight */
+    idx *parent;              /* 2n: the blossom whose cycle holds the node, NONE for top-level/unused */
+    idx *top;                 /* n: the top-level node holding each vertex */
+    idx **cycle;              /* 2n: children around the odd cycle, the one holding the base first */
+    Link **links;             /* 2n: links[b][i] matched exactly when i is odd */
+    idx *cycle_len;           /* 2n */
+    idx *base;                /* 2n: the one vertex of the node not matched inside it */
+    idx *first_member, *last_member; /* 2n: the node's vertices, a chain through member_next */
+    idx *member_next;         /* n */
+    idx *unused;              /* blossom ids not in use, the next one last */
     idx nunused;
-    int8_t *label; /* 2n: 0 none, 1 outer, 2 inner, 5 outer being scanned */
-    idx *labelend; /* 2n */
-    idx *best;     /* 2n: least-slack edge to an outer blossom, or -1 */
-    idx **bestlist; /* 2n: per outer blossom, its least-slack edge to each other outer blossom */
-    idx *nbest;    /* 2n: length of bestlist, -1 for none */
-    char *allowed; /* m */
-    idx *queue;
-    Py_ssize_t nqueue, capqueue;
-    idx *touched;  /* ids whose label or best edge changed this stage */
-    char *is_touched;
-    idx ntouched;
-    idx *freeb;    /* vertices with a best edge (candidates of a step of kind 2) */
-    char *is_freeb;
-    idx nfreeb;
-    idx *forest;   /* labelled top-level ids */
-    idx *fpos;     /* position in forest, or -1 */
-    idx nforest;
-    idx *opened;   /* edges allowed this stage */
-    Py_ssize_t nopened;
-    idx *exposed;  /* a stack: the next exposed vertex is the last */
-    idx nexposed;
+    int8_t *label;            /* 2n: meaningful for top-level nodes; FREE outside the stage */
+    idx *via_in, *via_out;    /* 2n: tree edge of a labelled non-root node to its parent node */
+    EdgeList *outer_edges;    /* 2n: edges from an outer top-level node to other outer nodes */
+    idx *best_outer;          /* 2n: one of least reduced cost among them, or NONE */
+    idx *reach;               /* n: least-cost edge from an outer vertex to a non-outer vertex */
+    idx *reached;             /* the vertices with a reach edge */
+    idx nreached;
+    idx *tree_nodes;          /* every id labelled this stage, once (in_tree marks them) */
+    char *in_tree;
+    idx ntree_nodes;
+    idx *tree_vertices;       /* every vertex of a node labelled this stage, once */
+    char *vertex_in_tree;
+    idx ntree_vertices;
+    idx *queue;               /* queue[head..len): outer vertices not scanned yet (each once a stage) */
+    idx head, queue_len;
+    char *seen;               /* 2n: outer nodes visited by shrink's walk (cleared after) */
     /* scratch */
-    idx *spath, *sendp, *sforest;
-    idx *bt_edge;  /* 2n: per outer blossom, the best edge found in add_blossom, or -1 */
-    i128 *bt_slack;
-    idx *bt_keys;
-    idx *fstack_b, *fstack_i; /* expand at the end of a stage */
-    struct aframe *astack;    /* augment through nested blossoms */
+    idx *path_x, *path_y;     /* 2n each: shrink's two walks */
+    idx *pick, *pick_order;   /* 2n each: merge_outer_edges, one edge per other node */
+    idx *tasks;               /* 2 * 2n: rebase's (node, vertex) tasks, or dissolve's nodes */
+    idx *spare_nodes;         /* n: rotating a cycle */
+    Link *spare_links;        /* n */
     int fail;
-} Run;
-
-struct aframe {
-    idx b, v, i, j, step, trick, p;
-    int state;
-};
+} Search;
 
 static void *alloc(size_t count, size_t size) { return calloc(count ? count : 1, size); }
 
-static inline idx at(const idx *a, idx j, idx len) { return a[j < 0 ? j + len : j]; }
+static inline i128 slack(const Search *s, idx k) { return s->y2[s->eu[k]] + s->y2[s->ev[k]] - 2 * s->w[k]; }
 
-static inline i128 slack(const Run *r, idx k) {
-    return r->d[r->end[2 * k]] + r->d[r->end[2 * k + 1]] - 2 * r->w[k];
+static inline void check_dual(Search *s, i128 x) {
+    if (x >= DUAL_LIMIT || x <= -DUAL_LIMIT) s->fail = FAIL_RANGE;
 }
 
-static inline void check_dual(Run *r, i128 x) {
-    if (x >= DUAL_LIMIT || x <= -DUAL_LIMIT) r->fail = FAIL_RANGE;
+/* Members of node x: for (v = first_member[x]; v != NONE; v = next_member(s, x, v)). */
+static inline idx next_member(const Search *s, idx x, idx v) {
+    return v == s->last_member[x] ? NONE : s->member_next[v];
 }
 
-static inline idx leaf_next(const Run *r, idx b, idx x) { return x == r->last[b] ? -1 : r->next[x]; }
-
-static inline void touch(Run *r, idx x) {
-    if (!r->is_touched[x]) {
-        r->is_touched[x] = 1;
-        r->touched[r->ntouched++] = x;
+static int edges_push(EdgeList *list, idx k) {
+    if (list->len == list->cap) {
+        idx cap = list->cap ? 2 * list->cap : 8;
+        idx *at = realloc(list->at, (size_t)cap * sizeof(idx));
+        if (!at) return -1;
+        list->at = at;
+        list->cap = cap;
     }
+    list->at[list->len++] = k;
+    return 0;
 }
 
-static inline void forest_add(Run *r, idx b) {
-    if (r->fpos[b] < 0) {
-        r->fpos[b] = r->nforest;
-        r->forest[r->nforest++] = b;
+static void edges_clear(EdgeList *list) {
+    free(list->at);
+    list->at = NULL;
+    list->len = list->cap = 0;
+}
+
+/* Each vertex turns outer at most once a stage, so the queue never holds more than n. */
+static inline void enqueue(Search *s, idx v) {
+    if (s->queue_len < s->n)
+        s->queue[s->queue_len++] = v;
+    else
+        s->fail = FAIL_INTERNAL;
+}
+
+static void label_node(Search *s, idx x, Label label, idx via_in, idx via_out) {
+    s->label[x] = (int8_t)label;
+    s->via_in[x] = via_in;
+    s->via_out[x] = via_out;
+    if (!s->in_tree[x]) {
+        s->in_tree[x] = 1;
+        s->tree_nodes[s->ntree_nodes++] = x;
     }
-}
-
-static inline void forest_remove(Run *r, idx b) {
-    idx at_ = r->fpos[b];
-    if (at_ >= 0) {
-        idx moved = r->forest[--r->nforest];
-        r->forest[at_] = moved;
-        r->fpos[moved] = at_;
-        r->fpos[b] = -1;
-    }
-}
-
-static inline void push_queue(Run *r, idx x) {
-    if (r->nqueue == r->capqueue) {
-        Py_ssize_t cap = 2 * r->capqueue + 16;
-        idx *grown = realloc(r->queue, (size_t)cap * sizeof(idx));
-        if (!grown) {
-            r->fail = FAIL_MEMORY;
-            return;
+    for (idx v = s->first_member[x]; v != NONE; v = next_member(s, x, v)) {
+        if (!s->vertex_in_tree[v]) {
+            s->vertex_in_tree[v] = 1;
+            s->tree_vertices[s->ntree_vertices++] = v;
         }
-        r->queue = grown;
-        r->capqueue = cap;
+        if (label == OUTER) enqueue(s, v);
     }
-    r->queue[r->nqueue++] = x;
 }
 
-static inline void allow(Run *r, idx k) {
-    r->allowed[k] = 1;
-    r->opened[r->nopened++] = k;
+static void note_outer(Search *s, idx x, idx k, i128 sl) {
+    if (edges_push(&s->outer_edges[x], k)) {
+        s->fail = FAIL_MEMORY;
+        return;
+    }
+    if (s->best_outer[x] == NONE || sl < slack(s, s->best_outer[x])) s->best_outer[x] = k;
 }
 
-static void assign(Run *r, idx w, int t, idx p) {
+static idx child_holding(const Search *s, idx b, idx v) {
+    idx x = v;
+    while (s->parent[x] != b) x = s->parent[x];
+    return x;
+}
+
+static idx index_in_cycle(const Search *s, idx b, idx c) {
+    idx j = 0;
+    while (s->cycle[b][j] != c) j++;
+    return j;
+}
+
+static void release(Search *s, idx b) {
+    free(s->cycle[b]);
+    free(s->links[b]);
+    s->cycle[b] = NULL;
+    s->links[b] = NULL;
+    s->cycle_len[b] = 0;
+    s->first_member[b] = s->last_member[b] = NONE;
+    s->base[b] = s->parent[b] = NONE;
+    s->label[b] = FREE;
+    s->z[b] = 0;
+    edges_clear(&s->outer_edges[b]);
+    s->best_outer[b] = NONE;
+    s->unused[s->nunused++] = b;
+}
+
+/* Make vertex v the base of node b; each task changes only its own node. */
+static void rebase(Search *s, idx b0, idx v0) {
+    idx *tasks = s->tasks, ntasks = 0;
+    tasks[ntasks++] = b0;
+    tasks[ntasks++] = v0;
+    while (ntasks) {
+        idx v = tasks[--ntasks], b = tasks[--ntasks];
+        if (b < s->n) continue;
+        idx *cycle = s->cycle[b], k = s->cycle_len[b];
+        Link *links = s->links[b];
+        idx j = index_in_cycle(s, b, child_holding(s, b, v));
+        tasks[ntasks++] = cycle[j];
+        tasks[ntasks++] = v;
+        for (idx i = (j % 2 == 0) ? 0 : j + 1; i < ((j % 2 == 0) ? j : k); i += 2) {
+            idx a = links[i].a, c = links[i].c;
+            tasks[ntasks++] = cycle[i];
+            tasks[ntasks++] = a;
+            tasks[ntasks++] = cycle[(i + 1) % k];
+            tasks[ntasks++] = c;
+            s->mate[a] = c;
+            s->mate[c] = a;
+        }
+        for (idx i = 0; i < k; i++) {
+            s->spare_nodes[i] = cycle[(i + j) % k];
+            s->spare_links[i] = links[(i + j) % k];
+        }
+        memcpy(cycle, s->spare_nodes, (size_t)k * sizeof(idx));
+        memcpy(links, s->spare_links, (size_t)k * sizeof(Link));
+        s->base[b] = v;
+    }
+}
+
+static void augment(Search *s, idx x, idx y) {
+    rebase(s, s->top[y], y);
     for (;;) {
-        idx b = r->top[w];
-        r->label[w] = r->label[b] = (int8_t)t;
-        r->labelend[w] = r->labelend[b] = p;
-        r->best[w] = r->best[b] = -1;
-        touch(r, w);
-        touch(r, b);
-        forest_add(r, b);
-        if (t == 1) {
-            for (idx x = r->first[b]; x != -1; x = leaf_next(r, b, x)) push_queue(r, x);
-            return;
-        }
-        idx mm = r->mate[r->base[b]];
-        w = r->end[mm];
-        t = 1;
-        p = mm ^ 1;
+        idx tx = s->top[x];
+        rebase(s, tx, x);
+        s->mate[x] = y;
+        s->mate[y] = x;
+        if (s->via_out[tx] == NONE) return;
+        idx inner = s->top[s->via_out[tx]];
+        x = s->via_out[inner];
+        y = s->via_in[inner];
+        rebase(s, inner, y);
     }
 }
 
-/* The base of the blossom closed by an edge between outer v and w, or -1: an augmenting path. */
-static idx scan(Run *r, idx v, idx w) {
-    idx npath = 0, base = -1;
-    while (v != -1 || w != -1) {
-        idx b = r->top[v];
-        if (r->label[b] & 4) {
-            base = r->base[b];
-            break;
-        }
-        r->spath[npath++] = b;
-        r->label[b] = 5;
-        if (r->labelend[b] == -1)
-            v = -1;
-        else
-            v = r->end[r->labelend[r->top[r->end[r->labelend[b]]]]];
-        if (w != -1) {
-            idx t = v;
-            v = w;
-            w = t;
-        }
+/* 1 when the stage augmented. */
+static int grow(Search *s, idx x, idx y) {
+    idx ty = s->top[y], b = s->base[ty];
+    if (s->mate[b] == NONE) {
+        augment(s, x, y);
+        return 1;
     }
-    for (idx q = 0; q < npath; q++) r->label[r->spath[q]] = 1;
-    return base;
+    label_node(s, ty, INNER, y, x);
+    idx m = s->mate[b];
+    label_node(s, s->top[m], OUTER, m, b);
+    return 0;
 }
 
-static void free_bestlist(Run *r, idx b) {
-    free(r->bestlist[b]);
-    r->bestlist[b] = NULL;
-    r->nbest[b] = -1;
+static void replace_in_tree(Search *s, idx b, idx ancestor) {
+    s->label[b] = OUTER;
+    s->via_in[b] = s->via_in[ancestor];
+    s->via_out[b] = s->via_out[ancestor];
+    if (!s->in_tree[b]) {
+        s->in_tree[b] = 1;
+        s->tree_nodes[s->ntree_nodes++] = b;
+    }
 }
 
-static void add_blossom(Run *r, idx base, idx k) {
-    idx v = r->end[2 * k], w = r->end[2 * k + 1];
-    idx bb = r->top[base], bv = r->top[v], bw = r->top[w];
-    idx b = r->unused[--r->nunused];
-    idx *path = r->spath, *endps = r->sendp, len = 0;
-    r->base[b] = base;
-    r->parent[b] = -1;
-    r->parent[bb] = b;
-    while (bv != bb) {
-        r->parent[bv] = b;
-        path[len] = bv;
-        endps[len++] = r->labelend[bv];
-        bv = r->top[r->end[r->labelend[bv]]];
+static void merge_outer_edges(Search *s, idx b) {
+    idx npick = 0;
+    for (idx q = 0; q < s->cycle_len[b]; q++) {
+        idx c = s->cycle[b][q];
+        if (s->label[c] != OUTER) continue;
+        EdgeList *list = &s->outer_edges[c];
+        for (idx e = 0; e < list->len; e++) {
+            idx k = list->at[e];
+            idx other = s->top[s->eu[k]] != b ? s->top[s->eu[k]] : s->top[s->ev[k]];
+            if (other == b) continue;
+            if (s->pick[other] == NONE) {
+                s->pick_order[npick++] = other;
+                s->pick[other] = k;
+            } else if (slack(s, k) < slack(s, s->pick[other])) {
+                s->pick[other] = k;
+            }
+        }
+        edges_clear(list);
+        s->best_outer[c] = NONE;
     }
-    path[len++] = bb;
-    for (idx i = 0, j = len - 1; i < j; i++, j--) {
-        idx t = path[i];
-        path[i] = path[j];
-        path[j] = t;
+    edges_clear(&s->outer_edges[b]);
+    s->best_outer[b] = NONE;
+    for (idx q = 0; q < npick; q++) {
+        idx k = s->pick[s->pick_order[q]];
+        s->pick[s->pick_order[q]] = NONE;
+        if (!s->fail && edges_push(&s->outer_edges[b], k)) s->fail = FAIL_MEMORY;
+        if (s->best_outer[b] == NONE || slack(s, k) < slack(s, s->best_outer[b])) s->best_outer[b] = k;
     }
-    for (idx i = 0, j = len - 2; i < j; i++, j--) {
-        idx t = endps[i];
-        endps[i] = endps[j];
-        endps[j] = t;
+}
+
+static void shrink(Search *s, idx x, idx y) {
+    idx *top = s->top, *via_in = s->via_in, *via_out = s->via_out;
+    idx tx = top[x], ty = top[y];
+    idx *paths[2] = {s->path_x, s->path_y}, lens[2] = {1, 1}, heads[2] = {tx, ty};
+    paths[0][0] = tx;
+    paths[1][0] = ty;
+    s->seen[tx] = s->seen[ty] = 1;
+    idx ancestor = NONE;
+    int side = 0;
+    while (ancestor == NONE) {
+        idx h = heads[side];
+        if (h != NONE && via_out[h] != NONE) {
+            idx inner = top[via_out[h]], outer = top[via_out[inner]];
+            paths[side][lens[side]++] = inner;
+            if (s->seen[outer]) {
+                ancestor = outer;
+            } else {
+                s->seen[outer] = 1;
+                paths[side][lens[side]++] = outer;
+            }
+            heads[side] = outer;
+        } else {
+            heads[side] = NONE;
+        }
+        side ^= 1;
     }
-    endps[len - 1] = 2 * k;
-    while (bw != bb) {
-        r->parent[bw] = b;
-        path[len] = bw;
-        endps[len++] = r->labelend[bw] ^ 1;
-        bw = r->top[r->end[r->labelend[bw]]];
+    for (int p = 0; p < 2; p++) {
+        idx cut = lens[p];
+        for (idx i = 0; i < lens[p]; i++) {
+            s->seen[paths[p][i]] = 0;
+            if (paths[p][i] == ancestor && cut == lens[p]) cut = i;
+        }
+        lens[p] = cut; /* the walk up to the ancestor, exclusive */
     }
-    idx *cs = malloc((size_t)len * sizeof(idx)), *es = malloc((size_t)len * sizeof(idx));
-    if (!cs || !es) {
-        free(cs);
-        free(es);
-        r->fail = FAIL_MEMORY;
+    idx *side_x = paths[0], *side_y = paths[1], nx = lens[0], ny = lens[1], k = 1 + nx + ny;
+    idx b = s->unused[--s->nunused];
+    idx *cycle = malloc((size_t)k * sizeof(idx));
+    Link *links = malloc((size_t)k * sizeof(Link));
+    if (!cycle || !links) {
+        free(cycle);
+        free(links);
+        s->unused[s->nunused++] = b;
+        s->fail = FAIL_MEMORY;
         return;
     }
-    memcpy(cs, path, (size_t)len * sizeof(idx));
-    memcpy(es, endps, (size_t)len * sizeof(idx));
-    r->childs[b] = cs;
-    r->endps[b] = es;
-    r->nchild[b] = len;
-    for (idx i = 0; i + 1 < len; i++) r->next[r->last[cs[i]]] = r->first[cs[i + 1]];
-    r->first[b] = r->first[cs[0]];
-    r->last[b] = r->last[cs[len - 1]];
-    r->label[b] = 1;
-    r->labelend[b] = r->labelend[bb];
-    r->d[b] = 0;
-    touch(r, b);
-    for (idx i = 0; i < len; i++) forest_remove(r, cs[i]);
-    forest_add(r, b);
-    for (idx x = r->first[b]; x != -1; x = leaf_next(r, b, x)) {
-        if (r->label[r->top[x]] == 2) push_queue(r, x);
-        r->top[x] = b;
+    idx q = 0;
+    cycle[q] = ancestor;
+    for (idx i = nx - 1; i >= 0; i--) {
+        idx c = side_x[i];
+        links[q] = (Link){via_out[c], via_in[c]};
+        cycle[++q] = c;
     }
-    /* per neighbouring outer blossom, the edge of least slack (first found among equals) */
-    idx nkeys = 0;
-    for (idx s = 0; s < len; s++) {
-        idx sub = cs[s];
-        idx count = r->nbest[sub];
-        idx *list = r->bestlist[sub];
-        idx x = -1;
-        Py_ssize_t q = 0, qend = 0;
-        if (count < 0) { /* every edge of every vertex of sub */
-            x = r->first[sub];
-            q = r->nbstart[x];
-            qend = r->nbstart[x + 1];
-        }
-        for (idx c = 0;;) {
-            idx kk;
-            if (count >= 0) {
-                if (c >= count) break;
-                kk = list[c++];
+    links[q] = (Link){x, y};
+    for (idx i = 0; i < ny; i++) {
+        idx c = side_y[i];
+        cycle[++q] = c;
+        links[q] = (Link){via_in[c], via_out[c]};
+    }
+    s->cycle[b] = cycle;
+    s->links[b] = links;
+    s->cycle_len[b] = k;
+    s->base[b] = s->base[ancestor];
+    s->z[b] = 0;
+    s->parent[b] = NONE;
+    s->first_member[b] = s->first_member[cycle[0]];
+    s->last_member[b] = s->last_member[cycle[k - 1]];
+    for (idx i = 0; i + 1 < k; i++) s->member_next[s->last_member[cycle[i]]] = s->first_member[cycle[i + 1]];
+    for (idx i = 0; i < k; i++) s->parent[cycle[i]] = b;
+    for (idx v = s->first_member[b]; v != NONE; v = next_member(s, b, v)) top[v] = b;
+    replace_in_tree(s, b, ancestor);
+    for (idx i = 0; i < k; i++) {
+        idx c = cycle[i];
+        if (s->label[c] == INNER)
+            for (idx v = s->first_member[c]; v != NONE; v = next_member(s, c, v)) enqueue(s, v);
+    }
+    merge_outer_edges(s, b);
+}
+
+static void expand(Search *s, idx b) {
+    idx *cycle = s->cycle[b], k = s->cycle_len[b];
+    Link *links = s->links[b];
+    idx entry = s->via_in[b], parent_end = s->via_out[b];
+    idx j = index_in_cycle(s, b, child_holding(s, b, entry));
+    for (idx i = 0; i < k; i++) {
+        idx c = cycle[i];
+        s->parent[c] = NONE;
+        s->label[c] = FREE;
+        for (idx v = s->first_member[c]; v != NONE; v = next_member(s, c, v)) s->top[v] = c;
+    }
+    label_node(s, cycle[j], INNER, entry, parent_end);
+    idx t = 0;
+    if (j % 2 == 0) {
+        for (idx i = j - 1; i >= 0; i--, t++)
+            label_node(s, cycle[i], t % 2 == 0 ? OUTER : INNER, links[i].a, links[i].c);
+    } else {
+        for (idx i = j; i < k; i++, t++)
+            label_node(s, cycle[(i + 1) % k], t % 2 == 0 ? OUTER : INNER, links[i].c, links[i].a);
+    }
+    release(s, b);
+}
+
+/* 1 when the stage augmented. */
+static int scan_queue(Search *s) {
+    idx *top = s->top;
+    int8_t *label = s->label;
+    while (s->head < s->queue_len) {
+        idx x = s->queue[s->head++];
+        for (idx e = s->adj_start[x]; e < s->adj_start[x + 1]; e++) {
+            idx k = s->adj_edge[e], y = s->adj_other[e];
+            idx tx = top[x], ty = top[y]; /* top[x] changes when a shrink swallows x's node */
+            if (tx == ty) continue;
+            i128 sl = s->y2[x] + s->y2[y] - 2 * s->w[k];
+            if (label[ty] == OUTER) {
+                if (sl == 0)
+                    shrink(s, x, y);
+                else
+                    note_outer(s, tx, k, sl);
             } else {
-                while (q == qend) {
-                    x = leaf_next(r, sub, x);
-                    if (x == -1) break;
-                    q = r->nbstart[x];
-                    qend = r->nbstart[x + 1];
+                if (s->reach[y] == NONE || sl < slack(s, s->reach[y])) {
+                    if (s->reach[y] == NONE) s->reached[s->nreached++] = y;
+                    s->reach[y] = k;
                 }
-                if (x == -1) break;
-                kk = r->nb[q++] >> 1;
+                if (sl == 0 && label[ty] == FREE && grow(s, x, y)) return 1;
             }
-            idx i = r->end[2 * kk], j = r->end[2 * kk + 1];
-            if (r->top[j] == b) {
-                idx t = i;
-                i = j;
-                j = t;
-            }
-            idx bj = r->top[j];
-            if (bj != b && r->label[bj] == 1) {
-                i128 sl = r->d[i] + r->d[j] - 2 * r->w[kk];
-                if (r->bt_edge[bj] == -1) {
-                    r->bt_edge[bj] = kk;
-                    r->bt_slack[bj] = sl;
-                    r->bt_keys[nkeys++] = bj;
-                } else if (sl < r->bt_slack[bj]) {
-                    r->bt_edge[bj] = kk;
-                    r->bt_slack[bj] = sl;
-                }
-            }
-        }
-        free_bestlist(r, sub);
-        r->best[sub] = -1;
-    }
-    idx *list = malloc((size_t)(nkeys ? nkeys : 1) * sizeof(idx));
-    if (!list) {
-        r->fail = FAIL_MEMORY;
-        for (idx q = 0; q < nkeys; q++) r->bt_edge[r->bt_keys[q]] = -1;
-        return;
-    }
-    idx bestk = -1;
-    i128 bests = 0;
-    for (idx q = 0; q < nkeys; q++) {
-        idx key = r->bt_keys[q];
-        list[q] = r->bt_edge[key];
-        if (bestk == -1 || r->bt_slack[key] < bests) {
-            bestk = r->bt_edge[key];
-            bests = r->bt_slack[key];
-        }
-        r->bt_edge[key] = -1;
-    }
-    r->bestlist[b] = list;
-    r->nbest[b] = nkeys;
-    r->best[b] = bestk;
-}
-
-/* The end of expand(): blossom id b is free again. */
-static void release(Run *r, idx b) {
-    r->label[b] = 0;
-    r->labelend[b] = -1;
-    r->best[b] = -1;
-    free(r->childs[b]);
-    free(r->endps[b]);
-    r->childs[b] = r->endps[b] = NULL;
-    r->nchild[b] = 0;
-    free_bestlist(r, b);
-    r->base[b] = -1;
-    r->unused[r->nunused++] = b;
-}
-
-/* Expand top-level b and, depth first, each sub-blossom whose dual is zero (end of a stage). */
-static void expand_end_of_stage(Run *r, idx b0) {
-    idx sp = 0;
-    r->fstack_b[sp] = b0;
-    r->fstack_i[sp++] = 0;
-    while (sp > 0) {
-        idx b = r->fstack_b[sp - 1], i = r->fstack_i[sp - 1];
-        if (i < r->nchild[b]) {
-            r->fstack_i[sp - 1] = i + 1;
-            idx s = r->childs[b][i];
-            r->parent[s] = -1;
-            if (s < r->n)
-                r->top[s] = s;
-            else if (r->d[s] == 0) {
-                r->fstack_b[sp] = s;
-                r->fstack_i[sp++] = 0;
-            } else
-                for (idx x = r->first[s]; x != -1; x = leaf_next(r, s, x)) r->top[x] = s;
-        } else {
-            forest_remove(r, b);
-            release(r, b);
-            sp--;
-        }
-    }
-}
-
-/* Expand the inner blossom b during a stage (its dual reached zero) and relabel its children. */
-static void expand_inner(Run *r, idx b) {
-    idx len = r->nchild[b];
-    idx *childs = r->childs[b], *endps = r->endps[b];
-    for (idx i = 0; i < len; i++) {
-        idx s = childs[i];
-        r->parent[s] = -1;
-        if (s < r->n)
-            r->top[s] = s;
-        else
-            for (idx x = r->first[s]; x != -1; x = leaf_next(r, s, x)) r->top[x] = s;
-    }
-    forest_remove(r, b);
-    if (r->label[b] == 2) {
-        idx entry = r->top[r->end[r->labelend[b] ^ 1]];
-        idx j = 0, step, trick;
-        while (childs[j] != entry) j++;
-        if (j & 1) {
-            j -= len;
-            step = 1;
-            trick = 0;
-        } else {
-            step = -1;
-            trick = 1;
-        }
-        idx p = r->labelend[b];
-        while (j != 0) {
-            r->label[r->end[p ^ 1]] = 0;
-            r->label[r->end[at(endps, j - trick, len) ^ trick ^ 1]] = 0;
-            assign(r, r->end[p ^ 1], 2, p);
-            allow(r, at(endps, j - trick, len) / 2);
-            j += step;
-            p = at(endps, j - trick, len) ^ trick;
-            allow(r, p / 2);
-            j += step;
-        }
-        idx bv = at(childs, j, len);
-        r->label[r->end[p ^ 1]] = r->label[bv] = 2;
-        r->labelend[r->end[p ^ 1]] = r->labelend[bv] = p;
-        r->best[bv] = -1;
-        touch(r, r->end[p ^ 1]);
-        touch(r, bv);
-        forest_add(r, bv);
-        j += step;
-        while (at(childs, j, len) != entry) {
-            bv = at(childs, j, len);
-            if (r->label[bv] == 1) {
-                j += step;
-                continue;
-            }
-            idx hit = -1;
-            for (idx x = r->first[bv]; x != -1; x = leaf_next(r, bv, x))
-                if (r->label[x] != 0) {
-                    hit = x;
-                    break;
-                }
-            if (hit != -1) {
-                r->label[hit] = 0;
-                r->label[r->end[r->mate[r->base[bv]]]] = 0;
-                assign(r, hit, 2, r->labelend[hit]);
-            }
-            j += step;
-        }
-    }
-    release(r, b);
-}
-
-static void rotate(idx *a, idx len, idx i) {
-    /* a[i:] + a[:i] by three reversals */
-    for (idx x = 0, y = i - 1; x < y; x++, y--) { idx t = a[x]; a[x] = a[y]; a[y] = t; }
-    for (idx x = i, y = len - 1; x < y; x++, y--) { idx t = a[x]; a[x] = a[y]; a[y] = t; }
-    for (idx x = 0, y = len - 1; x < y; x++, y--) { idx t = a[x]; a[x] = a[y]; a[y] = t; }
-}
-
-/* Swap matched and unmatched edges inside b on the path from vertex v to the base (v becomes
- * the base), through the nested sub-blossoms: blossom.py's recursion on an explicit stack. */
-static void augment_blossom(Run *r, idx b0, idx v0) {
-    struct aframe *st = r->astack;
-    idx sp = 0;
-    st[sp++] = (struct aframe){b0, v0, 0, 0, 0, 0, 0, 0};
-    while (sp > 0) {
-        struct aframe *f = &st[sp - 1];
-        idx b = f->b, len = r->nchild[b];
-        idx *childs = r->childs[b], *endps = r->endps[b];
-        switch (f->state) {
-        case 0: {
-            idx t = f->v;
-            while (r->parent[t] != b) t = r->parent[t];
-            idx i = 0;
-            while (childs[i] != t) i++;
-            f->i = f->j = i;
-            if (i & 1) {
-                f->j -= len;
-                f->step = 1;
-                f->trick = 0;
-            } else {
-                f->step = -1;
-                f->trick = 1;
-            }
-            f->state = 1;
-            if (t >= r->n) st[sp++] = (struct aframe){t, f->v, 0, 0, 0, 0, 0, 0};
-            break;
-        }
-        case 1: {
-            if (f->j == 0) {
-                rotate(childs, len, f->i);
-                rotate(endps, len, f->i);
-                r->base[b] = r->base[childs[0]];
-                sp--;
-                break;
-            }
-            f->j += f->step;
-            idx t = at(childs, f->j, len);
-            f->p = at(endps, f->j - f->trick, len) ^ f->trick;
-            f->state = 2;
-            if (t >= r->n) st[sp++] = (struct aframe){t, r->end[f->p], 0, 0, 0, 0, 0, 0};
-            break;
-        }
-        case 2: {
-            f->j += f->step;
-            idx t = at(childs, f->j, len);
-            f->state = 3;
-            if (t >= r->n) st[sp++] = (struct aframe){t, r->end[f->p ^ 1], 0, 0, 0, 0, 0, 0};
-            break;
-        }
-        default:
-            r->mate[r->end[f->p]] = f->p ^ 1;
-            r->mate[r->end[f->p ^ 1]] = f->p;
-            f->state = 1;
-            break;
-        }
-    }
-}
-
-static void augment(Run *r, idx k) {
-    for (int side = 0; side < 2; side++) {
-        idx s = side == 0 ? r->end[2 * k] : r->end[2 * k + 1];
-        idx p = side == 0 ? 2 * k + 1 : 2 * k;
-        for (;;) {
-            idx bs = r->top[s];
-            if (bs >= r->n) augment_blossom(r, bs, s);
-            r->mate[s] = p;
-            if (r->labelend[bs] == -1) break;
-            idx bt = r->top[r->end[r->labelend[bs]]];
-            idx j = r->end[r->labelend[bt] ^ 1];
-            s = r->end[r->labelend[bt]];
-            if (bt >= r->n) augment_blossom(r, bt, j);
-            r->mate[j] = r->labelend[bt];
-            p = r->labelend[bt] ^ 1;
-        }
-    }
-}
-
-static void reset_stage(Run *r) {
-    for (idx q = 0; q < r->ntouched; q++) {
-        idx x = r->touched[q];
-        r->label[x] = 0;
-        r->labelend[x] = -1;
-        r->best[x] = -1;
-        if (x >= r->n) free_bestlist(r, x);
-        r->is_touched[x] = 0;
-    }
-    r->ntouched = 0;
-    for (Py_ssize_t q = 0; q < r->nopened; q++) r->allowed[r->opened[q]] = 0;
-    r->nopened = 0;
-    for (idx q = 0; q < r->nfreeb; q++) r->is_freeb[r->freeb[q]] = 0;
-    r->nfreeb = 0;
-    for (idx q = 0; q < r->nforest; q++) r->fpos[r->forest[q]] = -1;
-    r->nforest = 0;
-    r->nqueue = 0;
-}
-
-/* Grow the tree along tight edges; 1 when the stage augmented. */
-static int scan_queue(Run *r) {
-    const idx *end = r->end, *top = r->top;
-    while (r->nqueue > 0 && !r->fail) {
-        idx v = r->queue[--r->nqueue];
-        i128 dv = r->d[v];
-        for (idx q = r->nbstart[v]; q < r->nbstart[v + 1]; q++) {
-            idx p = r->nb[q], k = p >> 1, w = end[p];
-            if (top[v] == top[w]) continue;
-            i128 kslack = 0;
-            if (!r->allowed[k]) {
-                kslack = dv + r->d[w] - 2 * r->w[k];
-                if (kslack <= 0) allow(r, k);
-            }
-            if (r->allowed[k]) {
-                idx tw = top[w];
-                int lw = r->label[tw];
-                if (lw == 0 && r->mate[r->base[tw]] == -1) { /* another exposed vertex */
-                    augment(r, k);
-                    return 1;
-                }
-                if (lw == 0)
-                    assign(r, w, 2, p ^ 1);
-                else if (lw == 1) {
-                    idx base = scan(r, v, w);
-                    if (base >= 0) {
-                        add_blossom(r, base, k);
-                        if (r->fail) return 0;
-                    } else {
-                        augment(r, k);
-                        return 1;
-                    }
-                } else if (r->label[w] == 0) {
-                    r->label[w] = 2;
-                    r->labelend[w] = p ^ 1;
-                    touch(r, w);
-                }
-            } else if (r->label[top[w]] == 1) {
-                idx b = top[v];
-                if (r->best[b] == -1 || kslack < slack(r, r->best[b])) {
-                    r->best[b] = k;
-                    touch(r, b);
-                }
-            } else if (r->label[w] == 0) {
-                if (r->best[w] == -1 || kslack < slack(r, r->best[w])) {
-                    r->best[w] = k;
-                    touch(r, w);
-                    if (!r->is_freeb[w]) {
-                        r->is_freeb[w] = 1;
-                        r->freeb[r->nfreeb++] = w;
-                    }
-                }
-            }
+            if (s->fail) return 0;
         }
     }
     return 0;
 }
 
-/* One dual step; 0 when none is possible (no perfect matching). */
-static int step(Run *r) {
-    int kind = 0;
+static inline void outer_end(const Search *s, idx k, idx *x, idx *y) {
+    idx u = s->eu[k], v = s->ev[k];
+    if (s->label[s->top[u]] == OUTER) {
+        *x = u;
+        *y = v;
+    } else {
+        *x = v;
+        *y = u;
+    }
+}
+
+static DualStep dual_step(Search *s, i128 *delta_out, idx *arg_out) {
+    DualStep kind = UNBOUNDED;
     i128 delta = 0;
-    idx arg = -1;
-    for (idx q = 0; q < r->nfreeb; q++) {
-        idx v = r->freeb[q], k = r->best[v];
-        if (k != -1 && r->label[r->top[v]] == 0) {
-            i128 s = slack(r, k);
-            if (kind == 0 || s < delta) {
-                kind = 2;
-                delta = s;
-                arg = k;
+    idx arg = NONE;
+    for (idx q = 0; q < s->nreached; q++) {
+        idx v = s->reached[q];
+        if (s->label[s->top[v]] == FREE) {
+            i128 sl = slack(s, s->reach[v]);
+            if (kind == UNBOUNDED || sl < delta) {
+                kind = GROW;
+                delta = sl;
+                arg = s->reach[v];
             }
         }
     }
-    for (idx q = 0; q < r->nforest; q++) {
-        idx b = r->forest[q];
-        if (r->label[b] == 1 && r->best[b] != -1) {
-            i128 s = slack(r, r->best[b]);
-            if (s & 1) { /* tree edges keep one parity per tree (blossom.py's notes) */
-                r->fail = FAIL_INTERNAL;
-                return 0;
+    for (idx q = 0; q < s->ntree_nodes; q++) {
+        idx x = s->tree_nodes[q];
+        if (s->parent[x] != NONE) continue;
+        if (s->label[x] == OUTER && s->best_outer[x] != NONE) {
+            i128 sl = slack(s, s->best_outer[x]);
+            if (sl % 2) {
+                s->fail = FAIL_INTERNAL;
+                return UNBOUNDED;
             }
-            if (kind == 0 || s / 2 < delta) {
-                kind = 3;
-                delta = s / 2;
-                arg = r->best[b];
+            if (kind == UNBOUNDED || sl / 2 < delta) {
+                kind = SHRINK;
+                delta = sl / 2;
+                arg = s->best_outer[x];
             }
-        } else if (r->label[b] == 2 && b >= r->n && (kind == 0 || r->d[b] < delta)) {
-            kind = 4;
-            delta = r->d[b];
-            arg = b;
+        } else if (s->label[x] == INNER && x >= s->n && (kind == UNBOUNDED || s->z[x] < delta)) {
+            kind = EXPAND;
+            delta = s->z[x];
+            arg = x;
         }
     }
-    if (kind == 0) return 0;
-    for (idx q = 0; q < r->nforest; q++) {
-        idx b = r->forest[q];
-        i128 change = r->label[b] == 1 ? -delta : delta;
-        for (idx x = r->first[b]; x != -1; x = leaf_next(r, b, x)) {
-            r->d[x] += change;
-            check_dual(r, r->d[x]);
-        }
-        if (b >= r->n) {
-            r->d[b] -= change;
-            check_dual(r, r->d[b]);
+    if (kind == GROW) {
+        idx x, y;
+        outer_end(s, arg, &x, &y);
+        if (s->mate[s->base[s->top[y]]] == NONE) kind = AUGMENT;
+    }
+    *delta_out = delta;
+    *arg_out = arg;
+    return kind;
+}
+
+static void move_dual(Search *s, i128 delta) {
+    if (delta == 0) return;
+    for (idx q = 0; q < s->ntree_vertices; q++) {
+        idx v = s->tree_vertices[q];
+        int8_t lab = s->label[s->top[v]];
+        if (lab == OUTER)
+            s->y2[v] -= delta;
+        else if (lab == INNER)
+            s->y2[v] += delta;
+        else
+            continue;
+        check_dual(s, s->y2[v]);
+    }
+    for (idx q = 0; q < s->ntree_nodes; q++) {
+        idx x = s->tree_nodes[q];
+        if (x >= s->n && s->parent[x] == NONE) {
+            if (s->label[x] == OUTER)
+                s->z[x] += delta;
+            else if (s->label[x] == INNER)
+                s->z[x] -= delta;
+            check_dual(s, s->z[x]);
         }
     }
-    if (r->fail) return 0;
-    if (kind == 4)
-        expand_inner(r, arg);
-    else {
-        allow(r, arg);
-        idx i = r->end[2 * arg], j = r->end[2 * arg + 1];
-        if (kind == 2 && r->label[r->top[i]] == 0) i = j;
-        push_queue(r, i);
+}
+
+/* 1 when the stage augmented. */
+static int take(Search *s, DualStep kind, idx arg) {
+    if (kind == EXPAND) {
+        expand(s, arg);
+        return 0;
+    }
+    idx x, y;
+    outer_end(s, arg, &x, &y);
+    if (kind == SHRINK) {
+        shrink(s, x, y);
+        return 0;
+    }
+    return grow(s, x, y);
+}
+
+static void dissolve(Search *s, idx b0) {
+    idx *work = s->tasks, nwork = 0;
+    work[nwork++] = b0;
+    while (nwork) {
+        idx b = work[--nwork];
+        for (idx i = 0; i < s->cycle_len[b]; i++) {
+            idx c = s->cycle[b][i];
+            s->parent[c] = NONE;
+            s->label[c] = FREE;
+            if (c >= s->n && s->z[c] == 0)
+                work[nwork++] = c;
+            else
+                for (idx v = s->first_member[c]; v != NONE; v = next_member(s, c, v)) s->top[v] = c;
+        }
+        release(s, b);
+    }
+}
+
+static void end_stage(Search *s) {
+    for (idx q = 0; q < s->ntree_nodes; q++) {
+        idx x = s->tree_nodes[q];
+        if (x >= s->n && s->parent[x] == NONE && s->cycle_len[x] && s->z[x] == 0) dissolve(s, x);
+    }
+    for (idx q = 0; q < s->ntree_nodes; q++) {
+        idx x = s->tree_nodes[q];
+        s->label[x] = FREE;
+        s->in_tree[x] = 0;
+        edges_clear(&s->outer_edges[x]);
+        s->best_outer[x] = NONE;
+    }
+    for (idx q = 0; q < s->nreached; q++) s->reach[s->reached[q]] = NONE;
+    for (idx q = 0; q < s->ntree_vertices; q++) s->vertex_in_tree[s->tree_vertices[q]] = 0;
+    s->ntree_nodes = s->nreached = s->ntree_vertices = s->queue_len = s->head = 0;
+}
+
+/* 1: perfect matching found; 0: none exists; -1: s->fail says why. */
+static int run(Search *s) {
+    for (idx root = 0; root < s->n; root++) {
+        if (s->mate[root] != NONE) continue;
+        label_node(s, s->top[root], OUTER, NONE, NONE);
+        while (!scan_queue(s)) {
+            if (s->fail) return -1;
+            i128 delta;
+            idx arg;
+            DualStep kind = dual_step(s, &delta, &arg);
+            if (s->fail) return -1;
+            if (kind == UNBOUNDED) return 0;
+            move_dual(s, delta);
+            if (s->fail) return -1;
+            if (take(s, kind, arg)) break;
+            if (s->fail) return -1;
+        }
+        if (s->fail) return -1;
+        end_stage(s);
     }
     return 1;
 }
 
-/* 1: perfect matching found, 0: none exists, -1: r->fail says why. */
-static int run(Run *r) {
-    for (;;) {
-        reset_stage(r);
-        while (r->nexposed && r->mate[r->exposed[r->nexposed - 1]] != -1) r->nexposed--;
-        if (!r->nexposed) return 1;
-        assign(r, r->exposed[r->nexposed - 1], 1, -1);
-        for (;;) {
-            int done = scan_queue(r);
-            if (r->fail) return -1;
-            if (done) break;
-            if (!step(r)) return r->fail ? -1 : 0;
-            if (r->fail) return -1;
-        }
-        idx count = r->nforest;
-        memcpy(r->sforest, r->forest, (size_t)count * sizeof(idx));
-        for (idx q = 0; q < count; q++) {
-            idx b = r->sforest[q];
-            if (b >= r->n && r->parent[b] == -1 && r->label[b] == 1 && r->d[b] == 0)
-                expand_end_of_stage(r, b);
-        }
-    }
-}
+/* ---- set-up, the start of blossom.python_perfect_matching, and the Python entry point ---- */
 
-/* Every array a run allocates: freed together, checked together (one list, so none is forgotten). */
-#define RUN_ARRAYS(r)                                                                                  \
-    {(r)->end, (r)->w, (r)->nbstart, (r)->nb, (r)->d, (r)->mate, (r)->top, (r)->parent, (r)->childs,   \
-     (r)->endps, (r)->nchild, (r)->first, (r)->last, (r)->next, (r)->base, (r)->unused, (r)->label,    \
-     (r)->labelend, (r)->best, (r)->bestlist, (r)->nbest, (r)->allowed, (r)->queue, (r)->touched,      \
-     (r)->is_touched, (r)->freeb, (r)->is_freeb, (r)->forest, (r)->fpos, (r)->opened, (r)->exposed,    \
-     (r)->spath, (r)->sendp, (r)->sforest, (r)->bt_edge, (r)->bt_slack, (r)->bt_keys, (r)->fstack_b,   \
-     (r)->fstack_i, (r)->astack}
+#define SEARCH_ARRAYS(s)                                                                              \
+    {(s)->eu, (s)->ev, (s)->w, (s)->adj_start, (s)->adj_edge, (s)->adj_other, (s)->y2, (s)->z,          \
+     (s)->mate, (s)->parent, (s)->top, (s)->cycle, (s)->links, (s)->cycle_len, (s)->base,              \
+     (s)->first_member, (s)->last_member, (s)->member_next, (s)->unused, (s)->label, (s)->via_in,      \
+     (s)->via_out, (s)->outer_edges, (s)->best_outer, (s)->reach, (s)->reached, (s)->tree_nodes,       \
+     (s)->in_tree, (s)->tree_vertices, (s)->vertex_in_tree, (s)->queue, (s)->seen, (s)->path_x,        \
+     (s)->path_y, (s)->pick, (s)->pick_order, (s)->tasks, (s)->spare_nodes, (s)->spare_links}
 
-static void run_free(Run *r) {
-    for (Py_ssize_t b = 0; b < 2 * (Py_ssize_t)r->n; b++) {
-        if (r->childs) free(r->childs[b]);
-        if (r->endps) free(r->endps[b]);
-        if (r->bestlist) free(r->bestlist[b]);
+static void search_free(Search *s) {
+    for (Py_ssize_t b = 0; b < 2 * (Py_ssize_t)s->n; b++) {
+        if (s->cycle) free(s->cycle[b]);
+        if (s->links) free(s->links[b]);
+        if (s->outer_edges) free(s->outer_edges[b].at);
     }
-    void *arrays[] = RUN_ARRAYS(r);
+    void *arrays[] = SEARCH_ARRAYS(s);
     for (size_t q = 0; q < sizeof arrays / sizeof arrays[0]; q++) free(arrays[q]);
 }
 
-static int run_alloc(Run *r, idx n, Py_ssize_t m) {
+static int search_alloc(Search *s, idx n, Py_ssize_t m) {
     size_t n2 = 2 * (size_t)n, mm = (size_t)m;
-    memset(r, 0, sizeof *r);
-    r->n = n;
-    r->m = m;
-    r->end = alloc(2 * mm, sizeof(idx));
-    r->w = alloc(mm, sizeof(i128));
-    r->nbstart = alloc((size_t)n + 1, sizeof(idx));
-    r->nb = alloc(2 * mm, sizeof(idx));
-    r->d = alloc(n2, sizeof(i128));
-    r->mate = alloc(n, sizeof(idx));
-    r->top = alloc(n, sizeof(idx));
-    r->parent = alloc(n2, sizeof(idx));
-    r->childs = alloc(n2, sizeof(idx *));
-    r->endps = alloc(n2, sizeof(idx *));
-    r->nchild = alloc(n2, sizeof(idx));
-    r->first = alloc(n2, sizeof(idx));
-    r->last = alloc(n2, sizeof(idx));
-    r->next = alloc(n, sizeof(idx));
-    r->base = alloc(n2, sizeof(idx));
-    r->unused = alloc(n, sizeof(idx));
-    r->label = alloc(n2, sizeof(int8_t));
-    r->labelend = alloc(n2, sizeof(idx));
-    r->best = alloc(n2, sizeof(idx));
-    r->bestlist = alloc(n2, sizeof(idx *));
-    r->nbest = alloc(n2, sizeof(idx));
-    r->allowed = alloc(mm, 1);
-    r->touched = alloc(n2, sizeof(idx));
-    r->is_touched = alloc(n2, 1);
-    r->freeb = alloc(n, sizeof(idx));
-    r->is_freeb = alloc(n, 1);
-    r->forest = alloc(n2, sizeof(idx));
-    r->fpos = alloc(n2, sizeof(idx));
-    r->opened = alloc(mm, sizeof(idx));
-    r->exposed = alloc(n, sizeof(idx));
-    r->spath = alloc(n2 + 2, sizeof(idx));
-    r->sendp = alloc(n2 + 2, sizeof(idx));
-    r->sforest = alloc(n2, sizeof(idx));
-    r->bt_edge = alloc(n2, sizeof(idx));
-    r->bt_slack = alloc(n2, sizeof(i128));
-    r->bt_keys = alloc(n2, sizeof(idx));
-    r->fstack_b = alloc((size_t)n + 2, sizeof(idx));
-    r->fstack_i = alloc((size_t)n + 2, sizeof(idx));
-    r->astack = alloc((size_t)n + 2, sizeof(struct aframe));
-    r->capqueue = n + 16;
-    r->queue = alloc((size_t)r->capqueue, sizeof(idx));
-    void *arrays[] = RUN_ARRAYS(r);
+    memset(s, 0, sizeof *s);
+    s->n = n;
+    s->m = m;
+    s->eu = alloc(mm, sizeof(idx));
+    s->ev = alloc(mm, sizeof(idx));
+    s->w = alloc(mm, sizeof(i128));
+    s->adj_start = alloc((size_t)n + 1, sizeof(idx));
+    s->adj_edge = alloc(2 * mm, sizeof(idx));
+    s->adj_other = alloc(2 * mm, sizeof(idx));
+    s->y2 = alloc(n, sizeof(i128));
+    s->z = alloc(n2, sizeof(i128));
+    s->mate = alloc(n, sizeof(idx));
+    s->parent = alloc(n2, sizeof(idx));
+    s->top = alloc(n, sizeof(idx));
+    s->cycle = alloc(n2, sizeof(idx *));
+    s->links = alloc(n2, sizeof(Link *));
+    s->cycle_len = alloc(n2, sizeof(idx));
+    s->base = alloc(n2, sizeof(idx));
+    s->first_member = alloc(n2, sizeof(idx));
+    s->last_member = alloc(n2, sizeof(idx));
+    s->member_next = alloc(n, sizeof(idx));
+    s->unused = alloc(n, sizeof(idx));
+    s->label = alloc(n2, sizeof(int8_t));
+    s->via_in = alloc(n2, sizeof(idx));
+    s->via_out = alloc(n2, sizeof(idx));
+    s->outer_edges = alloc(n2, sizeof(EdgeList));
+    s->best_outer = alloc(n2, sizeof(idx));
+    s->reach = alloc(n, sizeof(idx));
+    s->reached = alloc(n, sizeof(idx));
+    s->tree_nodes = alloc(n2, sizeof(idx));
+    s->in_tree = alloc(n2, 1);
+    s->tree_vertices = alloc(n, sizeof(idx));
+    s->vertex_in_tree = alloc(n, 1);
+    s->queue = alloc(n, sizeof(idx));
+    s->seen = alloc(n2, 1);
+    s->path_x = alloc(n2 + 1, sizeof(idx));
+    s->path_y = alloc(n2 + 1, sizeof(idx));
+    s->pick = alloc(n2, sizeof(idx));
+    s->pick_order = alloc(n2, sizeof(idx));
+    s->tasks = alloc(2 * n2 + 2, sizeof(idx));
+    s->spare_nodes = alloc(n, sizeof(idx));
+    s->spare_links = alloc(n, sizeof(Link));
+    void *arrays[] = SEARCH_ARRAYS(s);
     for (size_t q = 0; q < sizeof arrays / sizeof arrays[0]; q++)
         if (!arrays[q]) return -1;
-    for (idx x = 0; x < n; x++) {
-        r->top[x] = x;
-        r->first[x] = r->last[x] = x;
-        r->next[x] = -1;
-        r->mate[x] = -1;
-        r->unused[x] = 2 * n - 1 - x; /* popped from the end: n first */
+    for (idx v = 0; v < n; v++) {
+        s->top[v] = v;
+        s->mate[v] = NONE;
+        s->member_next[v] = NONE;
+        s->reach[v] = NONE;
+        s->unused[v] = 2 * n - 1 - v; /* popped from the end: n first */
     }
-    r->nunused = n;
+    s->nunused = n;
     for (size_t x = 0; x < n2; x++) {
-        r->parent[x] = -1;
-        r->base[x] = (idx)x < n ? (idx)x : -1;
-        r->labelend[x] = -1;
-        r->best[x] = -1;
-        r->nbest[x] = -1;
-        r->fpos[x] = -1;
-        r->bt_edge[x] = -1;
+        idx id = (idx)x;
+        s->parent[x] = s->via_in[x] = s->via_out[x] = s->best_outer[x] = s->pick[x] = NONE;
+        s->base[x] = s->first_member[x] = s->last_member[x] = id < n ? id : NONE;
     }
     return 0;
 }
 
-/* CSR of the endpoints facing away from each vertex, in edge order. */
-static void build_adjacency(Run *r) {
-    idx n = r->n;
-    for (Py_ssize_t k = 0; k < r->m; k++) {
-        r->nbstart[r->end[2 * k] + 1]++;
-        r->nbstart[r->end[2 * k + 1] + 1]++;
+/* Adjacency in edge order: the edges at v are adj_edge[adj_start[v]..adj_start[v + 1]). */
+static void build_adjacency(Search *s) {
+    idx n = s->n;
+    for (Py_ssize_t k = 0; k < s->m; k++) {
+        s->adj_start[s->eu[k] + 1]++;
+        s->adj_start[s->ev[k] + 1]++;
     }
-    for (idx x = 0; x < n; x++) r->nbstart[x + 1] += r->nbstart[x];
-    idx *fill = r->sforest; /* n2 >= n scratch */
-    for (idx x = 0; x < n; x++) fill[x] = r->nbstart[x];
-    for (Py_ssize_t k = 0; k < r->m; k++) {
-        idx u = r->end[2 * k], v = r->end[2 * k + 1];
-        r->nb[fill[u]++] = (idx)(2 * k + 1);
-        r->nb[fill[v]++] = (idx)(2 * k);
+    for (idx v = 0; v < n; v++) s->adj_start[v + 1] += s->adj_start[v];
+    idx *fill = s->tree_nodes; /* 2n >= n scratch, empty until the search starts */
+    for (idx v = 0; v < n; v++) fill[v] = s->adj_start[v];
+    for (Py_ssize_t k = 0; k < s->m; k++) {
+        idx u = s->eu[k], v = s->ev[k];
+        s->adj_edge[fill[u]] = (idx)k;
+        s->adj_other[fill[u]++] = v;
+        s->adj_edge[fill[v]] = (idx)k;
+        s->adj_other[fill[v]++] = u;
     }
 }
 
-/* blossom.py's _tighten: lower the feasible doubled dual so the warm edges become tight. */
-static void tighten(Run *r, const idx *warm, Py_ssize_t nwarm) {
+/* blossom._tighten: lower the feasible doubled dual so the warm edges become tight. */
+static void tighten(Search *s, const idx *warm, Py_ssize_t nwarm) {
     for (int pass = 0; pass < 3 && nwarm > 0; pass++)
         for (Py_ssize_t q = 0; q < nwarm; q++) {
-            idx k = warm[q], u = r->end[2 * k], v = r->end[2 * k + 1];
-            i128 w2 = 2 * r->w[k];
-            if (r->d[u] + r->d[v] == w2) continue;
+            idx k = warm[q], u = s->eu[k], v = s->ev[k];
+            i128 w2 = 2 * s->w[k];
+            if (s->y2[u] + s->y2[v] == w2) continue;
             i128 least[2] = {0, 0};
             int found[2] = {0, 0};
             idx ends[2] = {u, v};
-            for (int s = 0; s < 2; s++) {
-                idx x = ends[s], skip = ends[1 - s];
-                for (idx e = r->nbstart[x]; e < r->nbstart[x + 1]; e++) {
-                    idx p = r->nb[e], y = r->end[p];
+            for (int side = 0; side < 2; side++) {
+                idx x = ends[side], skip = ends[1 - side];
+                for (idx e = s->adj_start[x]; e < s->adj_start[x + 1]; e++) {
+                    idx y = s->adj_other[e];
                     if (y == skip) continue;
-                    i128 val = 2 * r->w[p >> 1] - r->d[y];
-                    if (!found[s] || val > least[s]) {
-                        least[s] = val;
-                        found[s] = 1;
+                    i128 val = 2 * s->w[s->adj_edge[e]] - s->y2[y];
+                    if (!found[side] || val > least[side]) {
+                        least[side] = val;
+                        found[side] = 1;
                     }
                 }
             }
-            i128 lu = found[0] ? least[0] : w2 - r->d[v];
+            i128 lu = found[0] ? least[0] : w2 - s->y2[v];
             i128 lv = found[1] ? least[1] : w2 - lu;
             if (lu + lv <= w2) {
-                r->d[u] = lu;
-                r->d[v] = w2 - lu;
-                check_dual(r, r->d[u]);
-                check_dual(r, r->d[v]);
-                if (r->fail) return;
+                s->y2[u] = lu;
+                s->y2[v] = w2 - lu;
+                check_dual(s, s->y2[u]);
+                check_dual(s, s->y2[v]);
+                if (s->fail) return;
             }
         }
 }
@@ -845,62 +728,55 @@ typedef struct {
     Py_ssize_t nblossoms;
 } Start;
 
-/* blossom.py's perfect_matching body after the parity check: 1, 0 or -1 as run(). */
-static int solve_run(Run *r, const Start *s) {
-    idx n = r->n;
-    char *seen = r->is_freeb; /* zero here; cleared again below */
-    for (Py_ssize_t k = 0; k < r->m; k++)
+/* blossom.python_perfect_matching after the parity check: the start, then run(). */
+static int solve_search(Search *s, const Start *start) {
+    idx n = s->n;
+    char *seen = s->seen; /* zero here; cleared again below */
+    for (Py_ssize_t k = 0; k < s->m; k++) {
+        idx ends[2] = {s->eu[k], s->ev[k]};
         for (int e = 0; e < 2; e++) {
-            idx x = r->end[2 * k + e];
-            if (!seen[x] || r->w[k] > r->d[x]) {
-                r->d[x] = r->w[k];
+            idx x = ends[e];
+            if (!seen[x] || s->w[k] > s->y2[x]) {
+                s->y2[x] = s->w[k];
                 seen[x] = 1;
             }
         }
+    }
     int all_seen = 1;
     for (idx x = 0; x < n; x++) {
         all_seen &= seen[x];
         seen[x] = 0;
     }
     if (!all_seen) return 0;
-    if (s->has_dual) { /* _carried */
-        for (idx x = 0; x < n; x++) r->d[x] = s->y2[x];
-        for (Py_ssize_t b = 0; b < s->nblossoms; b++)
-            for (Py_ssize_t q = s->offsets[b]; q < s->offsets[b + 1]; q++) {
-                idx x = s->members[q];
-                r->d[x] += s->z[b];
-                check_dual(r, r->d[x]);
-                if (r->fail) return -1;
+    if (start->has_dual) { /* blossom._carried */
+        for (idx x = 0; x < n; x++) s->y2[x] = start->y2[x];
+        for (Py_ssize_t b = 0; b < start->nblossoms; b++)
+            for (Py_ssize_t q = start->offsets[b]; q < start->offsets[b + 1]; q++) {
+                idx x = start->members[q];
+                s->y2[x] += start->z[b];
+                check_dual(s, s->y2[x]);
+                if (s->fail) return -1;
             }
-        for (Py_ssize_t k = 0; k < r->m; k++) {
-            idx u = r->end[2 * k], v = r->end[2 * k + 1];
-            i128 shortfall = 2 * r->w[k] - r->d[u] - r->d[v];
+        for (Py_ssize_t k = 0; k < s->m; k++) {
+            idx u = s->eu[k], v = s->ev[k];
+            i128 shortfall = 2 * s->w[k] - s->y2[u] - s->y2[v];
             if (shortfall > 0) {
-                r->d[u] += shortfall;
-                check_dual(r, r->d[u]);
-                if (r->fail) return -1;
+                s->y2[u] += shortfall;
+                check_dual(s, s->y2[u]);
+                if (s->fail) return -1;
             }
         }
     }
-    tighten(r, s->warm, s->nwarm);
-    if (r->fail) return -1;
-    for (Py_ssize_t q = 0; q < s->nwarm; q++) {
-        idx k = s->warm[q], u = r->end[2 * k], v = r->end[2 * k + 1];
-        if (r->mate[u] == -1 && r->mate[v] == -1 && r->d[u] + r->d[v] == 2 * r->w[k]) {
-            r->mate[u] = 2 * k + 1;
-            r->mate[v] = 2 * k;
+    tighten(s, start->warm, start->nwarm);
+    if (s->fail) return -1;
+    for (Py_ssize_t q = 0; q < start->nwarm; q++) {
+        idx k = start->warm[q], u = s->eu[k], v = s->ev[k];
+        if (s->mate[u] == NONE && s->mate[v] == NONE && s->y2[u] + s->y2[v] == 2 * s->w[k]) {
+            s->mate[u] = v;
+            s->mate[v] = u;
         }
     }
-    for (idx x = 0; x < n; x++) /* exposed vertices start even (blossom.py) */
-        if (r->mate[x] == -1 && (r->d[x] & 1)) {
-            r->d[x] += 1;
-            check_dual(r, r->d[x]);
-        }
-    if (r->fail) return -1;
-    r->nexposed = 0;
-    for (idx x = n - 1; x >= 0; x--)
-        if (r->mate[x] == -1) r->exposed[r->nexposed++] = x;
-    return run(r);
+    return run(s);
 }
 
 static i128 read_i128(const unsigned char *p) {
@@ -929,7 +805,7 @@ PyDoc_STRVAR(solve_doc,
 "solve(n, u, v, w, warm_edges, warm_pairs, has_dual, y2, members, offsets, z)\n"
 "\n"
 "Maximum-weight perfect matching of vertices 0..n-1 with an optimal dual (Edmonds 1965,\n"
-"Galil 1986), the body of blossom.perfect_matching. Buffers (any contiguous bytes-like):\n"
+"Galil 1986): blossom.python_perfect_matching in C. Buffers (any contiguous bytes-like):\n"
 "u, v, warm_edges, warm_pairs, members: int64 in native order; offsets: int64, one more than\n"
 "the carried blossoms; w (one per edge), y2 (n) and z (one per carried blossom): 16 bytes\n"
 "each, little-endian two's complement. warm_edges are edge indices, warm_pairs vertex pairs\n"
@@ -937,9 +813,9 @@ PyDoc_STRVAR(solve_doc,
 "offsets and z give a carried dual (blossom.Dual flattened).\n"
 "\n"
 "Returns None when there is no perfect matching, else (partner, y2, members, offsets, z):\n"
-"partner is int64 per vertex, the rest as above for the blossoms with z > 0.\n"
+"partner is int64 per vertex, the rest as above for the blossoms with z > 0, by id.\n"
 "Raises Unsupported when a self-loop, |w| >= 2**118 or a dual beyond 2**124 would be\n"
-"needed (the caller then runs the Python version) and ValueError, IndexError on bad input.");
+"needed (the caller then runs the Python search) and ValueError, IndexError on bad input.");
 
 static PyObject *solve(PyObject *self, PyObject *args) {
     Py_ssize_t n;
@@ -951,8 +827,8 @@ static PyObject *solve(PyObject *self, PyObject *args) {
         return NULL;
     Py_buffer *all[] = {&bu, &bv, &bw, &bwe, &bwp, &by, &bm, &bo, &bz};
     PyObject *out = NULL;
-    Run r;
-    int have_run = 0;
+    Search s;
+    int have_search = 0;
     idx *warm = NULL, *members = NULL;
     Py_ssize_t *offsets = NULL;
     i128 *y2 = NULL, *z = NULL;
@@ -972,12 +848,12 @@ static PyObject *solve(PyObject *self, PyObject *args) {
             check_buffer(&bz, nb, 16, "z"))
             goto done;
     }
-    if (run_alloc(&r, (idx)n, m)) {
-        run_free(&r);
+    if (search_alloc(&s, (idx)n, m)) {
+        search_free(&s);
         PyErr_NoMemory();
         goto done;
     }
-    have_run = 1;
+    have_search = 1;
     {
         const int64_t *pu = bu.buf, *pv = bv.buf;
         const unsigned char *pw = bw.buf;
@@ -990,16 +866,16 @@ static PyObject *solve(PyObject *self, PyObject *args) {
                 PyErr_SetString(Unsupported, "a self-loop");
                 goto done;
             }
-            r.end[2 * k] = (idx)pu[k];
-            r.end[2 * k + 1] = (idx)pv[k];
-            r.w[k] = read_i128(pw + 16 * k);
-            if (r.w[k] >= WEIGHT_LIMIT || r.w[k] <= -WEIGHT_LIMIT) {
+            s.eu[k] = (idx)pu[k];
+            s.ev[k] = (idx)pv[k];
+            s.w[k] = read_i128(pw + 16 * k);
+            if (s.w[k] >= WEIGHT_LIMIT || s.w[k] <= -WEIGHT_LIMIT) {
                 PyErr_SetString(Unsupported, "a weight of 2**118 or more");
                 goto done;
             }
         }
     }
-    build_adjacency(&r);
+    build_adjacency(&s);
     warm = alloc((size_t)(nwe + nwp), sizeof(idx));
     if (!warm) {
         PyErr_NoMemory();
@@ -1018,9 +894,9 @@ static PyObject *solve(PyObject *self, PyObject *args) {
         for (Py_ssize_t q = 0; q < nwp; q++) {
             int64_t a = pp[2 * q], b = pp[2 * q + 1];
             if (a < 0 || a >= n || b < 0 || b >= n) continue;
-            for (idx e = r.nbstart[a]; e < r.nbstart[a + 1]; e++)
-                if (r.end[r.nb[e]] == b) {
-                    warm[nwarm++] = r.nb[e] >> 1;
+            for (idx e = s.adj_start[a]; e < s.adj_start[a + 1]; e++)
+                if (s.adj_other[e] == b) {
+                    warm[nwarm++] = s.adj_edge[e];
                     break;
                 }
         }
@@ -1073,15 +949,15 @@ static PyObject *solve(PyObject *self, PyObject *args) {
     }
     int found;
     Py_BEGIN_ALLOW_THREADS
-    found = solve_run(&r, &start);
+    found = solve_search(&s, &start);
     Py_END_ALLOW_THREADS
     if (found < 0) {
-        if (r.fail == FAIL_MEMORY)
+        if (s.fail == FAIL_MEMORY)
             PyErr_NoMemory();
-        else if (r.fail == FAIL_RANGE)
+        else if (s.fail == FAIL_RANGE)
             PyErr_SetString(Unsupported, "a dual of 2**124 or more");
         else
-            PyErr_SetString(PyExc_RuntimeError, "blossom kernel: odd slack between outer blossoms");
+            PyErr_SetString(PyExc_RuntimeError, "blossom kernel: odd reduced cost between two outer nodes");
         goto done;
     }
     if (found == 0) {
@@ -1091,9 +967,9 @@ static PyObject *solve(PyObject *self, PyObject *args) {
     {
         Py_ssize_t count = 0, size = 0;
         for (idx b = (idx)n; b < 2 * (idx)n; b++)
-            if (r.base[b] >= 0 && r.d[b] > 0) {
+            if (s.cycle_len[b] && s.z[b] > 0) {
                 count++;
-                for (idx x = r.first[b]; x != -1; x = leaf_next(&r, b, x)) size++;
+                for (idx x = s.first_member[b]; x != NONE; x = next_member(&s, b, x)) size++;
             }
         PyObject *partner = PyBytes_FromStringAndSize(NULL, 8 * n);
         PyObject *ys = PyBytes_FromStringAndSize(NULL, 16 * n);
@@ -1113,21 +989,21 @@ static PyObject *solve(PyObject *self, PyObject *args) {
         int64_t *pm = (int64_t *)PyBytes_AS_STRING(mem), *po = (int64_t *)PyBytes_AS_STRING(off);
         unsigned char *pz = (unsigned char *)PyBytes_AS_STRING(zs);
         for (idx x = 0; x < (idx)n; x++) {
-            int64_t y = r.end[r.mate[x]];
+            int64_t y = s.mate[x];
             memcpy(pp + x, &y, sizeof y);
-            write_i128(py + 16 * x, r.d[x]);
+            write_i128(py + 16 * x, s.y2[x]);
         }
-        Py_ssize_t c = 0, s = 0;
+        Py_ssize_t c = 0, used = 0;
         int64_t zero = 0;
         memcpy(po, &zero, sizeof zero);
         for (idx b = (idx)n; b < 2 * (idx)n; b++)
-            if (r.base[b] >= 0 && r.d[b] > 0) {
-                for (idx x = r.first[b]; x != -1; x = leaf_next(&r, b, x)) {
+            if (s.cycle_len[b] && s.z[b] > 0) {
+                for (idx x = s.first_member[b]; x != NONE; x = next_member(&s, b, x)) {
                     int64_t y = x;
-                    memcpy(pm + s++, &y, sizeof y);
+                    memcpy(pm + used++, &y, sizeof y);
                 }
-                write_i128(pz + 16 * c, r.d[b]);
-                int64_t e = s;
+                write_i128(pz + 16 * c, s.z[b]);
+                int64_t e = used;
                 memcpy(po + ++c, &e, sizeof e);
             }
         out = PyTuple_Pack(5, partner, ys, mem, off, zs);
@@ -1138,7 +1014,7 @@ static PyObject *solve(PyObject *self, PyObject *args) {
         Py_DECREF(zs);
     }
 done:
-    if (have_run) run_free(&r);
+    if (have_search) search_free(&s);
     free(warm);
     free(members);
     free(offsets);
@@ -1154,8 +1030,8 @@ static PyMethodDef methods[] = {
 };
 
 PyDoc_STRVAR(module_doc,
-"Compiled kernel of pairings.engine.blossom: maximum-weight perfect matching with its optimal\n"
-"dual, Edmonds (1965) in the form surveyed by Galil (1986). Use blossom.perfect_matching.");
+"Compiled twin of pairings.engine.edmonds: maximum-weight perfect matching with its optimal\n"
+"dual, Edmonds' blossom algorithm (Edmonds 1965, Galil 1986). Use blossom.perfect_matching.");
 
 static struct PyModuleDef module = {PyModuleDef_HEAD_INIT, "_blossom_c", module_doc, -1, methods,
                                     NULL, NULL, NULL, NULL};

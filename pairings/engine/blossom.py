@@ -1,53 +1,43 @@
 """Maximum-weight perfect matching with its optimal dual (Edmonds' blossom algorithm).
 
-The primal-dual method of Edmonds (1965) in the O(n^3) form surveyed by
-Galil (1986): an alternating tree grows from one exposed vertex at a time
-(a stage ends when a tight edge reaches another exposed vertex: an augmenting
-path), odd cycles are shrunk into blossoms, and the dual of the tree moves by
-the largest step that keeps every reduced cost non-negative. Unlike the solvers in
+The entry points of the engine's own blossom kernel. The search itself is
+:class:`pairings.engine.edmonds.Search` (its module notes give the
+formulation: the primal-dual method of Edmonds 1965, in the weighted form of
+Galil 1986 and Korte & Vygen, chapter 11); this module prepares its start
+and carries values in and out of the compiled twin. Unlike the solvers in
 :mod:`pairings.engine.solver` it returns the dual, which
 :mod:`pairings.engine.certificate` checks against edges the search never saw.
 
 Notes
 -----
-**Perfect-matching form.** Vertex duals are free in sign, so the search may
-start from any feasible dual and any matching of tight edges (a warm start);
-there is no step that stops when an exposed vertex's dual reaches zero. When
-no dual step is possible the graph has no perfect matching (``None``).
-
-**Integers.** ``d[v]`` is ``2 * y_v``; a blossom's ``d[b]`` is ``z_B``; the
-doubled reduced cost of edge ``uv`` is ``d[u] + d[v] + 2 * sum(z_B over
-blossoms holding both) - 2 * w_uv``. Every vertex of the tree has the
-parity of its root (tree edges are tight, so their ends' ``d`` sum to an even
-number, and inside a blossom likewise), so an edge between two outer blossoms
-of the one tree has an even reduced cost and every step is an integer (Galil
-1986, section 3).
-
-**Locality.** Labels, best edges and dual steps touch only the current
-tree, so with a warm start that leaves few exposed vertices a stage costs
-what its tree costs, not ``O(n)``; the vertices of each blossom are cached
-(they never change while it exists).
+**Start.** Vertex duals are free in sign, so the search may start from any
+feasible dual and any matching of tight edges: each vertex starts at its
+heaviest edge (``y2[v] = max w``), or at a carried dual (:func:`_carried`),
+lowered around a warm matching (:func:`_tighten`) whose tight disjoint edges
+are matched before the search. When no dual step is possible the graph has
+no perfect matching (``None``).
 
 **Compiled kernel.** :func:`perfect_matching` and :func:`perfect_matching_arrays`
-run the C port of this module (``_blossom_c``: the same algorithm and warm
-starts on ``__int128`` integers) whenever it is built, :data:`USE_COMPILED` is
-true and every ``|w| < 2**118``; otherwise, or when a dual would leave the
-kernel's range (``2**124``), the pure-Python code below runs. Both return an
-optimum of equal weight with an optimal dual; among optima of equal weight
-they may pick different ones. Values cross into C as buffers: vertex ids as
-int64, weights and duals as 16-byte little-endian two's complement integers.
+run ``_blossom_c`` (the same design, the same names, the same choices, on
+``__int128`` integers, without the GIL) whenever it is built,
+:data:`USE_COMPILED` is true and every ``|w| < 2**118``; otherwise, or when a
+dual would leave the kernel's range (``2**124``), the pure-Python search
+runs. On the same input both return the same matching and the same dual.
+Values cross into C as buffers: vertex ids as int64, weights and duals as
+16-byte little-endian two's complement integers.
 
 References
 ----------
+J. Edmonds, "Paths, trees, and flowers", Canadian J. Math. 17 (1965).
 J. Edmonds, "Maximum matching and a polyhedron with 0,1-vertices",
 J. Res. Nat. Bur. Standards 69B (1965).
 Z. Galil, "Efficient algorithms for finding maximum matching in graphs",
 ACM Computing Surveys 18 (1986).
+B. Korte and J. Vygen, *Combinatorial Optimization*, chapter 11 (weighted matching).
 """
 
 from __future__ import annotations
 
-import sys
 from dataclasses import dataclass
 from importlib import import_module
 from itertools import chain
@@ -56,6 +46,8 @@ from typing import Any, Sequence
 
 import numpy as np
 from numpy.typing import NDArray
+
+from pairings.engine.edmonds import NONE, Search
 
 Edge = tuple[int, int, int]
 
@@ -84,341 +76,6 @@ class Dual:
     def objective2(self) -> int:
         """Twice the dual objective ``sum y_v + sum z_B * (|B| - 1) / 2``."""
         return sum(self.y2) + sum(z * (len(b) - 1) for b, z in self.blossoms)
-
-
-class _Blossom:
-    """One run. Vertices ``0..n-1``, blossoms ``n..2n-1``; endpoint ``p`` of edge ``p // 2``."""
-
-    def __init__(self, n: int, edges: Sequence[Edge], d: list[int], mate: list[int]) -> None:
-        self.n = n
-        self.end = [x for u, v, _ in edges for x in (u, v)]
-        self.w = [w for _, _, w in edges]
-        self.nb: list[list[int]] = [[] for _ in range(n)]
-        for k, (u, v, _) in enumerate(edges):
-            self.nb[u].append(2 * k + 1)
-            self.nb[v].append(2 * k)
-        self.d = d + [0] * n
-        self.mate = mate  # endpoint index of the mate, or -1
-        self.top = list(range(n))
-        self.parent = [-1] * (2 * n)
-        self.childs: list[list[int]] = [[] for _ in range(2 * n)]
-        self.endps: list[list[int]] = [[] for _ in range(2 * n)]
-        self.leaf_cache: list[list[int]] = [[] for _ in range(2 * n)]
-        self.base = list(range(n)) + [-1] * n
-        self.unused = list(range(2 * n - 1, n - 1, -1))
-        self.label = [0] * (2 * n)
-        self.labelend = [-1] * (2 * n)
-        self.best = [-1] * (2 * n)
-        self.bestlist: list[list[int] | None] = [None] * (2 * n)
-        self.allowed = [False] * len(edges)
-        self.queue: list[int] = []
-        self.touched: set[int] = set()  # ids whose label or best edge changed this stage
-        self.free_best: set[int] = set()  # vertices with a best edge (delta 2 candidates)
-        self.forest: set[int] = set()  # labelled top-level ids
-        self.opened: list[int] = []  # edges allowed this stage
-        self.exposed = [v for v in range(n - 1, -1, -1) if mate[v] == -1]
-
-    def slack(self, k: int) -> int:
-        return self.d[self.end[2 * k]] + self.d[self.end[2 * k + 1]] - 2 * self.w[k]
-
-    def leaves(self, b: int) -> list[int]:
-        """The vertices of ``b`` (cached per blossom: a blossom's vertices never change). Read only."""
-        return [b] if b < self.n else self.leaf_cache[b]
-
-    def allow(self, k: int) -> None:
-        self.allowed[k] = True
-        self.opened.append(k)
-
-    def assign(self, w: int, t: int, p: int) -> None:
-        b = self.top[w]
-        self.label[w] = self.label[b] = t
-        self.labelend[w] = self.labelend[b] = p
-        self.best[w] = self.best[b] = -1
-        self.touched.update((w, b))
-        self.forest.add(b)
-        if t == 1:
-            self.queue.extend(self.leaves(b))
-        else:
-            m = self.mate[self.base[b]]
-            self.assign(self.end[m], 1, m ^ 1)
-
-    def scan(self, v: int, w: int) -> int:
-        path, base = [], -1
-        while v != -1 or w != -1:
-            b = self.top[v]
-            if self.label[b] & 4:
-                base = self.base[b]
-                break
-            path.append(b)
-            self.label[b] = 5
-            if self.labelend[b] == -1:
-                v = -1
-            else:
-                v = self.end[self.labelend[self.top[self.end[self.labelend[b]]]]]
-            if w != -1:
-                v, w = w, v
-        for b in path:
-            self.label[b] = 1
-        return base
-
-    def add_blossom(self, base: int, k: int) -> None:
-        v, w = self.end[2 * k], self.end[2 * k + 1]
-        bb, bv, bw = self.top[base], self.top[v], self.top[w]
-        b = self.unused.pop()
-        self.base[b], self.parent[b], self.parent[bb] = base, -1, b
-        path, endps = [], []
-        while bv != bb:
-            self.parent[bv] = b
-            path.append(bv)
-            endps.append(self.labelend[bv])
-            bv = self.top[self.end[self.labelend[bv]]]
-        path.append(bb)
-        path.reverse()
-        endps.reverse()
-        endps.append(2 * k)
-        while bw != bb:
-            self.parent[bw] = b
-            path.append(bw)
-            endps.append(self.labelend[bw] ^ 1)
-            bw = self.top[self.end[self.labelend[bw]]]
-        self.childs[b], self.endps[b] = path, endps
-        self.leaf_cache[b] = [x for sub in path for x in self.leaves(sub)]
-        self.label[b], self.labelend[b], self.d[b] = 1, self.labelend[bb], 0
-        self.touched.add(b)
-        self.forest.difference_update(path)
-        self.forest.add(b)
-        for x in self.leaves(b):
-            if self.label[self.top[x]] == 2:
-                self.queue.append(x)
-            self.top[x] = b
-        best_to: dict[int, tuple[int, int]] = {}  # outer blossom -> (slack, edge) of the least slack
-        end, top, label, d, wt = self.end, self.top, self.label, self.d, self.w
-        for sub in path:
-            lists = self.bestlist[sub]
-            cands = lists if lists is not None else [p >> 1 for x in self.leaves(sub) for p in self.nb[x]]
-            for kk in cands:
-                i, j = end[2 * kk], end[2 * kk + 1]
-                if top[j] == b:
-                    i, j = j, i
-                bj = top[j]
-                if bj != b and label[bj] == 1:
-                    sl = d[i] + d[j] - 2 * wt[kk]
-                    old = best_to.get(bj)
-                    if old is None or sl < old[0]:
-                        best_to[bj] = (sl, kk)
-            self.bestlist[sub] = None
-            self.best[sub] = -1
-        self.bestlist[b] = [kk for _, kk in best_to.values()]
-        self.best[b] = min(best_to.values(), key=lambda t: t[0], default=(0, -1))[1]
-
-    def expand(self, b: int, end_of_stage: bool) -> None:
-        for s in self.childs[b]:
-            self.parent[s] = -1
-            if s < self.n:
-                self.top[s] = s
-            elif end_of_stage and self.d[s] == 0:
-                self.expand(s, end_of_stage)
-            else:
-                for x in self.leaves(s):
-                    self.top[x] = s
-        self.forest.discard(b)
-        if not end_of_stage and self.label[b] == 2:
-            childs, endps = self.childs[b], self.endps[b]
-            entry = self.top[self.end[self.labelend[b] ^ 1]]
-            j = childs.index(entry)
-            if j & 1:
-                j -= len(childs)
-                step, trick = 1, 0
-            else:
-                step, trick = -1, 1
-            p = self.labelend[b]
-            while j != 0:
-                self.label[self.end[p ^ 1]] = 0
-                self.label[self.end[endps[j - trick] ^ trick ^ 1]] = 0
-                self.assign(self.end[p ^ 1], 2, p)
-                self.allow(endps[j - trick] // 2)
-                j += step
-                p = endps[j - trick] ^ trick
-                self.allow(p // 2)
-                j += step
-            bv = childs[j]
-            self.label[self.end[p ^ 1]] = self.label[bv] = 2
-            self.labelend[self.end[p ^ 1]] = self.labelend[bv] = p
-            self.best[bv] = -1
-            self.touched.update((self.end[p ^ 1], bv))
-            self.forest.add(bv)
-            j += step
-            while childs[j] != entry:
-                bv = childs[j]
-                if self.label[bv] == 1:
-                    j += step
-                    continue
-                hit = next((x for x in self.leaves(bv) if self.label[x] != 0), None)
-                if hit is not None:
-                    self.label[hit] = 0
-                    self.label[self.end[self.mate[self.base[bv]]]] = 0
-                    self.assign(hit, 2, self.labelend[hit])
-                j += step
-        self.label[b], self.labelend[b], self.best[b] = 0, -1, -1
-        self.childs[b], self.endps[b], self.bestlist[b] = [], [], None
-        self.base[b] = -1
-        self.unused.append(b)
-
-    def augment_blossom(self, b: int, v: int) -> None:
-        t = v
-        while self.parent[t] != b:
-            t = self.parent[t]
-        if t >= self.n:
-            self.augment_blossom(t, v)
-        childs, endps = self.childs[b], self.endps[b]
-        i = j = childs.index(t)
-        if i & 1:
-            j -= len(childs)
-            step, trick = 1, 0
-        else:
-            step, trick = -1, 1
-        while j != 0:
-            j += step
-            t = childs[j]
-            p = endps[j - trick] ^ trick
-            if t >= self.n:
-                self.augment_blossom(t, self.end[p])
-            j += step
-            t = childs[j]
-            if t >= self.n:
-                self.augment_blossom(t, self.end[p ^ 1])
-            self.mate[self.end[p]] = p ^ 1
-            self.mate[self.end[p ^ 1]] = p
-        self.childs[b], self.endps[b] = childs[i:] + childs[:i], endps[i:] + endps[:i]
-        self.base[b] = self.base[self.childs[b][0]]
-
-    def augment(self, k: int) -> None:
-        for s, p in ((self.end[2 * k], 2 * k + 1), (self.end[2 * k + 1], 2 * k)):
-            while True:
-                bs = self.top[s]
-                if bs >= self.n:
-                    self.augment_blossom(bs, s)
-                self.mate[s] = p
-                if self.labelend[bs] == -1:
-                    break
-                bt = self.top[self.end[self.labelend[bs]]]
-                s, j = self.end[self.labelend[bt]], self.end[self.labelend[bt] ^ 1]
-                if bt >= self.n:
-                    self.augment_blossom(bt, j)
-                self.mate[j] = self.labelend[bt]
-                p = self.labelend[bt] ^ 1
-
-    def reset_stage(self) -> None:
-        for x in self.touched:
-            self.label[x], self.labelend[x], self.best[x] = 0, -1, -1
-            if x >= self.n:
-                self.bestlist[x] = None
-        for k in self.opened:
-            self.allowed[k] = False
-        self.touched, self.free_best, self.forest, self.opened = set(), set(), set(), []
-        self.queue = []
-
-    def scan_queue(self) -> bool:
-        """Grow the forest along tight edges; True when a stage augmented."""
-        label, top, end, d, wt, allowed = self.label, self.top, self.end, self.d, self.w, self.allowed
-        while self.queue:
-            v = self.queue.pop()
-            dv = d[v]
-            for p in self.nb[v]:
-                k, w = p >> 1, end[p]
-                if top[v] == top[w]:
-                    continue
-                kslack = 0
-                if not allowed[k]:
-                    kslack = dv + d[w] - 2 * wt[k]
-                    if kslack <= 0:
-                        self.allow(k)
-                if allowed[k]:
-                    lw = label[top[w]]
-                    if lw == 0 and self.mate[self.base[top[w]]] == -1:
-                        self.augment(k)  # another exposed vertex: an augmenting path
-                        return True
-                    if lw == 0:
-                        self.assign(w, 2, p ^ 1)
-                    elif lw == 1:
-                        base = self.scan(v, w)
-                        if base >= 0:
-                            self.add_blossom(base, k)
-                        else:
-                            self.augment(k)
-                            return True
-                    elif label[w] == 0:
-                        label[w], self.labelend[w] = 2, p ^ 1
-                        self.touched.add(w)
-                elif label[top[w]] == 1:
-                    b = top[v]
-                    if self.best[b] == -1 or kslack < self.slack(self.best[b]):
-                        self.best[b] = k
-                        self.touched.add(b)
-                elif label[w] == 0:
-                    if self.best[w] == -1 or kslack < self.slack(self.best[w]):
-                        self.best[w] = k
-                        self.touched.add(w)
-                        self.free_best.add(w)
-        return False
-
-    def step(self) -> bool:
-        """One dual step; False when none is possible (no perfect matching)."""
-        kind, delta, arg = 0, 0, -1
-        label, top, best, slack = self.label, self.top, self.best, self.slack
-        for v in self.free_best:
-            k = best[v]
-            if k != -1 and label[top[v]] == 0:
-                s = slack(k)
-                if kind == 0 or s < delta:
-                    kind, delta, arg = 2, s, k
-        for b in self.forest:
-            if label[b] == 1 and best[b] != -1:
-                s = slack(best[b])
-                assert s % 2 == 0, "odd slack between outer blossoms"
-                if kind == 0 or s // 2 < delta:
-                    kind, delta, arg = 3, s // 2, self.best[b]
-            elif self.label[b] == 2 and b >= self.n and (kind == 0 or self.d[b] < delta):
-                kind, delta, arg = 4, self.d[b], b
-        if kind == 0:
-            return False
-        for b in self.forest:
-            sign = -1 if self.label[b] == 1 else 1
-            for x in self.leaves(b):
-                self.d[x] += sign * delta
-            if b >= self.n:
-                self.d[b] -= sign * delta
-        if kind == 4:
-            self.expand(arg, False)
-        else:
-            self.allow(arg)
-            i, j = self.end[2 * arg], self.end[2 * arg + 1]
-            if kind == 2 and self.label[self.top[i]] == 0:
-                i = j
-            self.queue.append(i)
-        return True
-
-    def run(self) -> bool:
-        while True:
-            self.reset_stage()
-            while self.exposed and self.mate[self.exposed[-1]] != -1:
-                self.exposed.pop()
-            if not self.exposed:
-                return True
-            self.assign(self.exposed[-1], 1, -1)
-            while not self.scan_queue():
-                if not self.step():
-                    return False
-            for b in list(self.forest):
-                if b >= self.n and self.parent[b] == -1 and self.label[b] == 1 and self.d[b] == 0:
-                    self.expand(b, True)
-
-    def dual(self) -> Dual:
-        out = []
-        for b in range(self.n, 2 * self.n):
-            if self.base[b] >= 0 and self.d[b] > 0:
-                out.append((frozenset(self.leaves(b)), self.d[b]))
-        return Dual(self.d[:self.n], out)
 
 
 def compiled() -> bool:
@@ -576,25 +233,15 @@ def python_perfect_matching(n: int, edges: Sequence[Edge], warm: Sequence[int] =
     if dual is not None:
         d = _carried(edges, dual)
     _tighten(n, edges, d, warm)
-    mate = [-1] * n
+    mate = [NONE] * n
     for k in warm:
         u, v, w = edges[k]
-        if mate[u] == -1 and mate[v] == -1 and d[u] + d[v] == 2 * w:
-            mate[u], mate[v] = 2 * k + 1, 2 * k
-    for v in range(n):  # exposed vertices start even: a feasible raise, kept from the all-trees search
-        if mate[v] == -1 and d[v] % 2:
-            d[v] += 1
-    run = _Blossom(n, edges, d, mate)
-    # Blossoms nest up to n / 2 deep (thousands at 10,000 players) and expand/augment recurse per level.
-    limit = sys.getrecursionlimit()
-    sys.setrecursionlimit(max(limit, 2 * n + 1000))
-    try:
-        if not run.run():
-            return None
-    finally:
-        sys.setrecursionlimit(limit)
-    pairs = sorted({tuple(sorted((v, run.end[run.mate[v]]))) for v in range(n)})
-    return [(u, v) for u, v in pairs], run.dual()
+        if mate[u] == NONE and mate[v] == NONE and d[u] + d[v] == 2 * w:
+            mate[u], mate[v] = v, u
+    search = Search(n, [e[0] for e in edges], [e[1] for e in edges], [e[2] for e in edges], d, mate)
+    if not search.run():
+        return None
+    return [(v, search.mate[v]) for v in range(n) if v < search.mate[v]], Dual(search.y2, search.blossoms())
 
 
 def _carried(edges: Sequence[Edge], dual: Dual) -> list[int]:

@@ -30,7 +30,7 @@ from pairings.engine.explain import _overrides_of, compare
 from pairings.engine.solver import maximum_cardinality
 from pairings.engine.types import Draft, DraftBoard, Overrides
 from pairings.errors import InputError, NoPairingError
-from pairings.state import ByeKind, EventState, PlayerId, PlayerRecord, Round, System
+from pairings.state import ByeKind, EventState, PlayerId, Round, System
 
 
 @dataclass(frozen=True)
@@ -55,8 +55,8 @@ class RoundCheck:
 def state_before(state: EventState, round_number: int) -> EventState:
     """The state as it was when ``round_number`` was drafted (earlier rounds only)."""
     records = {
-        pid: PlayerRecord(pid, tuple(e for e in rec.entries if e.round < round_number),
-                          rec.score_before(round_number))
+        pid: replace(rec, entries=tuple(e for e in rec.entries if e.round < round_number),
+                     score=rec.score_before(round_number))  # keeps the late-entry points
         for pid, rec in state.records.items()
     }
     return replace(state, rounds=state.rounds[:round_number - 1], records=MappingProxyType(records))

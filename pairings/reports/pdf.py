@@ -88,7 +88,10 @@ def _table(pdf: _Document, table: Table, size: float) -> None:
     shown = table.printed_columns()
     kinds = [table.columns[i].kind for i in shown]
     cross = pdf.sheet.kind in ("crosstable", "grid")
-    widths = [(_WEIGHT[k] if not (cross and k == "text") else 1.3) for k in kinds]
+    empty = [all(row[i] in (None, "") for row in table.rows) for i in shown]
+    # A text column left empty on every row (a note nobody needs) gives its width to the names.
+    widths = [0.9 if k == "text" and blank else 1.3 if cross and k == "text" else _WEIGHT[k]
+              for k, blank in zip(kinds, empty)]
     pdf.set_font(_FAMILY, "B", size + 1)
     pdf.cell(0, 6, table.caption, new_x=XPos.LMARGIN, new_y=YPos.NEXT)
     pdf.set_font(_FAMILY, "", size)

@@ -11,6 +11,7 @@ from datetime import datetime
 from typing import Callable, Literal
 
 from pairings.errors import InputError
+from pairings.regulations import changed_after_notes
 from pairings.reports.clean import stamp
 from pairings.categories import describe_rule, find_category, members
 from pairings.standings import UNPLAYED_LABELS, Standings, category_rows, legend, standings, tiebreak
@@ -179,9 +180,12 @@ def slip_sheet(state: EventState, round_number: int | None, now: datetime) -> Sh
 
 
 def _tiebreak_notes(table: Standings, state: EventState) -> tuple[str, ...]:
-    notes = [f"Tiebreaks with {UNPLAYED_LABELS[table.unplayed]}.", *legend(table.tiebreaks)]
+    notes = list(legend(table.tiebreaks))
+    if any(tiebreak(a).kind.uses_unplayed for a in table.tiebreaks):   # only where the treatment changes a value
+        notes.insert(0, f"Tiebreaks with {UNPLAYED_LABELS[table.unplayed]}.")
     if any(tiebreak(a).kind.uses_ratings for a in table.tiebreaks):
         notes.append(f"Unrated players count as {state.settings.default_rating}.")
+    notes += changed_after_notes(state.settings)
     if table.provisional:
         missing = [r.number for r in state.rounds
                    if r.number <= table.after_round and r.state is RoundState.PUBLISHED]

@@ -34,7 +34,9 @@ from types import MappingProxyType
 from typing import Mapping
 
 from pairings.standings.entry import entered
-from pairings.state import ByeKind, EventState, PlayerId, RoundEntry, Scoring, Side, Unplayed
+from pairings.state import (
+    ByeKind, EventState, PlayerId, RoundEntry, Scoring, Side, Unplayed, late_entry_points,
+)
 
 
 class SlotKind(StrEnum):
@@ -137,9 +139,12 @@ def virtual_opponent_score(slot: Slot, last: int, scoring: Scoring) -> float:
     return slot.score_before + opposite_points(slot.points, scoring) + scoring.draw * later
 
 
-def _slot(entry: RoundEntry | None, round_number: int, before: float, scoring: Scoring, drawn: bool) -> Slot:
+def _slot(entry: RoundEntry | None, round_number: int, before: float, scoring: Scoring, drawn: bool,
+          missed: float) -> Slot:
+    """``missed``: the late-entry points for this round when the player had not entered yet."""
     if entry is None:
-        return Slot(round_number, SlotKind.UNPLAYED, None, None, 0.0, 0.0, False, before, voluntary=True)
+        fraction = missed / scoring.win if scoring.win else 0.0
+        return Slot(round_number, SlotKind.UNPLAYED, None, None, missed, fraction, False, before, voluntary=True)
     points = entry.points or 0.0
     if drawn and entry.opponent is not None and (entry.played or entry.result is None):
         # Fore Buchholz: every game of the last round counts as a draw.
@@ -168,7 +173,8 @@ def build_context(state: EventState, last: int, unplayed: Unplayed, last_drawn: 
         row: list[Slot] = []
         score = 0.0
         for r in range(1, last + 1):
-            slot = _slot(record.entry(r), r, score, scoring, last_drawn and r == last)
+            missed = late_entry_points(record.late_points, record.first_round, r)
+            slot = _slot(record.entry(r), r, score, scoring, last_drawn and r == last, missed)
             if not entered(state, pid, r):
                 slot = Slot(r, SlotKind.NOT_ENTERED, None, None, slot.points, slot.fraction, slot.won, score)
             row.append(slot)

@@ -48,12 +48,14 @@ def levels(ctx: Context, group: frozenset[PlayerId]) -> list[frozenset[PlayerId]
         return out
     win = ctx.scoring.win
     best = {p: scores[p] + win * missing[p] for p in group}   # every missing game won
-    for p in group:
-        others = group - {p}
-        if all(scores[p] > best[q] for q in others):           # no missing result can catch p
-            return [frozenset({p})] + levels(ctx, others)
-        if all(best[p] < scores[q] for q in others):           # p cannot catch anyone
-            return levels(ctx, others) + [frozenset({p})]
+    # Only the top scorer can stay ahead of all, only the lowest best can stay behind all:
+    # compare each with the extreme of the others (linear in the group, not quadratic).
+    top = max(group, key=lambda p: scores[p])
+    if scores[top] > max(best[q] for q in group if q != top):  # no missing result can catch it
+        return [frozenset({top})] + levels(ctx, group - {top})
+    bottom = min(group, key=lambda p: best[p])
+    if best[bottom] < min(scores[q] for q in group if q != bottom):   # it cannot catch anyone
+        return levels(ctx, group - {bottom}) + [frozenset({bottom})]
     return [group]
 
 

@@ -138,14 +138,17 @@ def _canonical(raw: str) -> str:
     return f"{base}-{suffix}" if dash else base
 
 
-def check_tiebreaks(names: Iterable[str]) -> tuple[str, ...]:
+def check_tiebreaks(names: Iterable[str] | str) -> tuple[str, ...]:
     """Validate an ordered tiebreak list; return its canonical acronyms (``bh-c1`` → ``BH-C1``).
 
+    ``names`` is a sequence of names or one comma-separated string (``"BH-C1,BH,SB,WIN"``).
     Accepts the acronyms in any case and the snake_case names older event files
     stored (``buchholz_cut1`` → ``BH-C1``). Raises
     :class:`~pairings.errors.InputError` naming the unknown, badly modified or
     repeated entry.
     """
+    if isinstance(names, str):
+        names = [n for n in names.split(",") if n.strip()]
     out: list[str] = []
     for raw in names:
         acronym = _canonical(raw)

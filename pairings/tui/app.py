@@ -33,6 +33,7 @@ from pairings.tui.offload import Job, Offload
 from pairings.tui.results import ResultsPlace
 from pairings.tui.roster import RosterPlace
 from pairings.tui.round import WIDE, RoundPlace
+from pairings.tui.settings import SettingsPlace
 from pairings.tui.standings import StandingsPlace
 
 PLACES: dict[str, type[Place]] = {
@@ -41,8 +42,9 @@ PLACES: dict[str, type[Place]] = {
     "results": ResultsPlace,
     "standings": StandingsPlace,
     "log": LogPlace,
+    "settings": SettingsPlace,
 }
-"""The places in their key order (F2 … F6)."""
+"""The places in their key order (F2 … F6, and F8 for the settings)."""
 
 FORMATS = {"text": "txt", "csv": "csv", "json": "json", "html": "html", "pdf": "pdf"}
 
@@ -94,6 +96,7 @@ class DeskApp(App[None]):
         Binding("f5", "place('standings')", "Standings"),
         Binding("f6", "place('log')", "Log"),
         Binding("f7", "output", "Print"),
+        Binding("f8", "place('settings')", "Settings"),
         Binding("ctrl+q", "quit", "Quit", priority=True),
     ]
 

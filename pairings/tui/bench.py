@@ -28,6 +28,7 @@ from typing import Any, Sequence
 
 from textual import events
 
+from pairings import actions
 from pairings import events as ev
 from pairings.simulate import simulate_events
 from pairings.state import Result
@@ -167,6 +168,8 @@ async def measure(path: Path, repeat: int, profile: bool = False, draft: bool = 
             assert rnd is not None
             other.append([ev.ResultRecorded(round=rnd.number, board=b, result=Result.FIRST_WINS)
                           for b in rnd.open_boards])
+            # Simulated double forfeits would stop the timed draft at the no-show question: keep them in.
+            other.append([ev.NoShowKept(player=p, round=rnd.number) for p in actions.no_shows(other.state)])
         clock = Clock()
         app.poll()
         await drained(app)

@@ -123,13 +123,16 @@ class FormDialog(Dialog[dict[str, str] | None]):
     BINDINGS = [Binding("escape", "cancel", "Cancel")]
 
     def __init__(
-        self, title: str, fields: Sequence[Field], check: Check | None = None, intro: Sequence[str] = ()
+        self, title: str, fields: Sequence[Field], check: Check | None = None, intro: Sequence[str] = (),
+        save_from: int | None = None,
     ) -> None:
+        """``save_from``: Enter saves from this field on (the fields after it are reached with Tab)."""
         super().__init__()
         self._c_title = title
         self._c_fields = list(fields)
         self._c_check = check
         self._c_intro = list(intro)
+        self._c_save_from = len(self._c_fields) - 1 if save_from is None else save_from
 
     @property
     def shape(self) -> str:
@@ -144,10 +147,14 @@ class FormDialog(Dialog[dict[str, str] | None]):
                 yield Label("", id=f"label-{i}", classes="field-label")
                 yield Input(id=f"field-{i}", compact=True)
             yield Label("", id="problem", classes="problem")
-            yield Label("Enter: next field, save after the last    Esc: cancel", classes="dialog-keys")
+            yield Label("", id="form-keys", classes="dialog-keys")
 
     def fill(self) -> None:
         self.query_one("#form-title", Label).update(cell(self._c_title))
+        more = self._c_save_from < len(self._c_fields) - 1
+        keys = (f"Enter: next field, save from {safe(self._c_fields[self._c_save_from].label)} on    Tab: more"
+                if more else "Enter: next field, save after the last")
+        self.query_one("#form-keys", Label).update(keys + "    Esc: cancel")
         for i, line in enumerate(self._c_intro):
             self.query_one(f"#intro-{i}", Label).update(cell(line))
         for i, f in enumerate(self._c_fields):
@@ -157,6 +164,8 @@ class FormDialog(Dialog[dict[str, str] | None]):
             field.cursor_position = len(f.value)
         self.query_one("#problem", Label).update("")
         self.set_focus(self.query_one("#field-0", Input))
+        box = self.query_one(".dialog")
+        self.call_after_refresh(box.scroll_home, animate=False)  # a tall form opens at its title
 
     def values(self) -> dict[str, str]:
         return {f.key: self.query_one(f"#field-{i}", Input).value for i, f in enumerate(self._c_fields)}
@@ -164,7 +173,8 @@ class FormDialog(Dialog[dict[str, str] | None]):
     @on(Input.Submitted)
     def submit(self, event: Input.Submitted) -> None:
         event.stop()
-        if event.input.id != f"field-{len(self._c_fields) - 1}":
+        index = int((event.input.id or "field-0").removeprefix("field-"))
+        if index < self._c_save_from:
             self.focus_next()
             return
         values = self.values()

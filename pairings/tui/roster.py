@@ -13,14 +13,21 @@ from textual.widgets import Input
 from pairings import actions
 from pairings.errors import InputError, RosterError
 from pairings.events import Event
-from pairings.roster import decode, import_roster
-from pairings.state import ByeKind, EventState, Player, PlayerId, Status
+from pairings.details import detail_texts, read_details
+from pairings.roster import decode, import_roster, read_roster
+from pairings.state import ByeKind, EventState, Player, PlayerDetails, PlayerId, Status
 from pairings.tui.base import Action, Place
 from pairings.tui.dialogs import Field, FormDialog, open_dialog
 from pairings.tui.grid import Column, Grid
 from pairings.tui.text import points, safe, widest
 
-PlayerAction = Callable[[EventState, str, int | None, str | None], Sequence[Event]]
+PlayerAction = Callable[[EventState, str, int | None, str | None, PlayerDetails], Sequence[Event]]
+DETAIL_FIELDS = (
+    ("title", "Title (GM, IM, FM, CM, WGM, WIM, WFM, WCM)"), ("federation", "Federation (three letters)"),
+    ("fide_id", "FIDE ID"), ("national_id", "National ID"), ("birth", "Birth (year or YYYY-MM-DD)"),
+    ("sex", "Sex (m or f)"), ("ratings", "Ratings by list (fide=2010,national=1980)"),
+    ("categories", "Categories (comma-separated)"),
+)
 QuickAction = Callable[[EventState, PlayerId], Sequence[Event]]
 
 
@@ -37,6 +44,11 @@ def status_words(state: EventState, player: Player) -> str:
     if player.entry_round > coming:
         return f"joins in round {player.entry_round}"
     return "active"
+
+
+def titled(player: Player) -> str:
+    """The name with the player's title before it, as sheets print it ("FM Ada Quince")."""
+    return f"{player.details.title} {player.name}" if player.details.title else player.name
 
 
 def _rating(text: str) -> int | None:
@@ -75,7 +87,7 @@ class RosterPlace(Place):
     def on_mount(self) -> None:
         grid = self.query_one("#players", Grid)
         grid.set_columns([Column("id", "Id", limit=8), Column("name", "Name", flex=True),
-                          Column("rating", "Rating", 7), Column("club", "Club", limit=20),
+                          Column("fed", "Fed", 3), Column("rating", "Rating", 7), Column("club", "Club", limit=20),
                           Column("score", "Score", 5), Column("status", "Status", limit=24)])
         grid.focus()
 
@@ -93,11 +105,12 @@ class RosterPlace(Place):
 
         def row(i: int) -> tuple[str, ...]:
             p = shown[i]
-            return (p.id, p.name, str(p.rating) if p.rating is not None else "unrated", p.club or "",
+            return (p.id, titled(p), p.details.federation or "",
+                    str(p.rating) if p.rating is not None else "unrated", p.club or "",
                     points(state.score(p.id)), status[p.id])
 
         self.query_one("#players", Grid).set_source([p.id for p in shown], row, [
-            widest(p.id for p in shown), widest(p.name for p in shown), 7, widest(p.club or "" for p in shown), 5,
+            widest(p.id for p in shown), widest(titled(p) for p in shown), 3, 7, widest(p.club or "" for p in shown), 5,
             widest(status[p.id] for p in shown),
         ])
 
@@ -131,7 +144,8 @@ class RosterPlace(Place):
 
         def action(values: dict[str, str]) -> Action:
             rating = _rating(values["rating"])
-            return lambda s: make(s, values["name"], rating, values["club"] or None)
+            details = read_details({key: values[key] for key, _ in DETAIL_FIELDS})
+            return lambda s: make(s, values["name"], rating, values["club"] or None, details)
 
         def check(values: dict[str, str]) -> str | None:
             try:
@@ -149,16 +163,18 @@ class RosterPlace(Place):
             Field("rating", "Rating (empty: unrated)", str(player.rating) if player and player.rating is not None else ""),
             Field("club", "Club", (player.club or "") if player else ""),
         ]
-        open_dialog(self.app, FormDialog(title, fields, check), done)
+        texts = detail_texts(player.details if player else PlayerDetails())
+        fields += [Field(key, label, texts[key]) for key, label in DETAIL_FIELDS]
+        open_dialog(self.app, FormDialog(title, fields, check, save_from=2), done)
 
     def action_add(self) -> None:
-        self._player_form("Add player", None, lambda s, n, r, c: actions.add_player(s, n, r, c))
+        self._player_form("Add player", None, lambda s, n, r, c, d: actions.add_player(s, n, r, c, details=d))
 
     def action_edit(self) -> None:
         pid = self.selected()
         if pid is not None:
             player = self.state.players[pid]
-            self._player_form("Edit player", player, lambda s, n, r, c: actions.edit_player(s, pid, n, r, c))
+            self._player_form("Edit player", player, lambda s, n, r, c, d: actions.edit_player(s, pid, n, r, c, d))
 
     def _quick(self, verb: str, make: QuickAction) -> None:
         pid = self.selected()
@@ -193,6 +209,7 @@ class RosterPlace(Place):
     def action_import_csv(self) -> None:
         base = self.shown_head
         loaded: dict[str, str] = {}
+        warnings: list[str] = []
 
         def read(path_text: str) -> str:
             path = Path(path_text.strip()).expanduser()
@@ -204,7 +221,9 @@ class RosterPlace(Place):
         def check(values: dict[str, str]) -> str | None:
             try:
                 text = read(values["path"])
-                actions.refuse_duplicates(self.state, import_roster(self.state, text))
+                roster = read_roster(self.state, text)
+                warnings[:] = roster.warnings
+                actions.refuse_duplicates(self.state, roster.events)
             except RosterError as exc:
                 return "; ".join(exc.problems[:3]) + (f" (and {len(exc.problems) - 3} more)" if len(exc.problems) > 3 else "") + " — nothing imported"
             except InputError as exc:
@@ -217,6 +236,9 @@ class RosterPlace(Place):
                 before = len(self.state.players)
                 if self.apply(lambda s: actions.refuse_duplicates(s, import_roster(s, loaded["text"])), "", base):
                     self.notify(f"imported {len(self.state.players) - before} players")
+                    for warning in warnings:
+                        self.notify(safe(warning), severity="warning")
 
-        intro = ["A CSV file with a header row: name (required), rating, club, id."]
+        intro = ["A CSV file with a header row: name (required), rating, club, id, title, federation,",
+                 "fide_id, national_id, birth, sex, categories; other columns are named, not read."]
         open_dialog(self.app, FormDialog("Import a roster", [Field("path", "CSV file")], check, intro), done)

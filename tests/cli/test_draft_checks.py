@@ -68,7 +68,9 @@ def test_swap_says_its_cost_and_publish_wants_an_accepted_reason(event: Path, cl
     refused(cli, event, "publish", event, says="breaks a hard rule the engine's pairing keeps")
     refused(cli, event, "publish", event, "--accept", says="--accept needs --reason")
     refused(cli, event, "publish", event, "--reason", "x", says="--reason goes with --accept")
-    assert cli("publish", event, "--accept", "--reason", "the players agreed").code == 0
+    ran = cli("publish", event, "--accept", "--reason", "the players agreed")
+    assert ran.out.strip() == \
+        "round 2 published, breaking H1: board 2: Fay Orrin and Cy Rill have met before (accepted)", ran
     assert "round 2: hard-rule breach accepted (the players agreed): H1: board 2: Fay Orrin and Cy Rill" \
         in cli("log", event).out
     assert cli("result", event, "1", "1-0").code == 0
@@ -101,7 +103,7 @@ def test_a_double_forfeit_asks_before_the_next_draft(tmp_path: Path, cli) -> Non
     refused(cli, event, "pair", event, "--keep", "Ada", says="Dee Marsh lost round 1")
     assert cli("player", "withdraw", event, "Dee Marsh").code == 0
     ran = cli("pair", event, "--keep", "Ada")
-    assert ran.code == 0, ran
+    assert ran.code == 0 and ran.out.startswith("Ada Quince stays in after the double forfeit of round 1\n"), ran
     assert "kept in the event after the double forfeit of round 1" in cli("log", event).out
     assert cli("pair", event).code == 0  # asked once: the decision is recorded
     with EventStore.open(event) as store:

@@ -35,7 +35,7 @@ def test_counts_agree_with_their_noun(demo: Path, tmp_path: Path, cli) -> None: 
     assert cli("result", event, "1", "1-0").out.strip() == "round 1 board 1: 1-0; 1 board open"
     refused = cli("pair", event)
     assert refused.code == 2 and "(1 board without a result)" in refused.err
-    assert cli("publish-web", event, tmp_path / "site").out.strip() == f"wrote 5 files to {tmp_path / 'site'}"
+    assert cli("publish-web", event, tmp_path / "site").out.strip() == f"wrote 6 files to {tmp_path / 'site'}"  # index, 4 sheets, round-1.html
 
 
 def test_standings_after_an_earlier_round(demo: Path, cli) -> None:  # type: ignore[no-untyped-def]

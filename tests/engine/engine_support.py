@@ -60,6 +60,36 @@ def checked_perfect(n: int, edges: Edges, warm: Sequence[int]) -> tuple[list[tup
     return got
 
 
+def assert_optimal_dual(n: int, edges: Edges, pairs: Sequence[tuple[int, int]], dual: Dual) -> None:
+    """Optimality of a perfect matching from its dual, checked here edge by edge (not by the solver).
+
+    Edmonds (1965b)'s perfect matching polytope: ``dual`` must be feasible
+    (``z_B > 0`` on odd sets of at least 3 vertices, doubled reduced cost
+    ``y2_u + y2_v + 2 sum(z_B : u, v in B) - 2 w_uv >= 0`` on every edge) and
+    complementary to ``pairs`` (a perfect matching of edges, each tight, with
+    exactly ``(|B| - 1) / 2`` of them inside every blossom). Weak LP duality
+    then makes ``pairs`` a maximum-weight perfect matching, and its weight
+    equals the dual objective.
+    """
+    table = {(min(u, v), max(u, v)): w for u, v, w in edges}
+    ends = sorted(x for p in pairs for x in p)
+    assert ends == list(range(n)), "not a perfect matching"
+    assert all((min(p), max(p)) in table for p in pairs), "a pair that is no edge"
+    assert len(dual.y2) == n
+    for members, z in dual.blossoms:
+        assert z > 0 and len(members) >= 3 and len(members) % 2 == 1, (len(members), z)
+
+    def reduced2(u: int, v: int, w: int) -> int:
+        inside = sum(z for members, z in dual.blossoms if u in members and v in members)
+        return dual.y2[u] + dual.y2[v] + 2 * inside - 2 * w
+
+    assert all(reduced2(u, v, w) >= 0 for u, v, w in edges), "infeasible dual"
+    assert all(reduced2(u, v, table[(min(u, v), max(u, v))]) == 0 for u, v in pairs), "a loose matched edge"
+    for members, _ in dual.blossoms:
+        assert sum(u in members and v in members for u, v in pairs) == (len(members) - 1) // 2
+    assert dual.objective2() == 2 * weight(edges, pairs)
+
+
 def new_event(ratings: Sequence[int | None], rounds: int = 9, **settings: object) -> list[ev.Event]:
     log: list[ev.Event] = [ev.EventCreated(name="Test Open", rounds=rounds, **settings)]  # type: ignore[arg-type]
     for i, rating in enumerate(ratings):

@@ -243,3 +243,11 @@ def test_reports_import_without_textual() -> None:
     code = "import sys, pairings.reports; print([m for m in sys.modules if m.split('.')[0] == 'textual'])"
     out = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True, check=True)
     assert out.stdout.strip() == "[]"
+
+
+def test_legend_names_the_unplayed_treatment_only_where_it_matters(hostile: EventState, now: datetime) -> None:
+    only_counts = replace(hostile, settings=replace(hostile.settings, tiebreaks=("WIN", "DE")))
+    text = str(render(only_counts, "standings", "text", now=now))
+    assert "WIN = Number of wins (played or not)" in text and "DE = Direct encounter" in text
+    assert "virtual opponent" not in text                     # WIN and DE do not depend on it
+    assert "virtual opponent" in str(render(hostile, "standings", "text", now=now))

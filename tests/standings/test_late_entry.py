@@ -41,7 +41,7 @@ def test_before_their_first_game_they_are_listed_with_no_virtual_opponent(tmp_pa
         state = store.state
     assert state.players[actions.find_player(state, "Late Lou")].entry_round == 2
     points, tb = row(state, "Late Lou")
-    assert points == 0 and tb == {"buchholz_cut1": 0, "buchholz": 0, "sonneborn_berger": 0, "wins": 0}
+    assert points == 0 and tb == {"BH-C1": 0, "BH": 0, "DE": 0, "WIN": 0, "BPG": 0}  # the Swiss default list
     assert "Late Lou" in render(state, "standings", "text")
 
 
@@ -57,7 +57,7 @@ def test_after_their_first_game_only_their_own_rounds_count(tmp_path: Path) -> N
         state = store.state
     # Lou met Bo only; Bo counts with 1 (lost to Dee, beat Lou). Round 1 adds no virtual opponent
     # (it would add SPR 0 + 1 + 0.5 * (2 - 1) = 1.5).
-    assert row(state, "Late Lou") == (0, {"buchholz_cut1": 0, "buchholz": 1, "sonneborn_berger": 0, "wins": 0})
+    assert row(state, "Late Lou") == (0, {"BH-C1": 0, "BH": 1, "DE": 0, "WIN": 0, "BPG": 1})  # Lou had the second side
     # Towards Bo's Buchholz, Lou counts with the 0 points Lou has, not with a draw for round 1.
     points, tb = row(state, "Bo Rill")
-    assert points == 1 and tb["buchholz"] == 1  # Dee 1 + Lou 0
+    assert points == 1 and tb["BH"] == 1  # Dee 1 + Lou 0

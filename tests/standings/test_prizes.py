@@ -14,6 +14,7 @@ Prizes: overall 100.00 / 60.00 / 40.00; Junior 50.00 / 20.00; Women 30.00.
 
 from __future__ import annotations
 
+import json
 from typing import Any
 
 import pytest
@@ -132,3 +133,35 @@ def test_prize_actions_check_before_writing() -> None:
         set_policy(state, minor_digits=0)
     with pytest.raises(PrizeError, match="better is amount or order"):
         set_policy(state, better="cheapest")
+
+
+def test_export_and_restore_carry_categories_prizes_and_rules() -> None:
+    from pairings.interchange import export_event, restore_events
+
+    state = event(ev.PrizePolicySet(ties=PrizeTies.HORT, currency="EUR"),
+                  ev.CategoryMember(category="Women", player="P6", member=False))
+    doc = export_event(state)
+    again = fold(enumerate(restore_events(json.loads(json.dumps(doc))), 1))
+    assert export_event(again)["awards"] == doc["awards"]
+    assert again.prize_policy == state.prize_policy and again.prizes == state.prizes
+    assert again.categories == state.categories        # rules, hand-given members and exclusions
+    assert members(again, again.categories["Junior"]) == {"P2", "P4", "P7"}
+    assert "awards" not in export_event(event(prizes=[], categories=False))   # nothing added when unused
+
+
+@pytest.mark.parametrize(("awards", "message"), [
+    ({"prizes": [{"category": "Nope", "place": 1, "amount": 5}]}, "unknown category 'Nope'"),
+    ({"categories": [{"name": "A", "added": ["zz"]}]}, "unknown player 'zz'"),
+    ({"categories": [{"name": "A"}, {"name": "A"}]}, "category 'A' appears twice"),
+    ({"prizes": [{"category": None, "place": 1, "amount": 5}] * 2}, "two prizes"),
+    ({"prizes": [{"category": None, "place": 1, "amount": 1.5}]}, "awards.prizes.0.amount"),
+    ({"categories": [{"name": "U18", "rule": {"age_under": 18}}]}, "category 'U18': an age rule needs the date"),
+    ({"categories": [{"name": "Overall"}]}, "names the whole field"),
+])
+def test_restore_refuses_bad_awards(awards: dict[str, Any], message: str) -> None:
+    from pairings.errors import InputError
+    from pairings.interchange import export_event, restore_events
+
+    doc = export_event(event(prizes=[], categories=False)) | {"awards": awards}
+    with pytest.raises(InputError, match=message):
+        restore_events(doc)

@@ -23,6 +23,7 @@ FIXTURE = Path(__file__).parents[1] / "fixtures" / "event-v1.pairings"
 
 def test_acronyms_any_case_and_stored_names() -> None:
     assert check_tiebreaks(["bh-c1", " BH ", "sb", "Win"]) == ("BH-C1", "BH", "SB", "WIN")
+    assert check_tiebreaks("bh-c1, BH,sb,Win") == ("BH-C1", "BH", "SB", "WIN")   # one string, as typed
     # The snake_case names older event files stored read as the same tiebreaks.
     assert check_tiebreaks(["buchholz_cut1", "median_buchholz", "sonneborn_berger", "wins", "games_second",
                             "progressive", "average_rating_opponents", "performance_rating",

@@ -233,15 +233,23 @@ def test_cli_export_and_restore(cli, tmp_path) -> None:  # type: ignore[no-untyp
     assert ran.code == 2 and "line 15, column 99" in ran.err and not (tmp_path / "never.pairings").exists()
 
 
-def test_event_info_sets_the_header(cli, tmp_path) -> None:  # type: ignore[no-untyped-def]
+def test_settings_sets_the_report_details_and_json_carries_them(cli, tmp_path) -> None:  # type: ignore[no-untyped-def]
     path = tmp_path / "e.pairings"
     cli("new", path, "--name", "Info Open", "--rounds", "2", "--seed", "1")
-    ran = cli("event-info", path, "--city", "Lakeside", "--federation", "fin", "--start", "2026/05/01",
+    ran = cli("settings", path, "--city", "Lakeside", "--federation", "fin", "--start", "2026/05/01",
               "--round-dates", "2026-05-01,2026-05-02", "--deputy", "Kim Deputy")
-    assert ran.code == 0 and "federation: FIN" in ran.out and "round dates: 1: 2026-05-01, 2: 2026-05-02" in ran.out
+    assert ran.code == 0 and "Federation: - -> FIN" in ran.out and "Round dates: - -> 2026-05-01,2026-05-02" in ran.out
+    shown = cli("settings", path).out
+    assert "City:" in shown and "Lakeside" in shown and "Kim Deputy" in shown
     before = path.read_bytes()
     for bad in (["--federation", "FINLAND"], ["--start", "2026-13-01"], ["--round-dates", "2026-05-02,2026-05-01"],
                 ["--round-dates", "2026-05-01,2026-05-02,2026-05-03"], ["--end", "2026-04-30"]):
-        ran = cli("event-info", path, *bad)
+        ran = cli("settings", path, *bad)
         assert ran.code == 2 and ran.err.startswith("pairings: "), bad
     assert path.read_bytes() == before
+    doc = tmp_path / "e.json"
+    assert cli("export", path, "-o", doc).code == 0
+    assert '"city": "Lakeside"' in doc.read_text()
+    assert cli("restore", doc, tmp_path / "copy.pairings").code == 0
+    assert cli("settings", tmp_path / "copy.pairings").out == shown
+    assert cli("export", path, "--format", "trf").out.splitlines()[1:4] == ["022 Lakeside", "032 FIN", "042 2026/05/01"]
