@@ -28,6 +28,7 @@ from pairings import events as ev
 from pairings.actions import folded_name
 from pairings.errors import RatingListError
 from pairings.state import EventState, Player, PlayerId, RoundState
+from pairings.text import counted
 
 FIDE_HEADINGS = ("ID Number", "Name", "Fed", "Sex", "Tit", "WTit", "OTit", "FOA", "SRtng", "SGm", "SK",
                  "RRtng", "RGm", "Rk", "BRtng", "BGm", "BK", "B-day", "Flag")
@@ -157,8 +158,10 @@ def scan_fide(lines: Iterable[str], state: EventState, kind: str = "standard") -
         if pid not in wanted.ids:
             if not wanted.words:
                 continue
-            surname = line[spans["Name"]].split(",", 1)[0].strip().casefold()
-            if surname not in wanted.words or _name_key(line[spans["Name"]]) not in wanted.names:
+            # A cheap test first: the name's first word must be a word of a wanted name.
+            first = line[spans["Name"]].split(None, 1)[:1]
+            if not first or first[0].rstrip(",").casefold() not in wanted.words \
+                    or _name_key(line[spans["Name"]]) not in wanted.names:
                 continue
             by_name = True
         try:
@@ -235,7 +238,8 @@ class Plan:
     lines: int
 
     def report(self) -> list[str]:
-        out = [f"read {self.lines:,} list lines; {len(self.changes)} player(s) updated from the {self.list_name} list"]
+        out = [f"read {self.lines:,} list lines; {counted(len(self.changes), 'player')} updated from the "
+               f"{self.list_name} list"]
         out += [f"problem: {p}" for p in self.problems]
         for c in self.offers:
             out.append(f"name match (not applied; --accept-names applies it): {self.names[c.player]} = "
@@ -251,7 +255,7 @@ def plan_update(state: EventState, found: Found, accept_names: bool = False, kee
     if found.short:
         shown = ", ".join(map(str, found.short[:SHOWN]))
         more = f" and {len(found.short) - SHOWN} more" if len(found.short) > SHOWN else ""
-        problems.append(f"{len(found.short)} short line(s) skipped: line {shown}{more}")
+        problems.append(f"{counted(len(found.short), 'short line')} skipped: line {shown}{more}")
     changes: list[Change] = []
     offers: list[Change] = []
     missing: list[PlayerId] = []
@@ -298,8 +302,8 @@ def _updated(player: Player, change: Change, list_name: str, keep_rating: bool, 
 def update_events(state: EventState, plan: Plan, force: bool = False, reason: str = "") -> list[ev.Event]:
     """One PlayerEdited per updated player (written together, in one transaction).
 
-    Refused once round 1 is published (ratings fix the pairing order: FIDE C.04.2, from
-    memory, takes them before the event), unless ``force`` with a ``reason`` for the log.
+    Refused once round 1 is published (the ratings in force when the event starts fix the
+    order of the players: common practice, no source), unless ``force`` with a ``reason`` for the log.
     """
     if any(r.state is not RoundState.DRAFT for r in state.rounds) and not force:
         raise RatingListError("round 1 is already published: ratings are taken before the event "

@@ -14,6 +14,7 @@ from pairings.standings import counted_rounds
 from pairings.standings.ratingchange import CAP, CAP_EXEMPT_FROM, RatingChange, rating_changes
 from pairings.errors import InputError
 from pairings.state import EventState
+from pairings.text import counted
 
 NOTES = (
     "Rating changes as the FIDE Rating Regulations (B.02) are remembered, not read from the Handbook: "
@@ -33,9 +34,9 @@ def _number(value: Decimal | None) -> float | None:
 def _note(c: RatingChange) -> str | None:
     parts = []
     if c.rating is None:
-        parts.append(f"unrated: {len(c.games)} game(s) against rated opponents")
+        parts.append(f"unrated: {counted(len(c.games), 'game')} against rated opponents")
     if c.unrated_opponents:
-        parts.append(f"{c.unrated_opponents} game(s) against unrated opponents not rated")
+        parts.append(f"{counted(c.unrated_opponents, 'game')} against unrated opponents not rated")
     return "; ".join(parts) or None
 
 

@@ -247,7 +247,7 @@ def _parse(text: str) -> tuple[_Header, list[_Entry]]:
         elif tag in HEADER or tag in (ROUNDS_TAG, SCORING_TAG, TIEBREAK_TAG):
             _header_line(header, line_no, tag, line)
     if not header.values.get("012"):
-        raise ReportFileError("line 1, column 1: no tournament name (record 012): not a TRF file")
+        raise ReportFileError("no tournament name (record 012): not a report file")
     if not players:
         raise ReportFileError("no player record (001) in the file")
     return header, players

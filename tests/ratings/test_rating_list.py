@@ -62,10 +62,10 @@ def test_reads_the_published_layout_and_reports_bad_lines() -> None:
     found = scan_fide(iter(line + "\n" for line in LIST), state)
     plan = plan_update(state, found)
     report = plan.report()
-    assert report[0].startswith("read 8 list lines; 2 player(s) updated")
+    assert report[0] == "read 8 list lines; 2 players updated from the fide list"
     assert "problem: line 3: rating '21x0' is not a number" in report
     assert "problem: line 6: ID 1003 also on line 4: neither is used" in report
-    assert "problem: 1 short line(s) skipped: line 5" in report
+    assert "problem: 1 short line skipped: line 5" in report
     assert any(line.startswith("name match (not applied; --accept-names applies it): Erin Oakridge = Oakridge, "
                                "Erin, ID 1005, rating 1875 (line 7)") for line in report)
     assert "not found: Xan Away" in report
@@ -81,11 +81,13 @@ def test_reads_the_published_layout_and_reports_bad_lines() -> None:
 
 
 def test_name_matches_applied_on_request_and_the_heading_is_optional() -> None:
-    state = _event()
-    found = scan_fide(iter(LIST[1:]), state)  # no heading line: the remembered positions
+    events = [*_events(), ev.PlayerRegistered(id="v", name="Jan van Dijk", rating=1500)]
+    state = fold(enumerate(events, 1))
+    listed = [*LIST[1:], fide_line("1010", "van Dijk, Jan", "NED", "M", "", "", "", "", "1990", "0", "20")]
+    found = scan_fide(iter(listed), state)  # no heading line: the remembered positions
     plan = plan_update(state, found, accept_names=True)
-    assert sorted(c.player for c in plan.changes) == ["a", "e", "p"]
-    after = fold(enumerate([*_events(), *update_events(state, plan)], 1))
+    assert sorted(c.player for c in plan.changes) == ["a", "e", "p", "v"]  # a surname of two words too
+    after = fold(enumerate([*events, *update_events(state, plan)], 1))
     erin = after.players[PlayerId("e")]
     assert erin.details.fide_id == "1005" and erin.rating == 1875 and erin.details.birth == "2009"
 
@@ -124,7 +126,7 @@ def test_national_list_in_csv() -> None:
     plan = plan_update(state, scan_national(iter(text), state))
     report = plan.report()
     assert "problem: line 3: rating 'abc' is not a number" in report
-    assert "problem: 1 short line(s) skipped: line 4" in report
+    assert "problem: 1 short line skipped: line 4" in report
     assert [c.player for c in plan.changes] == ["a"] and [c.player for c in plan.offers] == ["c"]
     after = fold(enumerate([*events, *update_events(state, plan)], 1))
     alder = after.players[PlayerId("a")]
@@ -147,6 +149,6 @@ def test_cli_ratings_update(capsys: pytest.CaptureFixture[str], tmp_path: Path) 
     assert main(["ratings", "update", str(path), str(listed), "--force", "--reason", "late list",
                  "--accept-names"]) == 0
     out = capsys.readouterr().out
-    assert "3 player(s) updated" in out and "not found: Xan Away" in out
+    assert "3 players updated" in out and "not found: Xan Away" in out
     assert main(["log", str(path)]) == 0
     assert "(late list)" in capsys.readouterr().out
