@@ -52,8 +52,9 @@ def render(state: EventState, kind: str, fmt: str, round_number: int | None = No
     start list needs no round. ``category`` narrows the standings to one prize
     category; ``paper`` (``a4`` or ``letter``, default from the locale) sizes PDF
     and HTML pages; ``ratings`` adds the expected score, rating change and
-    performance to the standings (FIDE B.02 as remembered, :mod:`.rated`). Returns ``bytes`` for ``pdf``, ``str`` otherwise. JSON of the
-    standings is the interchange list.
+    performance to the standings (FIDE B.02 as remembered, :mod:`.rated`).
+    Returns ``bytes`` for ``pdf``, ``str`` otherwise. JSON of the standings is
+    the interchange list (with ``ratings``, the sheet's JSON).
 
     Raises
     ------

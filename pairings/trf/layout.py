@@ -92,9 +92,9 @@ from memory, low confidence."""
 COLOUR_TAG = "XXC"
 """Initial colour (``white1`` / ``black1``: the side of start rank 1 in round 1), same source and caution."""
 SCORING_TAG = "PTS"
-"""Our own record, not part of TRF16: points for a win, a draw, a loss, a pairing bye and a requested
-half-point bye, written only when they differ from 1, 0.5, 0, 1, 0.5. Readers that do not know it skip it,
-as the standard asks of unknown tags."""
+"""Our own record, not part of TRF16: points for a win, a draw, a loss, a pairing bye, a requested
+half-point bye and each round missed before a late entry, written only when they differ from
+1, 0.5, 0, 1, 0.5, 0. Readers that do not know it skip it, as the standard asks of unknown tags."""
 TIEBREAK_TAG = "TBK"
 """Our own record, not part of TRF16: the event's tiebreak acronyms and its treatment of unplayed
 rounds, which decide the places in columns 86-89; written only when they differ from the defaults."""

@@ -23,7 +23,7 @@ from pairings.trf.layout import (
     BLACK, BYE_CODES, FORFEIT_CODES, HEADER, NO_COLOUR, PLAYED_CODES, PLAYER, PLAYER_TAG, ROUNDS_TAG,
     SCORING_TAG, TIEBREAK_TAG, UNRATED_CODES, WHITE, Span, slot_spans, slot_start,
 )
-from pairings.trf.write import DEFAULT_POINTS, TYPES
+from pairings.trf.write import DEFAULT_POINTS, TYPES, Points
 
 TITLES = ("GM", "IM", "WGM", "FM", "WIM", "CM", "WFM", "WCM")
 
@@ -168,7 +168,7 @@ class _Header:
     deputies: list[str] = field(default_factory=list)
     round_dates: tuple[str, ...] = ()
     rounds: int | None = None
-    points: tuple[float, float, float, float, float] = DEFAULT_POINTS
+    points: Points = DEFAULT_POINTS
     tiebreaks: tuple[tuple[str, ...], Unplayed] | None = None
 
 
@@ -209,9 +209,11 @@ def _header_line(h: _Header, line_no: int, tag: str, text: str) -> None:
             numbers = tuple(float(x) for x in value.split())
         except ValueError:
             numbers = ()
-        if len(numbers) != 5:
-            raise _fail(line_no, 5, "points must be five numbers: win, draw, loss, pairing bye, requested bye")
-        h.points = (numbers[0], numbers[1], numbers[2], numbers[3], numbers[4])
+        if len(numbers) not in (5, 6):
+            raise _fail(line_no, 5, "points must be five or six numbers: win, draw, loss, pairing bye, "
+                        "requested bye (and per round missed before a late entry)")
+        n = (*numbers, 0.0)
+        h.points = (n[0], n[1], n[2], n[3], n[4], n[5])
     elif tag == TIEBREAK_TAG:
         names, _, unplayed = value.partition(" ")
         try:
@@ -265,8 +267,8 @@ def _check_ranks(players: list[_Entry]) -> dict[int, _Entry]:
     return by_rank
 
 
-def _round(r: int, by_rank: dict[int, _Entry], points: tuple[float, ...]) -> ev.RoundDrafted:
-    win, _, _, bye, half = points
+def _round(r: int, by_rank: dict[int, _Entry], points: Points) -> ev.RoundDrafted:
+    win, _, _, bye, half, _ = points
     boards: list[tuple[int, ev.BoardModel]] = []
     byes: list[ev.ByeModel] = []
     for p in sorted(by_rank.values(), key=lambda e: e.rank):
@@ -298,9 +300,10 @@ def _round(r: int, by_rank: dict[int, _Entry], points: tuple[float, ...]) -> ev.
     return ev.RoundDrafted(round=r, boards=numbered, byes=tuple(byes), source="restored")
 
 
-def _check_points(p: _Entry, rounds: list[ev.RoundDrafted], points: tuple[float, ...]) -> None:
-    win, draw, loss = points[:3]
-    pid, total = f"p{p.rank}", 0.0
+def _check_points(p: _Entry, rounds: list[ev.RoundDrafted], points: Points) -> None:
+    win, draw, loss, late = points[0], points[1], points[2], points[5]
+    pid = f"p{p.rank}"
+    total = late * (min(p.slots) - 1) if p.slots else 0.0  # the rounds missed before a late entry
     for rnd in rounds:
         total += sum(y.points for y in rnd.byes if y.player == pid)
         for g in rnd.boards:
@@ -326,13 +329,14 @@ def read_trf(text: str) -> list[ev.Event]:
     if total < played:
         raise ReportFileError(f"{played} rounds are played but the file says the event has {total} ({ROUNDS_TAG})")
     system, double = _system(header.values.get("092", ""))
-    win, draw, loss, bye, half = header.points
+    win, draw, loss, bye, half, late = header.points
     v = header.values
     tiebreaks, unplayed = header.tiebreaks or (default_tiebreaks(system, True), Unplayed.VIRTUAL_OPPONENT)
     try:
         first: ev.Event = ev.EventCreated(
             name=clean_text(v["012"], "tournament name"), rounds=total,
             scoring=ev.ScoringModel(win=win, draw=draw, loss=loss), bye_points=bye, requested_bye_points=half,
+            late_entry_points=late,
             system=system, double_round=double, tiebreaks=tiebreaks, unplayed=unplayed, seed=0,
             city=v.get("022", ""), federation=v.get("032", "").upper(), start_date=v.get("042", ""),
             end_date=v.get("052", ""), chief_arbiter=v.get("102", ""), deputy_arbiters=tuple(header.deputies),

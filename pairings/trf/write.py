@@ -19,8 +19,10 @@ from pairings.trf.layout import (
     slot_start,
 )
 
-DEFAULT_POINTS = (1.0, 0.5, 0.0, 1.0, 0.5)
-"""Win, draw, loss, pairing bye, requested bye: the values a report file assumes (PTS omitted)."""
+Points = tuple[float, float, float, float, float, float]
+DEFAULT_POINTS: Points = (1.0, 0.5, 0.0, 1.0, 0.5, 0.0)
+"""Win, draw, loss, pairing bye, requested bye, each round missed before a late entry: the values a
+report file assumes (PTS omitted)."""
 
 TYPES = {
     (System.SWISS, False): "Individual: Swiss system (whole-round optimum)",
@@ -46,9 +48,10 @@ def event_type(settings: Settings) -> str:
     return TYPES[settings.system, settings.double_round and settings.system is System.ROUND_ROBIN]
 
 
-def scoring_values(settings: Settings) -> tuple[float, float, float, float, float]:
+def scoring_values(settings: Settings) -> Points:
     s = settings
-    return (s.scoring.win, s.scoring.draw, s.scoring.loss, s.bye_points, s.requested_bye_points)
+    return (s.scoring.win, s.scoring.draw, s.scoring.loss, s.bye_points, s.requested_bye_points,
+            s.late_entry_points)
 
 
 def bye_code(kind: ByeKind, points: float, settings: Settings) -> str:

@@ -141,7 +141,7 @@ def test_round_trip_of_a_simulated_swiss_with_withdrawals_byes_and_forfeits() ->
 def test_requested_byes_late_entry_withdrawal_open_board_and_other_scoring() -> None:
     events = spring_open_events()[:6]
     events[0] = events[0].model_copy(update={"scoring": ev.ScoringModel(win=3, draw=1, loss=0), "bye_points": 3.0,
-                                             "requested_bye_points": 1.0})
+                                             "requested_bye_points": 1.0, "late_entry_points": 1.0})
     events.append(ev.PlayerRegistered(id="p6", name="Fir, Fay", rating=1600, entry_round=2))
     events += _round(1, [("p1", "p2", Result.FIRST_WINS), ("p3", "p4", Result.DOUBLE_FORFEIT)],
                      [("p5", ByeKind.REQUESTED, 1.0)])
@@ -150,13 +150,14 @@ def test_requested_byes_late_entry_withdrawal_open_board_and_other_scoring() -> 
                      [("p3", ByeKind.REQUESTED, 3.0)])
     text = write_trf(_state(events))
     lines = text.splitlines()
-    assert "PTS 3.0 1.0 0.0 3.0 1.0" in lines
+    assert "PTS 3.0 1.0 0.0 3.0 1.0 1.0" in lines
     elm = next(line for line in lines if "Elm, Eric" in line)
     assert elm[91:99] == "0000 - H" and len(elm) == 99  # round 2 not paired: a blank slot, cut at the end
     cedar = next(line for line in lines if "Cedar, Carl" in line)
     assert cedar[91:99] == "   4 w -" and cedar[101:109] == "0000 - F"
     fir = next(line for line in lines if "Fir, Fay" in line)
     assert fir[91:99] == "        " and fir[101:] == "   4 b"  # a game without its result yet
+    assert fir[80:84] == " 1.0"  # the late entrant's point for round 1, missed before entry
     _round_trip(_state(events))
     restored = _state(read_trf(text))
     assert restored.players[PlayerId("p6")].entry_round == 2 and restored.players[PlayerId("p5")].withdrawn_from == 2
