@@ -134,6 +134,10 @@ static Py_ssize_t lower_bound(const int64_t *a, Py_ssize_t len, int64_t key) {
 /* True when player i (ranked above j) gets the first side: vector.Arrays.first_of. */
 static inline int first_of(const Scan *s, int64_t i, int64_t j) {
     const Player *a = &s->p[i], *b = &s->p[j];
+    /* First the sides that break H3 for fewer of the two (breaks_* already leave out exempt players). */
+    int i_first = a->breaks_first + b->breaks_second, j_first = b->breaks_first + a->breaks_second;
+    if (i_first != j_first)
+        return i_first < j_first;
     if (a->want != 0 && a->want != b->want)
         return a->want == FIRST;
     if (a->want == 0)
