@@ -120,18 +120,19 @@ def settle(n: int, u: IntArray, v: IntArray, w: AnyArray, matched: Sequence[tupl
     return canonical(n, tu, tv, depths(n, tu, tv, dual), matched)
 
 
-def _labels(n: int, u: IntArray, v: IntArray, label: IntArray | None = None) -> IntArray:
-    """Connected components of the edges ``(u, v)``: the least vertex of each, by label propagation.
-
-    ``label`` (when given) is refined in place of a fresh ``arange``: every
-    vertex must already carry a label of its own component or below.
-    """
-    lab = np.arange(n, dtype=np.int64) if label is None else label.copy()
+def _labels(n: int, u: IntArray, v: IntArray) -> IntArray:
+    """Connected components of the edges ``(u, v)``: the least vertex of each, by label propagation."""
+    lab = np.arange(n, dtype=np.int64)
+    ends = np.concatenate([u, v])
+    order = np.argsort(ends, kind="stable")
+    ends = ends[order]
+    first = np.flatnonzero(np.r_[True, ends[1:] != ends[:-1]]) if len(ends) else np.zeros(0, dtype=np.int64)
     while True:
         low = np.minimum(lab[u], lab[v])
         new = lab.copy()
-        np.minimum.at(new, u, low)
-        np.minimum.at(new, v, low)
+        if len(ends):  # each end takes the least label over its edges (a sort-based minimum.at)
+            least = np.minimum.reduceat(np.concatenate([low, low])[order], first)
+            new[ends[first]] = np.minimum(new[ends[first]], least)
         new = new[new]
         if np.array_equal(new, lab):
             return lab
@@ -220,19 +221,20 @@ class _Settler:
         index = np.full(self.n, -1, dtype=np.int64)
         index[verts] = np.arange(len(verts), dtype=np.int64)
         mate = self.mate
-        warm = [(int(index[a]), int(index[mate[a]])) for a in verts.tolist() if a < mate[a]]
+        lower = verts[mate[verts] > verts]
+        warm = np.stack([index[lower], index[mate[lower]]], axis=1)
         iu, iv = index[u], index[v]
-        solved = blossom.perfect_matching_arrays(len(verts), iu, iv, w, warm)
+        solved = blossom.perfect_matching_arrays(len(verts), iu, iv, w, warm.tolist())
         if solved is None:  # the current optimum is a perfect matching of these edges
             raise RuntimeError("canonical: a component lost its perfect matching")
         pairs, dual = solved
-        for a, b in pairs:
-            mate[verts[a]], mate[verts[b]] = verts[b], verts[a]
-        for y in players:
-            self.fixed[y] = self.fixed[mate[y]] = True
+        ends = verts[np.array(pairs, dtype=np.int64).reshape(-1, 2)]
+        mate[ends[:, 0]], mate[ends[:, 1]] = ends[:, 1], ends[:, 0]
+        settled = np.array(players, dtype=np.int64)
+        self.fixed[settled] = self.fixed[mate[settled]] = True
         keep = certificate.reduced_costs(iu, iv, w, dual) == 0
         self.alive[edges[~keep]] = False
-        self.depth[edges] = depths(len(verts), iu, iv, dual)
+        self.depth[edges[keep]] = depths(len(verts), iu[keep], iv[keep], dual)
 
 
 def _batch(x: int, verts: IntArray, later: Later, cap: int) -> tuple[list[int], list[IntArray], int]:
