@@ -244,7 +244,7 @@ def _batch(x: int, verts: IntArray, later: Later, cap: int) -> tuple[list[int], 
     radix = 1
     for y in verts[verts >= x].tolist():
         near = later(y)
-        if radix * (len(near) + 1) > cap:
+        if players and radix * (len(near) + 1) > cap:  # x itself always (int64 holds any one radix)
             break
         players.append(y)
         lists.append(near)
