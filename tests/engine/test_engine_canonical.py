@@ -148,6 +148,7 @@ def test_draft_is_the_brute_force_canonical_optimum(n: int, played: int, seed: i
     boards, bye = brute_draft(state)
     assert sorted(map(sorted, (frozenset((b.first, b.second)) for b in draft.boards))) == sorted(map(sorted, boards))
     assert draft.pairing_bye == bye
+    assert _drawn(draft_round(state, reference=True)) == _drawn(draft)  # networkx on the full graph
 
 
 def _swiss_fields(count: int) -> Iterator[list[ev.Event]]:
