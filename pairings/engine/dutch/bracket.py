@@ -18,8 +18,11 @@ Method (ours; the criteria are C.04.3's):
   lexicographically, exactly.
 - **Completion (C.4).** The players left for later (this bracket's floaters and
   all lower players) must still be pairable under the absolute criteria with
-  at most one PAB to an eligible player. The fast form's choice is checked
-  (:func:`completable`: Dirac's degree bound, else a matching); when the check
+  at most one PAB to an eligible player. The fast form is a relaxation (every
+  choice the exact form allows it allows too, at the same cost), so its
+  optimum is exact when it is feasible: when the players it leaves unpaired
+  below the next bracket can, with everyone lower, still be paired
+  (:func:`completable`: Dirac's degree bound, else a matching). When the check
   fails, the exact form is solved instead, which cannot leave the rest
   unpairable. Checking completion in every bracket replaces the Handbook's
   PPB/CLB re-pairing (a decision: it gives the same pairing whenever only the
@@ -138,15 +141,21 @@ class BracketSolver:
         return self.cache[key]
 
     def run(self) -> tuple[list[Pair], list[PlayerId]]:
+        """The bracket's pairs and floaters.
+
+        The fast form is a relaxation (it ignores everything below the next
+        score group): its optimum is exact when the players it leaves unpaired
+        beyond the next bracket, with everyone lower, can still be paired.
+        """
         out = self._stages(exact=False)
-        if out is not None and completable(self.ent, out[1] + list(self.br.lower)):
-            return out
+        if out is not None and completable(self.ent, out[2] + list(self.br.lower[len(self.br.next):])):
+            return out[0], out[1]
         out = self._stages(exact=True)
         if out is None:
             raise ValueError("no completion exists: the caller checks the round first")
-        return out
+        return out[0], out[1]
 
-    def _stages(self, exact: bool) -> tuple[list[Pair], list[PlayerId]] | None:
+    def _stages(self, exact: bool) -> tuple[list[Pair], list[PlayerId], list[PlayerId]] | None:
         br, fixed = self.br, []
         if br.heterogeneous:
             mdps = [p for p in br.members if p in br.mdps]
@@ -204,7 +213,7 @@ class BracketSolver:
         return out
 
     def _solve(self, exact: bool, fixed: Iterable[Pair], digits: dict[frozenset[PlayerId], Costs],
-               mdp_pairs: bool) -> tuple[list[Pair], list[PlayerId]] | None:
+               mdp_pairs: bool) -> tuple[list[Pair], list[PlayerId], list[PlayerId]] | None:
         """One solve; ``mdp_pairs`` False once the MDP pairs are fixed (Limbo MDPs then float)."""
         ent, br = self.ent, self.br
         placed = {x for pair in fixed for x in pair}
@@ -225,11 +234,13 @@ class BracketSolver:
         for i, u in enumerate(vertices):
             for v in vertices[i + 1:]:
                 if u in self.members and v in self.members:
-                    if not br.allows(ent, u, v):
+                    limbo = br.heterogeneous and not mdp_pairs and (u in br.mdps or v in br.mdps)
+                    if br.allows(ent, u, v) and not limbo:
+                        c = self.pair_cost(u, v) + digits.get(frozenset((u, v)), Counter())
+                    elif exact and not br.last and ent.compatible(u, v):  # both float, meet further down
+                        c = floats(u) + floats(v) + next_float_costs(ent, br, u) + next_float_costs(ent, br, v)
+                    else:
                         continue
-                    if br.heterogeneous and not mdp_pairs and (u in br.mdps or v in br.mdps):
-                        continue
-                    c = self.pair_cost(u, v) + digits.get(frozenset((u, v)), Counter())
                 elif not ent.compatible(u, v):
                     continue
                 elif u in self.members:
@@ -269,7 +280,8 @@ class BracketSolver:
                     pairs.append((u, vertices[m]))
             else:
                 floaters.append(u)
-        return pairs, floaters
+        beyond = [u for u in vertices if mate[idx[u]] >= len(vertices)]
+        return pairs, floaters, beyond
 
     def _alone(self, u: PlayerId, floats: Callable[[PlayerId], Costs], exact: bool) -> Costs | None:
         """The cost of ``u`` staying unpaired in this graph; None where that is not allowed.
