@@ -14,7 +14,7 @@ from typing import TYPE_CHECKING, Sequence
 
 from pairings import events as ev
 from pairings.errors import AmbiguousPlayerError, InputError, RoundStateError, UnknownPlayerError
-from pairings.state import ByeKind, EventState, PlayerId, Result, Round, RoundState, Status, System
+from pairings.state import Acceleration, ByeKind, EventState, PlayerId, Result, Round, RoundState, Status, System
 from pairings.store import StoredEvent, undo_target
 
 if TYPE_CHECKING:  # the engine (and networkx) load only for the commands that pair
@@ -23,14 +23,27 @@ if TYPE_CHECKING:  # the engine (and networkx) load only for the commands that p
 MAX_NAME = 300
 
 
+SWISS_SYSTEMS: dict[str, System] = {"whole-round": System.SWISS, "dutch": System.DUTCH}
+"""The Swiss systems by their command-line names."""
+
+
 def new_event(
     name: str, rounds: int, scoring: str = "1,0.5,0", sides: bool = True, bye_points: float | None = None,
     seed: int | None = None, round_robin: bool = False, double_round: bool = False,
+    system: str = "whole-round", acceleration: str = "none",
 ) -> ev.EventCreated:
     """The first event of a new event file, from the command line's options.
 
     ``seed`` fixes the round-1 side lot; when not given it is drawn now and recorded.
+    ``system`` names a Swiss system (:data:`SWISS_SYSTEMS`); ``acceleration``
+    ``baku`` (C.04.5.1, standard scoring 1, 0.5, 0 only) or ``none``.
     """
+    if system not in SWISS_SYSTEMS:
+        raise InputError(f"unknown system {system!r}: use {' or '.join(SWISS_SYSTEMS)}")
+    if acceleration not in {a.value for a in Acceleration}:
+        raise InputError(f"unknown acceleration {acceleration!r}: use baku or none")
+    if acceleration != Acceleration.NONE and (round_robin or double_round):
+        raise InputError("acceleration applies to Swiss systems, not to a round robin")
     name = clean_text(name, "event name")
     if rounds < 1:
         raise InputError(f"the number of rounds must be 1 or more (got {rounds})")
@@ -40,6 +53,8 @@ def new_event(
         raise InputError(f"scoring {scoring!r} must be three numbers: win,draw,loss (e.g. 1,0.5,0)") from None
     if not (win > loss >= 0 and loss <= draw <= win):
         raise InputError(f"scoring {scoring!r}: a win must score more than a loss, and draws lie between")
+    if acceleration == Acceleration.BAKU and (win, draw, loss) != (1.0, 0.5, 0.0):
+        raise InputError("the Baku acceleration (C.04.5.1) is for the standard scoring 1,0.5,0 only")
     points = win if bye_points is None else bye_points
     if not 0 <= points <= win:
         raise InputError(f"bye points {points} must lie between 0 and a win ({win})")
@@ -47,7 +62,8 @@ def new_event(
         name=name, rounds=rounds, scoring=ev.ScoringModel(win=win, draw=draw, loss=loss),
         sides=("White", "Black") if sides else None, bye_points=points, requested_bye_points=draw,
         seed=secrets.randbelow(2**31) if seed is None else seed,
-        system=System.ROUND_ROBIN if round_robin or double_round else System.SWISS, double_round=double_round,
+        system=System.ROUND_ROBIN if round_robin or double_round else SWISS_SYSTEMS[system],
+        double_round=double_round, acceleration=Acceleration(acceleration),
     )
 
 

@@ -14,7 +14,7 @@ from pydantic import BaseModel, ConfigDict, Field, ValidationError
 from pairings import events as ev
 from pairings.actions import clean_text
 from pairings.errors import InputError
-from pairings.state import ByeKind, EventState, Result, RoundState, Status
+from pairings.state import Acceleration, ByeKind, EventState, Result, RoundState, Settings, Status, System
 
 FORMAT = "pairings-event"
 VERSION = 1
@@ -35,6 +35,8 @@ def export_event(state: EventState) -> dict[str, Any]:
             "scoring": {"win": _number(s.scoring.win), "draw": _number(s.scoring.draw), "loss": _number(s.scoring.loss)},
             "sides": list(s.sides) if s.sides else None,
             "bye_points": _number(s.bye_points),
+            "system": _system_name(s),
+            "acceleration": None if s.acceleration is Acceleration.NONE else s.acceleration.value,
         },
         "players": [
             {"id": p.id, "name": p.name, "rating": p.rating, "club": p.club, "status": p.status.value}
@@ -56,6 +58,17 @@ def export_event(state: EventState) -> dict[str, Any]:
     }
 
 
+SYSTEM_NAMES: dict[str, tuple[System, bool]] = {
+    "whole-round": (System.SWISS, False), "dutch": (System.DUTCH, False),
+    "round-robin": (System.ROUND_ROBIN, False), "double-round-robin": (System.ROUND_ROBIN, True),
+}
+"""The document's ``event.system`` values: the system and whether the round robin is double."""
+
+
+def _system_name(s: Settings) -> str:
+    return next(name for name, value in SYSTEM_NAMES.items() if value == (s.system, s.double_round))
+
+
 class _Strict(BaseModel):
     model_config = ConfigDict(extra="forbid", strict=False)
 
@@ -72,6 +85,8 @@ class _Event(_Strict):
     scoring: _Scoring
     sides: tuple[str, str] | None
     bye_points: float
+    system: Literal["whole-round", "dutch", "round-robin", "double-round-robin"] = "whole-round"
+    acceleration: Literal["baku"] | None = None
 
 
 class _Player(_Strict):
@@ -167,6 +182,8 @@ def restore_events(data: object) -> list[ev.Event]:
             name=e.name, rounds=e.rounds,
             scoring=ev.ScoringModel(win=e.scoring.win, draw=e.scoring.draw, loss=e.scoring.loss),
             sides=e.sides, bye_points=e.bye_points, requested_bye_points=e.scoring.draw,
+            system=SYSTEM_NAMES[e.system][0], double_round=SYSTEM_NAMES[e.system][1],
+            acceleration=Acceleration(e.acceleration or "none"),
         )
     ]
     out += [ev.PlayerRegistered(id=p.id, name=p.name, rating=p.rating, club=p.club) for p in doc.players]

@@ -49,7 +49,7 @@ def complete_pairings(ent: Entrants, players: Sequence[PlayerId]) -> Iterator[tu
     first, rest = players[0], players[1:]
     for k, other in enumerate(rest):
         if ent.compatible(first, other):
-            for tail, _ in complete_pairings(ent, rest[:k] + rest[k + 1:]):
+            for tail, _ in complete_pairings(ent, [*rest[:k], *rest[k + 1:]]):
                 yield [(first, other)] + tail, None
 
 
