@@ -22,6 +22,7 @@ from __future__ import annotations
 import argparse
 import time
 import tracemalloc
+from dataclasses import replace
 from typing import Callable, TypeVar
 
 from pairings.engine import draft_round
@@ -30,7 +31,7 @@ from pairings.engine.criteria import Field
 from pairings.engine.solver import fast_available
 from pairings.fold import fold
 from pairings.simulate import simulate_events
-from pairings.state import EventState
+from pairings.state import EventState, System
 
 T = TypeVar("T")
 
@@ -87,6 +88,17 @@ def bench_one(n: int, rounds: int, played: int, seed: int, reference_limit: int)
             f"{ref_cell} | {ratio_cell} | {how} | {cost} |")
 
 
+def bench_dutch(n: int, rounds: int, played: int, seed: int) -> str:
+    """One row: the FIDE (Dutch) System against the whole-round system on the same simulated state."""
+    state = fold(enumerate(simulate_events(n, rounds, played, seed), 1))
+    _, whole_s = _timed(lambda: draft_round(state))
+    dutch = replace(state, settings=replace(state.settings, system=System.DUTCH))
+    draft, dutch_s = _timed(lambda: draft_round(dutch))
+    floats = sum(1 for b in draft.boards if any(f.startswith("gap") for f in b.flags))
+    return (f"| {n:,} | {played + 1} of {rounds} | {whole_s:.2f} | {dutch_s:.2f} | {dutch_s / whole_s:.1f} | "
+            f"{len(draft.boards):,} | {floats} |")
+
+
 def bench_fold(n: int, rounds: int, seed: int) -> str:
     """Time folding a log of ``n`` players and ``rounds`` complete rounds."""
     log = simulate_events(n, rounds, rounds, seed)
@@ -104,6 +116,7 @@ def main(argv: list[str] | None = None) -> None:
     parser.add_argument("--reference-limit", type=int, default=512,
                         help="largest field also solved by networkx on the full graph (default %(default)s)")
     parser.add_argument("--fold", type=int, default=0, help="also time folding a whole log of this many players")
+    parser.add_argument("--dutch", default="", help="comma-separated field sizes also drafted by the Dutch system")
     args = parser.parse_args(argv)
     engine = "compiled blossom and pair scan (implicit pruned pairs)" if implicit.available() else \
         f"{'rustworkx (compiled)' if fast_available() else 'networkx'} on the listed pruned pairs"
@@ -112,6 +125,12 @@ def main(argv: list[str] | None = None) -> None:
     print("| ---: | :---: | ---: | ---: | ---: | ---: | ---: | :--- | :--- |")
     for n in (int(x) for x in args.sizes.split(",")):
         print(bench_one(n, args.rounds, args.played, args.seed, args.reference_limit), flush=True)
+    if args.dutch:
+        print("\nFIDE (Dutch) System against the whole-round system, same state:")
+        print("| players | round | whole-round s | Dutch s | ratio | boards | floating boards |")
+        print("| ---: | :---: | ---: | ---: | ---: | ---: | ---: |")
+        for n in (int(x) for x in args.dutch.split(",")):
+            print(bench_dutch(n, args.rounds, args.played, args.seed), flush=True)
     if args.fold:
         print(bench_fold(args.fold, args.rounds, args.seed))
 

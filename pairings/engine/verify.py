@@ -80,6 +80,10 @@ def verify_round(state: EventState, round_number: int) -> RoundCheck:
         seen.add(pid)
     if breaches:
         return RoundCheck(round_number, tuple(breaches), (), None, False)
+    if before.settings.system is System.DUTCH:
+        from pairings.engine.dutch.verify import check_round  # the Dutch criteria, C.04.3
+
+        return check_round(state, before, round_number)
     fld = Field(before, round_number, list(seen))
     for g in stored.games:
         cost = fld.pair(g.first, g.second, (g.first, g.second))[1]
