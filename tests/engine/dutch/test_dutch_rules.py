@@ -201,3 +201,37 @@ def test_cli_new_dutch_baku(tmp_path: Path, capsys: pytest.CaptureFixture[str]) 
     bad = cli("new", tmp_path / "g.pairings", "--name", "X", "--rounds", "5", "--acceleration", "baku",
               "--scoring", "3,1,0")
     assert bad.code == 2 and "standard scoring" in bad.err
+
+
+def test_why_panel_speaks_the_dutch_criteria() -> None:
+    # The hand-derived round 2 above: 3 and 6 (drawn, they have met) float into the 0-point bracket.
+    from pairings.engine import explain
+
+    log = _event(6, seed=_seed_with_white())
+    _record(log, 1, [Result.FIRST_WINS, Result.SECOND_WINS, Result.DRAW])
+    st = state_of(log)
+    draft = draft_round(st)
+    lines = explain(st, draft, 2).lines()
+    text = "\n".join(lines)
+    assert "bracket of 0 points (4 players, 2 moved down)" in text
+    assert f"{P[2]} was left unpaired in the 0.5-point bracket: only 0 of its 2 players could be paired" in text
+    assert "colours: rule 1: both colour preferences granted" in text
+    assert "PAB" not in text
+    nine = _event(9, seed=_seed_with_white())
+    st9 = state_of(nine)
+    text9 = "\n".join(explain(st9, draft_round(st9), 4).lines())
+    assert f"PAB: {P[8]}, left over by the last bracket" in text9
+    assert "rule 5: the initial colour" in text9
+
+
+def test_why_panel_names_virtual_points_whole_round() -> None:
+    from pairings.engine import explain
+
+    st = state_of(new_event([2400 - 10 * i for i in range(8)], rounds=5, acceleration=Acceleration.BAKU, seed=3))
+    draft = draft_round(st)
+    text = "\n".join(explain(st, draft, 1).lines())
+    assert "carries 1 virtual point(s) this round (Baku acceleration, pairing only)" in text
+    dutch = state_of(new_event([2400 - 10 * i for i in range(8)], rounds=5, acceleration=Acceleration.BAKU,
+                               system=System.DUTCH, seed=3))
+    text = "\n".join(explain(dutch, draft_round(dutch), 1).lines())
+    assert "pairing score 1, of which 1 virtual (Baku)" in text
