@@ -51,7 +51,10 @@ from __future__ import annotations
 from collections import Counter
 from typing import Callable, Iterable, Sequence
 
+import numpy as np
+
 from pairings.engine import blossom
+from pairings.engine.certificate import reduced_costs
 from pairings.engine.dutch.criteria import (
     Bracket, Costs, Layer, float_costs, next_float_costs, next_pair_costs, pair_costs,
 )
@@ -63,25 +66,51 @@ CostEdge = tuple[int, int, Costs]
 
 
 def encode(edges: Sequence[CostEdge]) -> list[tuple[int, int, int]]:
-    """Integer weights whose maximum perfect matching minimises the cost layers lexicographically."""
-    layers = sorted({layer for _, _, c in edges for layer, n in c.items() if n})
-    top: dict[tuple[int, Layer], int] = {}
-    for u, v, c in edges:
+    """Integer weights whose maximum perfect matching minimises the cost layers lexicographically.
+
+    A layer's total over a matching is at most half the sum, over vertices,
+    of the layer's largest value on an edge at that vertex (each matched
+    edge's value is at most the mean of its two ends' largest values); its
+    radix is one more. Edges may share cost objects: each distinct one is
+    packed once.
+    """
+    if not edges:
+        return []
+    distinct: dict[int, Costs] = {}
+    which = np.empty(len(edges), dtype=np.int64)
+    slot: dict[int, int] = {}
+    for k, (_, _, c) in enumerate(edges):
+        key = id(c)
+        if key not in slot:
+            slot[key] = len(slot)
+            distinct[slot[key]] = c
+        which[k] = slot[key]
+    layers = sorted({layer for c in distinct.values() for layer, n in c.items() if n})
+    if not layers:
+        return [(u, v, 1) for u, v, _ in edges]
+    col = {layer: j for j, layer in enumerate(layers)}
+    table = np.zeros((len(distinct), len(layers)), dtype=np.int64)
+    for i, c in distinct.items():
         for layer, n in c.items():
-            for x in (u, v):
-                if n > top.get((x, layer), 0):
-                    top[x, layer] = n
-    bound: Counter[Layer] = Counter()
-    for (_, layer), n in top.items():
-        bound[layer] += n
-    scale: dict[Layer, int] = {}
+            if n:
+                table[i, col[layer]] = n
+    u = np.fromiter((e[0] for e in edges), dtype=np.int64, count=len(edges))
+    v = np.fromiter((e[1] for e in edges), dtype=np.int64, count=len(edges))
+    size = int(max(u.max(), v.max())) + 1
+    top = np.zeros((size, len(layers)), dtype=np.int64)
+    values = table[which]
+    np.maximum.at(top, u, values)
+    np.maximum.at(top, v, values)
+    bound = (top.sum(axis=0) + 1) // 2
+    scale: list[int] = [0] * len(layers)
     step = 1
-    for layer in reversed(layers):
-        scale[layer] = step
-        step *= bound[layer] + 1
-    costs = [sum(n * scale[layer] for layer, n in c.items() if n) for _, _, c in edges]
-    ceiling = max(costs, default=0) + 1
-    return [(u, v, ceiling - cost) for (u, v, _), cost in zip(edges, costs)]
+    for j in reversed(range(len(layers))):
+        scale[j] = step
+        step *= int(bound[j]) + 1
+    packed = [sum(int(n) * scale[j] for j, n in enumerate(row) if n) for row in table.tolist()]
+    costs = [packed[k] for k in which.tolist()]
+    ceiling = max(costs) + 1
+    return [(a, b, ceiling - cost) for (a, b, _), cost in zip(edges, costs)]
 
 
 def solve(n: int, edges: Sequence[CostEdge]) -> list[tuple[int, int]] | None:
@@ -125,20 +154,200 @@ def _dirac(ent: Entrants, players: Sequence[PlayerId]) -> bool:
     return True
 
 
+Edge = tuple[int, int, Costs, "Pair | None", int]
+"""``(u, v, quality costs, the bracket pair it stands for or None, penalty)``."""
+
+
+class _Graph:
+    """A bracket's matching graph, its quality-optimal face, and lexicographic tie-break solves.
+
+    Built once per form (fast or exact). :meth:`optimise` solves the quality
+    layers and keeps the optimal dual; afterwards every edge carries a penalty
+    (1 if its reduced cost is not zero, plus 1 for each blossom with a positive
+    dual it crosses). By complementary slackness a perfect matching is
+    quality-optimal exactly when all its edges are tight and it crosses every
+    such blossom once, i.e. when its penalty is the least possible, so the
+    tie-break solves minimise (penalty, digits) on small integers instead of
+    (quality, digits) on large ones. Removing both players of a pair that the
+    current optimum holds, or edges that it does not use, keeps that property
+    (an optimal matching survives, and crossing counts keep their parity).
+    """
+
+    def __init__(self, solver: "BracketSolver", exact: bool) -> None:
+        self.solver = solver
+        ent, br = solver.ent, solver.br
+        self.vertices = list(br.members) + (list(br.lower) if exact else list(br.next))
+        self.real = len(self.vertices)
+        self.index = {p: i for i, p in enumerate(self.vertices)}
+        idx = self.index
+        edges: list[Edge] = []
+        for i, u in enumerate(self.vertices):
+            for v in self.vertices[i + 1:]:
+                pair: Pair | None = None
+                if u in solver.members and v in solver.members:
+                    if br.allows(ent, u, v):
+                        c, pair = solver.pair_cost(u, v), (u, v)
+                    elif exact and not br.last and ent.compatible(u, v):  # both float, meet further down
+                        c = solver.lone(u) + solver.lone(v)
+                    else:
+                        continue
+                elif not ent.compatible(u, v):
+                    continue
+                elif u in solver.members:
+                    c = solver.below(u, v)
+                elif u in solver.next and v in solver.next:
+                    c = solver.shared(("next pair", ent.score[u], ent.score[v]),
+                                      lambda: next_pair_costs(ent, br, u, v))
+                elif u in solver.next or v in solver.next:
+                    c = solver.shared(("next float", u if u in solver.next else v),
+                                      lambda: next_float_costs(ent, br, u if u in solver.next else v))
+                else:
+                    c = solver.shared(("nothing",), Counter)
+                edges.append((idx[u], idx[v], c, pair, 0))
+        alone = [solver.alone(u, exact) for u in self.vertices]
+        n = self.real
+        self.copies = 1 if exact else 2
+        if exact:
+            if n % 2:
+                edges += [(i, n, c, None, 0) for i, c in enumerate(alone) if c is not None]
+                n += 1
+        else:
+            edges += [(u + n, v + n, c, pair, 0) for u, v, c, pair, _ in edges]
+            edges += [(i, i + n, c + c, None, 0) for i, c in enumerate(alone) if c is not None]
+            n *= 2
+        self.n = n
+        self.edges = edges
+        self.alive = set(range(n))
+        self.mate: dict[int, int] = {}
+
+    def optimise(self) -> bool:
+        """Solve the quality layers; False when no perfect matching exists."""
+        weights = encode([(u, v, c) for u, v, c, _, _ in self.edges])
+        found = blossom.perfect_matching(self.n, weights)
+        if found is None:
+            return False
+        pairs, dual = found
+        self._read(pairs)
+        u = np.array([e[0] for e in weights], dtype=np.int64)
+        v = np.array([e[1] for e in weights], dtype=np.int64)
+        w = np.array([e[2] for e in weights], dtype=object)
+        tight = reduced_costs(u, v, w, dual) == 0
+        crossings = np.zeros(len(weights), dtype=np.int64)
+        for group, z in dual.blossoms:
+            if z > 0:
+                inside = np.zeros(self.n, dtype=bool)
+                inside[list(group)] = True
+                crossings += inside[u] != inside[v]
+        # An optimal matching uses tight edges only: the others can go.
+        self.edges = [(a, b, c, pair, int(x)) for (a, b, c, pair, _), x, t
+                      in zip(self.edges, crossings.tolist(), tight.tolist()) if t]
+        return True
+
+    def _read(self, pairs: Iterable[tuple[int, int]]) -> None:
+        for a, b in pairs:
+            self.mate[a], self.mate[b] = b, a
+
+    def tiebreak(self, digits: Callable[[Pair], int], limit: int) -> None:
+        """Among the quality-optimal matchings left, one with the least ``digits`` summed over its pairs.
+
+        ``limit`` exceeds the digits' sum over any matching, so one more
+        penalty always outweighs them.
+        """
+        order = sorted(self.alive)
+        local = {x: i for i, x in enumerate(order)}
+        costs: list[tuple[int, int, int]] = []
+        for a, b, _, pair, pen in self.edges:
+            if a in self.alive and b in self.alive:
+                costs.append((local[a], local[b], pen * limit + (digits(pair) if pair is not None else 0)))
+        ceiling = max((c for _, _, c in costs), default=0) + 1
+        found = blossom.perfect_matching(len(order), [(a, b, ceiling - c) for a, b, c in costs])
+        assert found is not None, "a quality-optimal matching survives every restriction"
+        self._read((order[a], order[b]) for a, b in found[0])
+
+    def drop(self, test: Callable[[int, Pair | None], bool]) -> None:
+        """Remove every edge at a vertex ``u`` for which ``test(u, pair)`` holds (both copies)."""
+        def bad(a: int, b: int, pair: Pair | None) -> bool:
+            return test(a % self.base, pair) or test(b % self.base, pair)
+
+        self.edges = [e for e in self.edges if not bad(e[0], e[1], e[3])]
+
+    @property
+    def base(self) -> int:
+        return self.real if self.copies == 2 else self.n + 1
+
+    def remove(self, players: Iterable[PlayerId]) -> None:
+        """Take the players (a decided pair) out of every copy."""
+        for p in players:
+            i = self.index[p]
+            self.alive.discard(i)
+            self.alive.discard(i + self.real)
+
+    def partner(self, p: PlayerId) -> PlayerId | None:
+        """``p``'s partner inside the bracket in the current matching (None: floats)."""
+        m = self.mate[self.index[p]]
+        return self.vertices[m] if m < self.real and self.vertices[m] in self.solver.members else None
+
+    def beyond(self) -> list[PlayerId]:
+        """Players the current matching leaves unpaired in the graph (fast form: floating below it)."""
+        return [p for i, p in enumerate(self.vertices) if i in self.alive and self.mate[i] >= self.real]
+
+
 class BracketSolver:
     """Pairs one bracket: :meth:`run` returns its pairs and its floaters (C.04.3 via matching)."""
 
     def __init__(self, ent: Entrants, br: Bracket, cache: dict[frozenset[PlayerId], Costs]) -> None:
         self.ent, self.br, self.cache = ent, br, cache
-        self.bsn = {p: i + 1 for i, p in enumerate(br.members)}
         self.members = set(br.members)
         self.next = set(br.next)
+        self.memo: dict[tuple[object, ...], Costs] = {}
 
     def pair_cost(self, u: PlayerId, v: PlayerId) -> Costs:
         key = frozenset((u, v))
         if key not in self.cache:
             self.cache[key] = pair_costs(self.ent, self.br, u, v)[0]
         return self.cache[key]
+
+    def shared(self, key: tuple[object, ...], make: Callable[[], Costs]) -> Costs:
+        """One cost object per key (edges share them; :func:`encode` packs each once). Never mutated."""
+        if key not in self.memo:
+            self.memo[key] = make()
+        return self.memo[key]
+
+    def floats(self, u: PlayerId) -> Costs:
+        """``u`` leaves the bracket unpaired (an MDP floating again also counts for the MDP digit)."""
+        def make() -> Costs:
+            c = float_costs(self.ent, self.br, u)
+            if self.br.heterogeneous and u in self.br.mdps:
+                c[200, 0] += 1
+            return c
+
+        return self.shared(("float", u), make)
+
+    def lone(self, u: PlayerId) -> Costs:
+        """``u`` floats from the bracket and is not paired in the next one either."""
+        return self.shared(("lone", u), lambda: self.floats(u) + (
+            next_float_costs(self.ent, self.br, u) if self.br.next else Counter()))
+
+    def below(self, u: PlayerId, v: PlayerId) -> Costs:
+        """Member ``u`` floats and meets ``v`` below the bracket (in the next bracket or further down)."""
+        if v in self.next:
+            return self.shared(("meets next", u, self.ent.score[v]), lambda: self.floats(u) + next_pair_costs(
+                self.ent, self.br, u, v))
+        return self.lone(u)
+
+    def alone(self, u: PlayerId, exact: bool) -> Costs | None:
+        """The cost of ``u`` staying unpaired in a graph; None where that is not allowed.
+
+        Exact form: only the PAB-eligible may take the bye vertex. Fast form: a
+        relaxation (anybody may float below the graph, except from the last
+        bracket and, when nothing lies below it, from the next score group).
+        """
+        ent, br = self.ent, self.br
+        cost = self.lone(u) if u in self.members else \
+            next_float_costs(ent, br, u) if u in self.next else Counter()
+        if exact or br.last or (u in self.next and len(br.lower) == len(br.next)):
+            return cost if u in ent.pab_eligible else None
+        return cost
 
     def run(self) -> tuple[list[Pair], list[PlayerId]]:
         """The bracket's pairs and floaters.
@@ -147,156 +356,136 @@ class BracketSolver:
         score group): its optimum is exact when the players it leaves unpaired
         beyond the next bracket, with everyone lower, can still be paired.
         """
-        out = self._stages(exact=False)
-        if out is not None and completable(self.ent, out[2] + list(self.br.lower[len(self.br.next):])):
-            return out[0], out[1]
-        out = self._stages(exact=True)
-        if out is None:
+        g = _Graph(self, exact=False)
+        if g.optimise():
+            pairs = self._decide(g)
+            if completable(self.ent, g.beyond() + list(self.br.lower[len(self.br.next):])):
+                return pairs, self._floaters(pairs)
+        g = _Graph(self, exact=True)
+        if not g.optimise():
             raise ValueError("no completion exists: the caller checks the round first")
-        return out[0], out[1]
+        pairs = self._decide(g)
+        return pairs, self._floaters(pairs)
 
-    def _stages(self, exact: bool) -> tuple[list[Pair], list[PlayerId], list[PlayerId]] | None:
-        br, fixed = self.br, []
+    def _floaters(self, pairs: list[Pair]) -> list[PlayerId]:
+        paired = {p for pair in pairs for p in pair}
+        return [p for p in self.br.members if p not in paired]
+
+    def _decide(self, g: _Graph) -> list[Pair]:
+        """Fix the bracket's pairs in the Handbook's generation order (MDP part first, then the remainder)."""
+        br = self.br
+        fixed: list[Pair] = []
         if br.heterogeneous:
             mdps = [p for p in br.members if p in br.mdps]
             residents = [p for p in br.members if p not in br.mdps]
-            m1 = min(len(mdps), len(residents))
-            while True:
-                got = self._solve(exact, [], self._mdp_digits(mdps, residents, m1), True)
-                if got is None:
-                    return None
-                fixed = [(a, b) for a, b in got[0] if (a in br.mdps) != (b in br.mdps)]
-                if len(fixed) == m1:
-                    break
-                m1 = len(fixed)
-        placed = {x for pair in fixed for x in pair}
-        rest = [p for p in br.members if p not in placed and (not br.heterogeneous or p not in br.mdps)]
-        pairs = len(rest) // 2
-        while True:
-            got = self._solve(exact, fixed, self._remainder_digits(rest, pairs), False)
-            if got is None:
-                return None
-            made = sum(1 for a, b in got[0] if a in set(rest) and b in set(rest))
-            if made == pairs:
-                return got
-            pairs = made
+            made = sum(1 for m in mdps if g.partner(m) is not None)
+            fixed += self._choose(g, mdps, residents, made, lambda a, b: a if a in br.mdps else b,
+                                  lambda a, b: (a in br.mdps) != (b in br.mdps))
+            limbo = {g.index[m] for m in mdps if all(m not in pair for pair in fixed)}
+            g.drop(lambda u, pair: pair is not None and u in limbo)
+        rest = [p for p in br.members if all(p not in pair for pair in fixed)
+                and not (br.heterogeneous and p in br.mdps)]
+        inside = set(rest)
+        made = sum(1 for p in rest if (q := g.partner(p)) is not None and q in inside) // 2
+        rank = {p: i for i, p in enumerate(rest)}
+        fixed += self._choose(g, rest, rest, made, lambda a, b: a if rank[a] < rank[b] else b,
+                              lambda a, b: a in inside and b in inside)
+        return fixed
 
-    def _mdp_digits(self, mdps: list[PlayerId], residents: list[PlayerId], m1: int
-                    ) -> dict[frozenset[PlayerId], Costs]:
-        """MDP exchange (D.3) and MDP-pairing transposition digits on the MDP-resident pairs."""
-        out: dict[frozenset[PlayerId], Costs] = {}
-        size, base = len(mdps), len(residents) + 1
-        for i, m in enumerate(mdps, 1):
-            for k, r in enumerate(residents, 1):
-                c: Costs = Counter()
-                c[210, 0] = 1 if i > m1 else 0
-                c[211, 0] = i
-                c[212, 0] = 2 ** i if i <= m1 else 0
-                c[213, 0] = 2 ** size - (2 ** (size - i) if i > m1 else 0)
-                c[214, 0] = k * base ** (size - i)
-                out[frozenset((m, r))] = c
-        return out
+    def _choose(self, g: _Graph, leads: list[PlayerId], follows: list[PlayerId], count: int,
+                lead_of: Callable[[PlayerId, PlayerId], PlayerId], relevant: Callable[[PlayerId, PlayerId], bool]
+                ) -> list[Pair]:
+        """One phase of the generation order: exchanges (which ``leads`` are S1), then transpositions.
 
-    def _remainder_digits(self, rest: list[PlayerId], pairs: int) -> dict[frozenset[PlayerId], Costs]:
-        """Resident exchange (D.2) and transposition (D.1) digits on the remainder's pairs."""
-        out: dict[frozenset[PlayerId], Costs] = {}
-        size, base = len(rest), len(rest) + 1
-        for ja, a in enumerate(rest, 1):
-            for jb in range(ja + 1, size + 1):
-                c: Costs = Counter()
-                c[220, 0] = 1 if ja > pairs else 0
-                c[221, 0] = ja
-                c[222, 0] = 2 ** ja if ja <= pairs else 0
-                c[223, 0] = 2 ** size - (2 ** (size - ja) if ja > pairs else 0)
-                c[224, 0] = jb * base ** (size - ja)
-                out[frozenset((a, rest[jb - 1]))] = c
-        return out
-
-    def _solve(self, exact: bool, fixed: Iterable[Pair], digits: dict[frozenset[PlayerId], Costs],
-               mdp_pairs: bool) -> tuple[list[Pair], list[PlayerId], list[PlayerId]] | None:
-        """One solve; ``mdp_pairs`` False once the MDP pairs are fixed (Limbo MDPs then float)."""
-        ent, br = self.ent, self.br
-        placed = {x for pair in fixed for x in pair}
-        members = [p for p in br.members if p not in placed]
-        below = list(br.lower) if exact else list(br.next)
-        vertices = members + below
-        idx = {p: i for i, p in enumerate(vertices)}
-        n = len(vertices)
-        mdp_float: Costs = Counter({(200, 0): 1})
-        edges: list[CostEdge] = []
-
-        def floats(u: PlayerId) -> Costs:
-            c = float_costs(ent, br, u)
-            if br.heterogeneous and u in br.mdps:
-                c = c + mdp_float
-            return c
-
-        for i, u in enumerate(vertices):
-            for v in vertices[i + 1:]:
-                if u in self.members and v in self.members:
-                    limbo = br.heterogeneous and not mdp_pairs and (u in br.mdps or v in br.mdps)
-                    if br.allows(ent, u, v) and not limbo:
-                        c = self.pair_cost(u, v) + digits.get(frozenset((u, v)), Counter())
-                    elif exact and not br.last and ent.compatible(u, v):  # both float, meet further down
-                        c = floats(u) + floats(v) + next_float_costs(ent, br, u) + next_float_costs(ent, br, v)
-                    else:
-                        continue
-                elif not ent.compatible(u, v):
-                    continue
-                elif u in self.members:
-                    c = floats(u) + (next_pair_costs(ent, br, u, v) if v in self.next
-                                     else next_float_costs(ent, br, u) if br.next else Counter())
-                elif u in self.next and v in self.next:
-                    c = next_pair_costs(ent, br, u, v)
-                elif u in self.next or v in self.next:
-                    c = next_float_costs(ent, br, u if u in self.next else v)
-                else:
-                    c = Counter()
-                edges.append((idx[u], idx[v], c))
-        lone = [self._alone(u, floats, exact) for u in vertices]
-        if exact:
-            if n % 2:
-                edges += [(idx[u], n, c) for u, c in zip(vertices, lone) if c is not None]
-                n += 1
-            found = solve(n, edges)
-            if found is None:
-                return None
-            mate = {}
-            for a, b in found:
-                mate[a], mate[b] = b, a
-        else:
-            doubled = edges + [(u + n, v + n, c) for u, v, c in edges]
-            doubled += [(i, i + n, c + c) for i, c in enumerate(lone) if c is not None]
-            found = solve(2 * n, doubled)
-            if found is None:
-                return None
-            mate = {a: b for a, b in found if a < n} | {b: a for a, b in found if b < n}
-        pairs = list(fixed)
-        floaters = []
-        for u in members:
-            m = mate[idx[u]]
-            if m < len(vertices) and vertices[m] in self.members:
-                if idx[u] < m:
-                    pairs.append((u, vertices[m]))
-            else:
-                floaters.append(u)
-        beyond = [u for u in vertices if mate[idx[u]] >= len(vertices)]
-        return pairs, floaters, beyond
-
-    def _alone(self, u: PlayerId, floats: Callable[[PlayerId], Costs], exact: bool) -> Costs | None:
-        """The cost of ``u`` staying unpaired in this graph; None where that is not allowed.
-
-        Exact form: only the PAB-eligible may take the bye vertex. Fast form: a
-        relaxation (anybody may float below the graph, except from the last
-        bracket and, when nothing lies below it, from the next score group).
+        ``count`` pairs are made between S1 (``count`` of ``leads``) and
+        ``follows``; a pair's S1 side is ``lead_of(pair)``. Returns the pairs,
+        fixed in the graph.
         """
-        ent, br = self.ent, self.br
-        if u in self.members:
-            cost = floats(u) + (next_float_costs(ent, br, u) if br.next else Counter())
-        elif u in self.next:
-            cost = next_float_costs(ent, br, u)
-        else:
-            cost = Counter()
-        if exact or br.last or (u in self.next and len(br.lower) == len(br.next)):
-            return cost if u in ent.pab_eligible else None
-        return cost
+        rank = {p: i + 1 for i, p in enumerate(leads)}
+        frank = {p: i + 1 for i, p in enumerate(follows)}
+        if count == 0:
+            return []
+
+        def lead(pair: Pair) -> PlayerId | None:
+            return lead_of(*pair) if relevant(*pair) else None
+
+        copies = g.copies
+        spread = copies * len(leads) ** 2 + 1
+        swap_limit = (copies * len(leads) + 1) * spread
+
+        def swaps(pair: Pair) -> int:  # tests 1 and 2: players swapped, then the BSN sum
+            x = lead(pair)
+            return 0 if x is None else int(rank[x] > count) * spread + rank[x]
+
+        g.tiebreak(swaps, swap_limit)
+        chosen = self._leads(g, leads, lead)
+        if chosen != set(leads[:count]):
+            chosen = self._membership(g, leads, count, lead, swaps, swap_limit)
+        members = {g.index[p] for p in chosen}
+        others = {g.index[p] for p in leads if p not in chosen}
+        g.drop(lambda u, pair: (u in members and (pair is None or lead(pair) != g.vertices[u]))
+               or (u in others and pair is not None and lead(pair) == g.vertices[u]))
+        order = sorted(chosen, key=rank.__getitem__)
+        width = max(1, (100 - g.n.bit_length()) // (len(follows) + 1).bit_length())
+        out: list[Pair] = []
+        for start in range(0, len(order), width):
+            block = {p: k for k, p in enumerate(order[start:start + width])}
+            size = len(block)
+
+            base = len(follows) + 1
+
+            def places(pair: Pair, block: dict[PlayerId, int] = block, size: int = size, base: int = base) -> int:
+                x = lead(pair)
+                if x is None or x not in block:
+                    return 0
+                y = pair[1] if pair[0] == x else pair[0]
+                return frank[y] * int(base ** (size - 1 - block[x]))
+
+            g.tiebreak(places, copies * base ** size)
+            for x in block:
+                y = g.partner(x)
+                assert y is not None
+                out.append((x, y))
+                g.remove((x, y))
+        return out
+
+    def _leads(self, g: _Graph, leads: list[PlayerId], lead: Callable[[Pair], PlayerId | None]) -> set[PlayerId]:
+        out = set()
+        for p in leads:
+            q = g.partner(p)
+            if q is not None and lead((p, q)) == p:
+                out.add(p)
+        return out
+
+    def _membership(self, g: _Graph, leads: list[PlayerId], count: int, lead: Callable[[Pair], PlayerId | None],
+                    swaps: Callable[[Pair], int], swap_limit: int) -> set[PlayerId]:
+        """Tests 3 and 4 of the exchange order, a block of players at a time, highest S1 BSN first."""
+        width = max(1, 100 - 5 * g.n.bit_length())
+        s1 = leads[:count][::-1]
+        s2 = leads[count:]
+        for group, keep in ((s1, False), (s2, True)):
+            for start in range(0, len(group), width):
+                block = {p: k for k, p in enumerate(group[start:start + width])}
+                size = len(block)
+                spread = g.copies * len(leads) * 2 ** size + 1
+
+                def bits(pair: Pair, block: dict[PlayerId, int] = block, size: int = size, keep: bool = keep,
+                         spread: int = spread) -> int:
+                    x = lead(pair)
+                    if x is None:
+                        return 0
+                    # test 3: an S1 player leaving S1 is preferred, the higher BSN first (cost to stay);
+                    # test 4: an S2 player entering S1 is preferred, the lower BSN first (reward to enter)
+                    if keep:
+                        extra = 2 ** size - (2 ** (size - 1 - block[x]) if x in block else 0)
+                    else:
+                        extra = 2 ** (size - 1 - block[x]) if x in block else 0
+                    return swaps(pair) * spread + int(extra)
+
+                g.tiebreak(bits, swap_limit * spread)
+                now = self._leads(g, leads, lead)
+                inside = {g.index[p] for p in block if p in now}
+                outside = {g.index[p] for p in block if p not in now}
+                g.drop(lambda u, pair: (u in inside and (pair is None or lead(pair) != g.vertices[u]))
+                       or (u in outside and pair is not None and lead(pair) == g.vertices[u]))
+        return self._leads(g, leads, lead)
