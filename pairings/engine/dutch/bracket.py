@@ -173,10 +173,11 @@ class _Graph:
     (an optimal matching survives, and crossing counts keep their parity).
     """
 
-    def __init__(self, solver: "BracketSolver", exact: bool) -> None:
+    def __init__(self, solver: "BracketSolver", form: str, slots: int = 0) -> None:
         self.solver = solver
         ent, br = solver.ent, solver.br
-        self.vertices = list(br.members) + (list(br.lower) if exact else list(br.next))
+        exact = form == "exact"
+        self.vertices = list(br.members) + (list(br.lower) if exact else list(br.next) if form == "fast" else [])
         self.real = len(self.vertices)
         self.index = {p: i for i, p in enumerate(self.vertices)}
         idx = self.index
@@ -206,8 +207,14 @@ class _Graph:
                 edges.append((idx[u], idx[v], c, pair, 0))
         alone = [solver.alone(u, exact) for u in self.vertices]
         n = self.real
-        self.copies = 1 if exact else 2
-        if exact:
+        self.copies = 2 if form == "fast" else 1
+        if form == "compact":  # ``slots`` places to float to, each open to every member
+            for k in range(slots):
+                edges += [(i, n + k, solver.floats(u), None, 0) for i, u in enumerate(self.vertices)
+                          if not br.last or u in ent.pab_eligible]
+                edges += [(n + k, n + j, solver.shared(("nothing",), Counter), None, 0) for j in range(k + 1, slots)]
+            n += slots
+        elif exact:
             if n % 2:
                 edges += [(i, n, c, None, 0) for i, c in enumerate(alone) if c is not None]
                 n += 1
@@ -280,7 +287,8 @@ class _Graph:
         for p in players:
             i = self.index[p]
             self.alive.discard(i)
-            self.alive.discard(i + self.real)
+            if self.copies == 2:
+                self.alive.discard(i + self.real)
 
     def partner(self, p: PlayerId) -> PlayerId | None:
         """``p``'s partner inside the bracket in the current matching (None: floats)."""
@@ -350,22 +358,61 @@ class BracketSolver:
         return cost
 
     def run(self) -> tuple[list[Pair], list[PlayerId]]:
-        """The bracket's pairs and floaters.
+        """The bracket's pairs and floaters, by the cheapest form that is provably exact here.
 
-        The fast form is a relaxation (it ignores everything below the next
-        score group): its optimum is exact when the players it leaves unpaired
-        beyond the next bracket, with everyone lower, can still be paired.
+        1. Compact form: the bracket alone, with as few float places as let it
+           be paired (so C.5 is met). Exact when its floaters all hold the
+           bracket's lowest score (no candidate can float lower ones, and C.6
+           fixed their number) and the next bracket can then be paired at its
+           ideal for C.7 (every floater meets a next-group player, the rest of
+           that group pairs up, one left over at most) with the rest of the
+           round still pairable: then no candidate does better on C.7, and the
+           compact choice, best on every other criterion, is the first best.
+        2. Fast form (bracket and next group): a relaxation, exact when the
+           players it leaves below the next bracket, with everyone lower, can
+           still be paired.
+        3. Exact form: every lower player in the graph.
         """
-        g = _Graph(self, exact=False)
+        members = len(self.br.members)
+        for slots in range(members % 2, min(members, 4) + 1, 2):
+            g = _Graph(self, "compact", slots)
+            if g.optimise():
+                pairs = self._decide(g)
+                if self._ideal_rest(self._floaters(pairs)):
+                    return pairs, self._floaters(pairs)
+                break
+        g = _Graph(self, "fast")
         if g.optimise():
             pairs = self._decide(g)
             if completable(self.ent, g.beyond() + list(self.br.lower[len(self.br.next):])):
                 return pairs, self._floaters(pairs)
-        g = _Graph(self, exact=True)
+        g = _Graph(self, "exact")
         if not g.optimise():
             raise ValueError("no completion exists: the caller checks the round first")
         pairs = self._decide(g)
         return pairs, self._floaters(pairs)
+
+    def _ideal_rest(self, floaters: list[PlayerId]) -> bool:
+        """The compact form's exactness test (see :meth:`run`); a concrete completion is built."""
+        ent, br = self.ent, self.br
+        if br.last:
+            return True
+        if any(ent.score[f] != br.score for f in floaters) or len(floaters) > len(br.next):
+            return False
+        free = list(br.next)
+        for f in floaters:
+            mate = next((q for q in free if ent.compatible(f, q)), None)
+            if mate is None:
+                return False
+            free.remove(mate)
+        beyond = list(br.lower[len(br.next):])
+        if len(free) % 2:
+            for x in reversed(free):
+                rest = [q for q in free if q != x]
+                if _dirac(ent, rest) and completable(ent, [x] + beyond):
+                    return True
+            return False
+        return _dirac(ent, free) and completable(ent, beyond)
 
     def _floaters(self, pairs: list[Pair]) -> list[PlayerId]:
         paired = {p for pair in pairs for p in pair}
