@@ -254,18 +254,24 @@ class _Graph:
         for a, b in pairs:
             self.mate[a], self.mate[b] = b, a
 
-    def tiebreak(self, digits: Callable[[Pair], int], limit: int) -> None:
+    def tiebreak(self, digits: Callable[[Pair], int], limit: int, only: Iterable[PlayerId] | None = None) -> None:
         """Among the quality-optimal matchings left, one with the least ``digits`` summed over its pairs.
 
         ``limit`` exceeds the digits' sum over any matching, so one more
-        penalty always outweighs them.
+        penalty always outweighs them; ``only``: the players whose pairs can
+        carry digits (the others' pairs carry none).
         """
-        order = sorted(self.alive)
+        alive = self.alive
+        order = sorted(alive)
         local = {x: i for i, x in enumerate(order)}
+        near = None if only is None else {self.index[p] for p in only}
         costs: list[tuple[int, int, int]] = []
         for a, b, _, pair, pen in self.edges:
-            if a in self.alive and b in self.alive:
-                costs.append((local[a], local[b], pen * limit + (digits(pair) if pair is not None else 0)))
+            if a in alive and b in alive:
+                extra = 0
+                if pair is not None and (near is None or a % self.base in near or b % self.base in near):
+                    extra = digits(pair)
+                costs.append((local[a], local[b], pen * limit + extra))
         ceiling = max((c for _, _, c in costs), default=0) + 1
         found = blossom.perfect_matching(len(order), [(a, b, ceiling - c) for a, b, c in costs])
         assert found is not None, "a quality-optimal matching survives every restriction"
@@ -488,7 +494,7 @@ class BracketSolver:
                 y = pair[1] if pair[0] == x else pair[0]
                 return frank[y] * int(base ** (size - 1 - block[x]))
 
-            g.tiebreak(places, copies * base ** size)
+            g.tiebreak(places, copies * base ** size, block)
             for x in block:
                 y = g.partner(x)
                 assert y is not None

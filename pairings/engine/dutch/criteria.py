@@ -98,14 +98,15 @@ def pair_costs(ent: Entrants, br: Bracket, u: PlayerId, v: PlayerId) -> tuple[Co
     colours = allocate(ent, u, v)
     hi, lo = (u, v) if ent.score[u] >= ent.score[v] else (v, u)
     sd = ent.score[hi] - ent.score[lo]
-    c[60, -sd] += 1
-    wide, third = breaks(ent, colours)
+    c[60, -sd] = 1
     if hi in ent.topscorers or lo in ent.topscorers:
-        c[80, 0] += len(wide)
-        c[90, 0] += len(third)
+        wide, third = breaks(ent, colours)
+        c[80, 0] = len(wide)
+        c[90, 0] = len(third)
     lost = missed(ent, colours)
-    c[100, 0] += len(lost)
-    c[110, 0] += sum(1 for p in lost if ent.pref[p].strength >= 2)
+    if lost:
+        c[100, 0] = len(lost)
+        c[110, 0] = sum(1 for p in lost if ent.pref[p].strength >= 2)
     if sd:
         for back, part in ((1, 0), (2, 20)):
             if _repeat(ent, lo, Float.UP, back):
