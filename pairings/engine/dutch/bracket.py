@@ -2,45 +2,43 @@
 
 Method (ours; the criteria are C.04.3's):
 
-- **Graph.** Fast form: the bracket's members and the next score group, each
-  given a private way to stay unpaired by the doubling construction (two
-  copies of the graph, every vertex joined to its own copy by an edge carrying
-  the cost of staying unpaired: a perfect matching of the doubled graph is two
-  equally good matchings of the original, so its optimum is one optimum of the
-  original twice). Exact form: the members and *every* lower player (plus one
-  bye vertex when the count is odd, joined to the PAB-eligible players), as a
-  plain perfect matching: a member matched below the bracket floats.
-- **Weights.** Every edge carries the counts of :mod:`.criteria` (C.5-C.19) and,
-  below them, the generation-order digits of this module; the counts are
-  packed into one integer per edge, each layer's radix above the largest total
-  any perfect matching can reach (the sum over vertices of the layer's largest
-  incident value), so the maximum-weight perfect matching minimises the layers
-  lexicographically, exactly.
-- **Completion (C.4).** The players left for later (this bracket's floaters and
-  all lower players) must still be pairable under the absolute criteria with
-  at most one PAB to an eligible player. The fast form is a relaxation (every
-  choice the exact form allows it allows too, at the same cost), so its
-  optimum is exact when it is feasible: when the players it leaves unpaired
-  below the next bracket can, with everyone lower, still be paired
-  (:func:`completable`: Dirac's degree bound, else a matching). When the check
-  fails, the exact form is solved instead, which cannot leave the rest
-  unpairable. Checking completion in every bracket replaces the Handbook's
-  PPB/CLB re-pairing (a decision: it gives the same pairing whenever only the
-  bracket just above the unpairable rest has to change).
-- **Generation order (the final tie-break).** Two solves per bracket:
-  a heterogeneous bracket first fixes its MDP pairs with the MDP-exchange and
-  MDP-transposition digits, then the remainder (or a homogeneous bracket) is
-  solved with the remainder's exchange and transposition digits. Why digits
-  reproduce the order exactly (see :func:`.generation.generation_key`): among
-  equally good candidates, (1) the number of swapped players and (2) the sum
-  difference are sums over the pairs' lower BSNs; (3) "the S1-to-S2 group holds
-  the highest differing BSN" is a binary comparison, cost ``2**j`` for an
-  original S1 player ``j`` who stays S1's side of his pair; (4) "the S2-to-S1
-  group holds the lowest differing BSN" likewise with reward ``2**(n - j)``;
-  and the lexicographic order of transpositions is the partner's BSN in base
-  ``n + 1`` at the digit of the S1 player's BSN. Each solve is told the number
-  of pairs it will make (S1's size): first the upper bound, then, if fewer are
-  made, the number made, which the quality layers already fixed.
+- **Weights.** Every edge carries the counts of :mod:`.criteria` (C.5-C.19);
+  :func:`encode` packs them into one integer per edge, each layer's radix above
+  the largest total any perfect matching can reach, so the maximum-weight
+  perfect matching minimises the layers lexicographically, exactly.
+- **Graphs** (:class:`_Graph`), tried in this order, each used only when it is
+  provably exact for the bracket at hand (:meth:`BracketSolver.run`):
+  *compact*, the bracket alone plus as few float places as let it be paired;
+  *fast*, the bracket and the next score group, each vertex given a private
+  way to stay unpaired by doubling the graph (two copies, each vertex joined
+  to its own copy: a perfect matching of the doubled graph is two equally good
+  matchings of the original); *exact*, the bracket and every lower player (plus
+  one bye vertex, joined to the PAB-eligible, when the count is odd), where a
+  member matched below the bracket floats.
+- **Completion (C.4).** The players left for later must still be pairable
+  under the absolute criteria with at most one PAB to an eligible player
+  (:func:`completable`: Dirac's degree bound, else a matching). The compact
+  and fast forms are relaxations; each is accepted only with a completion at
+  hand. Checking completion in every bracket replaces the Handbook's PPB/CLB
+  re-pairing (a decision: it gives the same pairing whenever only the bracket
+  just above the unpairable rest has to change).
+- **Generation order (the final tie-break).** After the quality solve, the
+  optimal dual marks the quality-optimal face: an edge's penalty is 1 if its
+  reduced cost is not zero, plus 1 per positive-dual blossom it crosses; by
+  complementary slackness the matchings of least penalty are exactly the
+  quality-optimal ones. Tie-break solves then minimise (penalty, digits) on
+  small integers, deciding the generation order step by step (heterogeneous
+  brackets: MDP part first, then the remainder; see
+  :func:`.generation.generation_key` for why the first appearance of a
+  candidate is the exchange whose S1 holds each pair's lower BSN):
+  (1, 2) players swapped and BSN sum: sums over the pairs' S1 sides;
+  (3) "the S1-to-S2 group holds the highest differing BSN": binary digits, a
+  cost ``2**k`` for an original S1 player who stays, highest BSN first;
+  (4) "the S2-to-S1 group holds the lowest differing BSN": a reward likewise;
+  then the transpositions, lexicographic in the partners' BSNs, a block of S1
+  places at a time (digit base ``len(S2) + 1``), each block's pairs fixed
+  before the next. Digits that would pass the compiled kernel's integers are
+  avoided by the block sizes; the pure-Python blossom takes any size.
 - A last bracket that cannot be paired without pairing MDPs with each other
   is paired as one homogeneous group (the collapsed last bracket: our reading
   of the Handbook's CLB).
