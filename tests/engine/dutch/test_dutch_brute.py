@@ -7,7 +7,8 @@ criterion or the completion criterion (the rest of the round must stay
 pairable: every pairing of the rest is enumerated), evaluates C.5-C.19 one
 candidate at a time (C.7: the best next bracket over every pairing of the
 rest) and keeps the first best. The engine must choose the same pairs,
-floaters and PAB in every bracket of every round.
+floaters and PAB in every bracket of every round (events with draws,
+forfeits, requested byes, withdrawals and late entries).
 """
 
 from __future__ import annotations
@@ -129,9 +130,15 @@ def _events(seed: int) -> Iterator[EventState]:
                     system=System.DUTCH, seed=seed)
     for r in range(1, rounds + 1):
         state = state_of(log)
+        if r > 1 and rng.random() < 0.15:  # a late entry
+            log.append(ev.PlayerRegistered(id=f"late{r}", name=f"Late Entrant {r}", rating=rng.randint(1200, 2400),
+                                           entry_round=r))
         for pid in state.available(r):
-            if rng.random() < 0.06:
+            x = rng.random()
+            if x < 0.06:
                 log.append(ev.ByeRequested(player=pid, round=r, kind="requested"))  # type: ignore[arg-type]
+            elif x < 0.09 and r > 1:
+                log.append(ev.PlayerWithdrawn(player=pid, from_round=r))
         state = state_of(log)
         if len(state.available(r)) < 2:
             return
