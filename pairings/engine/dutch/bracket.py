@@ -307,17 +307,34 @@ class _Graph:
 class BracketSolver:
     """Pairs one bracket: :meth:`run` returns its pairs and its floaters (C.04.3 via matching)."""
 
-    def __init__(self, ent: Entrants, br: Bracket, cache: dict[frozenset[PlayerId], Costs]) -> None:
+    def __init__(self, ent: Entrants, br: Bracket, cache: dict[object, Costs]) -> None:
         self.ent, self.br, self.cache = ent, br, cache
         self.members = set(br.members)
         self.next = set(br.next)
         self.memo: dict[tuple[object, ...], Costs] = {}
 
     def pair_cost(self, u: PlayerId, v: PlayerId) -> Costs:
-        key = frozenset((u, v))
+        """The pair's costs, shared by every pair of the same two player profiles.
+
+        Outside topscorers' pairs the costs depend only on the two scores,
+        colour preferences (side and strength) and float histories: when both
+        want one colour exactly one misses it, the weaker (rule 2) or one of
+        equal strength, so who gets it changes no count.
+        """
+        ent = self.ent
+        if u in ent.topscorers or v in ent.topscorers:
+            key: object = frozenset((u, v))
+        else:
+            hi, lo = (u, v) if ent.score[u] >= ent.score[v] else (v, u)
+            a, b = self.profile(hi), self.profile(lo)
+            key = (a, b) if ent.score[hi] != ent.score[lo] else frozenset((a, b))
         if key not in self.cache:
-            self.cache[key] = pair_costs(self.ent, self.br, u, v)[0]
+            self.cache[key] = pair_costs(ent, self.br, u, v)[0]
         return self.cache[key]
+
+    def profile(self, p: PlayerId) -> tuple[object, ...]:
+        pref = self.ent.pref[p]
+        return (self.ent.score[p], pref.side, pref.strength, self.ent.floats[p])
 
     def shared(self, key: tuple[object, ...], make: Callable[[], Costs]) -> Costs:
         """One cost object per key (edges share them; :func:`encode` packs each once). Never mutated."""
