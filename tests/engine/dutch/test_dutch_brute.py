@@ -31,7 +31,7 @@ from pairings.engine.dutch.generation import heterogeneous
 from pairings.engine.dutch.rounds import bracket_of, players_of
 from pairings.engine.types import Overrides
 from pairings.errors import NoPairingError
-from pairings.state import EventState, PlayerId, System
+from pairings.state import Acceleration, EventState, PlayerId, System
 
 Pair = tuple[PlayerId, PlayerId]
 
@@ -122,12 +122,12 @@ def brute_plan(state: EventState) -> list[tuple[set[frozenset[PlayerId]], set[Pl
     return out
 
 
-def _events(seed: int) -> Iterator[EventState]:
+def _events(seed: int, **settings: object) -> Iterator[EventState]:
     rng = random.Random(seed)
     n = rng.randint(4, 9)
     rounds = rng.randint(3, 6)
     log = new_event([rng.choice([None, rng.randint(1200, 2400)]) for _ in range(n)], rounds=rounds,
-                    system=System.DUTCH, seed=seed)
+                    system=System.DUTCH, seed=seed, **settings)
     for r in range(1, rounds + 1):
         state = state_of(log)
         if r > 1 and rng.random() < 0.15:  # a late entry
@@ -153,6 +153,15 @@ def _events(seed: int) -> Iterator[EventState]:
 @pytest.mark.parametrize("seed", range(60))
 def test_blossom_matches_brute_force(seed: int) -> None:
     for state in _events(seed):
+        mine = plan(state)
+        got = [({frozenset(p) for p in b.pairs}, set(b.floaters)) for b in mine.brackets]
+        assert got == brute_plan(state), f"round {state.next_round_number}"
+
+
+@pytest.mark.parametrize("seed", range(100, 115))
+def test_blossom_matches_brute_force_without_sides_and_accelerated(seed: int) -> None:
+    settings: dict[str, object] = {"sides": None} if seed % 2 else {"acceleration": Acceleration.BAKU}
+    for state in _events(seed, **settings):
         mine = plan(state)
         got = [({frozenset(p) for p in b.pairs}, set(b.floaters)) for b in mine.brackets]
         assert got == brute_plan(state), f"round {state.next_round_number}"
