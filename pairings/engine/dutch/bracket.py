@@ -489,21 +489,37 @@ class BracketSolver:
             chosen = self._membership(g, leads, count, relevant, lead, swaps, swap_limit, heads)
         self._settle(g, leads, chosen, relevant, lead)
         order = sorted(chosen, key=leads.index)
-        base = len(follows) + 1
-        width = max(1, (100 - g.n.bit_length()) // base.bit_length())
+        budget = 2 ** max(8, 100 - g.n.bit_length())
         out: list[Pair] = []
-        for start in range(0, len(order), width):
-            block = order[start:start + width]
-            place = np.full(g.n, -1, dtype=np.int64)
-            place[[g.index[p] for p in block]] = np.arange(len(block))
-            weight = np.array([base ** (len(block) - 1 - k) for k in range(len(block))] + [0], dtype=object)
-            at = np.where(relevant, place[lead], -1)
-            g.tiebreak(np.where(at >= 0, frank[follow].astype(object) * weight[at], 0), g.copies * base ** len(block))
-            for x in block:
+        k = 0
+        while k < len(order):
+            # Transpositions: each S1 player's partner digit is its rank among the partners still
+            # possible for him (the BSN order kept), so a block holds as many places as the budget allows.
+            ids = np.flatnonzero(relevant & g.keep & g.live[g.eu] & g.live[g.ev])
+            ids = ids[np.argsort(lead[ids], kind="stable")]
+            heads_of = lead[ids]
+            block: list[tuple[PlayerId, NDArray[np.int64], NDArray[np.int64]]] = []
+            product = 1
+            for x in order[k:]:
+                lo, hi = np.searchsorted(heads_of, g.index[x], "left"), np.searchsorted(heads_of, g.index[x], "right")
+                mine = ids[lo:hi]
+                options = np.unique(frank[follow[mine]])
+                if block and product * len(options) > budget:
+                    break
+                block.append((x, mine, options))
+                product *= max(1, len(options))
+            digits = np.zeros(len(g.eu), dtype=object)
+            weight = product
+            for x, mine, options in block:
+                weight //= max(1, len(options))
+                digits[mine] = np.searchsorted(options, frank[follow[mine]]).astype(object) * weight
+            g.tiebreak(digits, g.copies * product)
+            for x, _, _ in block:
                 y = g.partner(x)
                 assert y is not None
                 out.append((x, y))
                 g.remove((x, y))
+            k += len(block)
         return out
 
     def _leads(self, g: _Graph, leads: list[PlayerId], heads: Callable[[PlayerId, PlayerId], bool]
