@@ -272,3 +272,18 @@ def test_same_draft_with_and_without_the_compiled_kernel() -> None:
         assert [(b.first, b.second) for b in fast.boards] == [(b.first, b.second) for b in slow.boards]
         assert fast.pairing_bye == slow.pairing_bye
         play(log, fast, rng)
+
+
+def test_swap_keeps_the_dutch_colours_and_board_order() -> None:
+    # The hand-derived round 2 (2-1, 4-3, 6-5); swapping 3 and 5 re-pairs by hand 3-6 (a rematch of round 1,
+    # flagged) and 4-5. Dutch colours: 3 had White, 6 Black: 6 gets White (rule 1); 4 had Black, 5 White:
+    # 4 gets White. Board order: 6-3 (0.5 points each) before 4-5.
+    from pairings.engine import swap
+
+    log = _event(6, seed=_seed_with_white())
+    _record(log, 1, [Result.FIRST_WINS, Result.SECOND_WINS, Result.DRAW])
+    st = state_of(log)
+    swapped = swap(st, draft_round(st), P[2], P[4])
+    assert [(b.first, b.second) for b in swapped.boards] == [(P[1], P[0]), (P[5], P[2]), (P[3], P[4])]
+    assert all("changed" in b.flags for b in swapped.boards[1:])
+    assert "rematch" in swapped.boards[1].flags and "rematch" not in swapped.boards[2].flags
