@@ -32,7 +32,7 @@ from __future__ import annotations
 
 from fractions import Fraction
 from math import gcd, lcm
-from typing import Iterable, Mapping, Sequence
+from typing import Iterable, Mapping
 
 from pairings.engine.acceleration import virtual_points
 from pairings.engine.criteria import ABSOLUTE, Preference, preference, score_unit
@@ -169,7 +169,3 @@ class Entrants:
                 out.append([p])
         return out
 
-
-def in_order(ent: Entrants, players: Sequence[PlayerId]) -> list[PlayerId]:
-    """``players`` sorted by Art. 1.2 (the bracket sequence numbers' order)."""
-    return sorted(players, key=ent.rank.__getitem__)
