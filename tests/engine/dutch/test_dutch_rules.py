@@ -287,3 +287,14 @@ def test_swap_keeps_the_dutch_colours_and_board_order() -> None:
     assert [(b.first, b.second) for b in swapped.boards] == [(P[1], P[0]), (P[5], P[2]), (P[3], P[4])]
     assert all("changed" in b.flags for b in swapped.boards[1:])
     assert "rematch" in swapped.boards[1].flags and "rematch" not in swapped.boards[2].flags
+
+
+def test_baku_late_entrant_joins_by_rank() -> None:
+    # C.04.5.1 (read): the last GA player stays last of GA; a late entrant ranked above him joins GA
+    # (our reading: membership by rank), one ranked below joins GB. N = 8 -> GA = 1-4, boundary player 4.
+    log = new_event([2400 - 10 * i for i in range(8)], rounds=9, acceleration=Acceleration.BAKU)
+    log.append(ev.PlayerRegistered(id="hi", name="High Late", rating=2395, entry_round=2))
+    log.append(ev.PlayerRegistered(id="lo", name="Low Late", rating=2355, entry_round=2))
+    st = state_of(log)
+    ga = group_a(st, st.initial_rank())
+    assert ga == frozenset(P[:4]) | {PlayerId("hi")}
