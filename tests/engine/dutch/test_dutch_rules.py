@@ -298,3 +298,26 @@ def test_baku_late_entrant_joins_by_rank() -> None:
     st = state_of(log)
     ga = group_a(st, st.initial_rank())
     assert ga == frozenset(P[:4]) | {PlayerId("hi")}
+
+
+def test_a_dutch_event_from_the_command_line(tmp_path: Path, capsys: pytest.CaptureFixture[str]) -> None:
+    import json
+
+    def ok(*args: object) -> str:
+        code = main([str(a) for a in args])
+        out = capsys.readouterr()
+        assert code == 0, out.err
+        return out.out
+
+    path = tmp_path / "d.pairings"
+    ok("new", path, "--name", "Dutch Club", "--rounds", "3", "--system", "dutch", "--seed", "5")
+    for i, name in enumerate(["Ada Quince", "Bo Rill", "Cy Marsh", "Dee Fenn", "Eli Stowe"]):
+        ok("player", "add", path, "--name", name, "--rating", 2000 - 100 * i)
+    for rnd in (1, 2):
+        doc = json.loads(ok("pair", path, "--json"))
+        assert len(doc["games"]) == 2 and all("flags" in g for g in doc["games"])
+        ok("publish", path)
+        for board in (1, 2):
+            ok("result", path, board, "1-0")
+    report = ok("verify", path)
+    assert "Dutch system run again: same pairs and PAB" in report
