@@ -23,6 +23,7 @@ from fractions import Fraction
 from math import gcd, lcm
 from typing import Iterable
 
+from pairings.engine.acceleration import virtual_points
 from pairings.state import EventState, Float, PlayerId, Side
 
 ABSOLUTE, STRONG, MILD, NONE = 3, 2, 1, 0
@@ -107,7 +108,11 @@ class Field:
                 in_units[score] = int(round(Fraction(score).limit_denominator(1000) / self.unit))
             return in_units[score]
 
-        self.units: dict[PlayerId, int] = {pid: units(recs[pid].score_before(round_number)) for pid in players}
+        # Pairing score: the real score plus any virtual points of an accelerated round (C.04.5.1).
+        self.virtual = virtual_points(state, round_number, state.initial_rank())
+        self.units: dict[PlayerId, int] = {
+            pid: units(recs[pid].score_before(round_number) + float(self.virtual.get(pid, 0))) for pid in players
+        }
         # Rank during the event: score descending, then initial rank (rules.md).
         self.order: tuple[PlayerId, ...] = tuple(sorted(self.units, key=lambda p: (-self.units[p], initial[p])))
         self.index = {pid: i for i, pid in enumerate(self.order)}
