@@ -26,7 +26,10 @@ same round's full candidate graph (every allowed pair and bye; its exact
 weights need more than rustworkx's 128-bit integers, so it solves the same
 graph with each weight cut to its top 62 bits: the solver's work, not an exact
 optimum), and the text standings (target at most 0.3 s) with the reports' own
-table layout and with rich laying the tables out.
+table layout and with rich laying the tables out. ``--rating-list N`` times one streamed read of a
+generated N-line FIDE rating list (default two million lines) for a 500-player event.
+``--dutch 1000,10000`` also drafts the same states by the FIDE (Dutch) System and prints
+its time against the whole-round system's in the same run.
 """
 
 from __future__ import annotations
@@ -38,6 +41,7 @@ import sys
 import tempfile
 import time
 import tracemalloc
+from dataclasses import replace
 from pathlib import Path
 from typing import Callable, TypeVar
 
@@ -52,7 +56,7 @@ from pairings.engine.solver import fast_available
 from pairings.fold import fold
 from pairings.reports import render, text
 from pairings.simulate import simulate_events
-from pairings.state import EventState
+from pairings.state import EventState, System
 from pairings.store import EventStore
 
 T = TypeVar("T")
@@ -108,6 +112,17 @@ def bench_one(n: int, rounds: int, played: int, seed: int, reference_limit: int)
     cost = ", ".join(f"{k} {v}" for k, v in draft.cost.items() if v)
     return (f"| {n:,} | {played + 1} of {rounds} | {fold_s:.2f} | {engine_s:.2f} | {peak:.0f} | "
             f"{ref_cell} | {ratio_cell} | {how} | {cost} |")
+
+
+def bench_dutch(n: int, rounds: int, played: int, seed: int) -> str:
+    """One row: the FIDE (Dutch) System against the whole-round system on the same simulated state."""
+    state = fold(enumerate(simulate_events(n, rounds, played, seed), 1))
+    _, whole_s = _timed(lambda: draft_round(state))
+    dutch = replace(state, settings=replace(state.settings, system=System.DUTCH))
+    draft, dutch_s = _timed(lambda: draft_round(dutch))
+    floats = sum(1 for b in draft.boards if any(f.startswith("gap") for f in b.flags))
+    return (f"| {n:,} | {played + 1} of {rounds} | {whole_s:.2f} | {dutch_s:.2f} | {dutch_s / whole_s:.1f} | "
+            f"{len(draft.boards):,} | {floats} |")
 
 
 def bench_fold(n: int, rounds: int, seed: int) -> str:
@@ -204,6 +219,41 @@ def bench_startup(n: int, rounds: int, played: int, seed: int) -> list[str]:
     return out
 
 
+def bench_rating_list(lines: int, players: int, seed: int) -> str:
+    """Time one streamed pass over a generated FIDE-layout list of ``lines`` lines (a temp file) for an
+    event of ``players`` players: half with a FIDE ID somewhere in the list, a tenth looked for by name."""
+    import random
+    import tempfile
+    from pathlib import Path
+
+    from pairings import events as ev
+    from pairings.ratinglist import FIDE_COLUMNS, FIDE_HEADINGS, plan_update, read_list_file
+
+    rng = random.Random(seed)
+    widths = [b - a for a, b in zip(FIDE_COLUMNS, FIDE_COLUMNS[1:])] + [4]
+    chosen = set(rng.sample(range(lines), players))
+    log: list[ev.Event] = [ev.EventCreated(name="List bench", rounds=9, seed=seed)]
+    with tempfile.TemporaryDirectory() as tmp:
+        path = Path(tmp) / "players_list.txt"
+        with open(path, "w", encoding="utf-8") as f:
+            f.write("".join(h.ljust(w) for h, w in zip(FIDE_HEADINGS, widths)).rstrip() + "\n")
+            for i in range(lines):
+                fide_id, name = str(10_000_000 + i), f"Surname{i}, Given{i % 977}"
+                values = (fide_id, name, "ENG", "M", "", "", "", "", str(1400 + i % 1400), "0", "20", "", "", "",
+                          "", "", "", str(1950 + i % 60), "")
+                f.write("".join(v.ljust(w) for v, w in zip(values, widths)).rstrip() + "\n")
+                if i in chosen:
+                    by_name = len(log) % 10 == 0
+                    log.append(ev.PlayerRegistered(id=f"p{len(log)}", name=f"Given{i % 977} Surname{i}",
+                                                   details=ev.PlayerDetailsModel(fide_id=None if by_name else fide_id)))
+        state = fold(enumerate(log, 1))
+        size = path.stat().st_size
+        found, seconds, peak = _peak_mb(lambda: read_list_file(path, state))
+    plan = plan_update(state, found, accept_names=True)
+    return (f"rating list: {lines:,} lines ({size / 2**20:.0f} MB), {players:,} players: {seconds:.2f} s, "
+            f"{len(plan.changes):,} matched, peak memory {peak:.0f} MB (streamed line by line)")
+
+
 def main(argv: list[str] | None = None) -> None:
     parser = argparse.ArgumentParser(prog="python -m pairings.bench", description=__doc__.splitlines()[0])
     parser.add_argument("--sizes", default="64,256,512,1000,2000",
@@ -218,6 +268,9 @@ def main(argv: list[str] | None = None) -> None:
                         help="also time whole-process pair and text standings at this size (default %(default)s; 0: skip)")
     parser.add_argument("--verify", type=int, default=10000,
                         help="also time verifying one round of this many players (default %(default)s; 0: skip)")
+    parser.add_argument("--rating-list", type=int, default=2_000_000, metavar="LINES",
+                        help="lines of the generated FIDE rating list read once (default %(default)s; 0 skips it)")
+    parser.add_argument("--dutch", default="", help="comma-separated field sizes also drafted by the Dutch system")
     args = parser.parse_args(argv)
     engine = "compiled blossom and pair scan (implicit pruned pairs)" if implicit.available() else \
         f"{'rustworkx (compiled)' if fast_available() else 'networkx'} on the listed pruned pairs"
@@ -226,6 +279,12 @@ def main(argv: list[str] | None = None) -> None:
     print("| ---: | :---: | ---: | ---: | ---: | ---: | ---: | :--- | :--- |")
     for n in (int(x) for x in args.sizes.split(",")):
         print(bench_one(n, args.rounds, args.played, args.seed, args.reference_limit), flush=True)
+    if args.dutch:
+        print("\nFIDE (Dutch) System against the whole-round system, same state:")
+        print("| players | round | whole-round s | Dutch s | ratio | boards | floating boards |")
+        print("| ---: | :---: | ---: | ---: | ---: | ---: | ---: |")
+        for n in (int(x) for x in args.dutch.split(",")):
+            print(bench_dutch(n, args.rounds, args.played, args.seed), flush=True)
     if args.fold:
         print(bench_fold(args.fold, args.rounds, args.seed))
     if args.startup:
@@ -233,6 +292,8 @@ def main(argv: list[str] | None = None) -> None:
             print(line, flush=True)
     if args.verify:
         print(bench_verify(args.verify, args.rounds, args.played, args.seed), flush=True)
+    if args.rating_list:
+        print(bench_rating_list(args.rating_list, 500, args.seed), flush=True)
 
 
 if __name__ == "__main__":

@@ -18,10 +18,11 @@ from typing import Any, Callable, NoReturn, Sequence
 
 from pairings import actions
 from pairings.cliawards import add_award_commands
+from pairings.clirated import add_info_options, add_rated_commands
 from pairings.errors import InputError, NoPairingError, PairingsError
 from pairings.events import BreachAccepted, NoShowKept, Undone
 from pairings.printouts import FORMATS, KINDS, PAPERS
-from pairings.state import ByeKind, EventState, PlayerDetails, RoundState
+from pairings.state import ByeKind, EventState, PlayerDetails, RoundState, Settings
 from pairings.store import EventStore
 from pairings.text import cells, counted, fit, one_line, plain
 
@@ -340,7 +341,7 @@ def _report(a: argparse.Namespace, kind: str) -> None:
         chosen = check_tiebreaks(a.tiebreaks)
         state = replace(state, settings=replace(state.settings, tiebreaks=chosen))
     out = render(state, kind, a.format, getattr(a, "round", None), category=getattr(a, "category", None),
-                 paper=getattr(a, "paper", None))
+                 paper=getattr(a, "paper", None), ratings=getattr(a, "ratings", False))
     if a.output:
         from pairings.reports.files import write_file
 
@@ -361,27 +362,42 @@ def cmd_publish_web(a: argparse.Namespace) -> None:
 
 
 def cmd_settings(a: argparse.Namespace) -> None:
-    from pairings.regulations import change_settings, changed_after_notes, settings_document, settings_lines
+    from pairings.clirated import info_change
+    from pairings.eventinfo import info_lines, set_event_info
+    from pairings.regulations import change_settings, changed_after_notes, settings_lines
 
-    texts = _setting_texts(a)
-    if texts:
+    texts, info = _setting_texts(a), info_change(a)
+    if texts or info:
         before = _open_state(a.event)
-        state = _run(a.event, lambda s: change_settings(s, texts))
+        state = _run(a.event, lambda s: (change_settings(s, texts) if texts else [])
+                     + (set_event_info(s, info) if info else []))
         if a.json:
-            _json(settings_document(state.settings))
+            _json(_settings_json(state.settings))
             return
         for line in _changed_lines(before, state):
             _say(line)
+        for (label, old), (_, new) in zip(info_lines(before.settings), info_lines(state.settings)):
+            if old != new:
+                _say(f"{label}: {plain(old)} -> {plain(new)}")
         for note in changed_after_notes(state.settings)[len(before.settings.changed_after):]:
             _say(note)
         return
     with _open(a.event) as store:
         settings = store.state.settings
     if a.json:
-        _json(settings_document(settings))
+        _json(_settings_json(settings))
         return
-    for label, value in settings_lines(settings):
+    for label, value in settings_lines(settings) + info_lines(settings):
         _say(f"{label + ':':<32} {plain(value)}")
+
+
+def _settings_json(settings: Settings) -> dict[str, Any]:
+    """The interchange document's ``event`` object (its ``report`` part only when a detail is set)."""
+    from pairings.eventinfo import info_document
+    from pairings.regulations import settings_document
+
+    report = info_document(settings)
+    return settings_document(settings) | ({"report": report} if report else {})
 
 
 def _open_state(path: str) -> EventState:
@@ -401,15 +417,37 @@ def cmd_export(a: argparse.Namespace) -> None:
     from pairings.interchange import export_event, export_log
 
     with _open(a.event) as store:
-        doc = export_event(store.state)
+        state = store.state
+        log = store.log if a.log else None
+    if a.format == "trf":
         if a.log:
-            doc["log"] = export_log(store.log)
-        _json(doc)
+            raise InputError("export: --log goes with the JSON document, not the report file")
+        from pairings.trf import write_trf
+
+        text = write_trf(state)
+    else:
+        doc = export_event(state)
+        if log is not None:
+            doc["log"] = export_log(log)
+        text = json.dumps(doc, indent=2, ensure_ascii=False) + "\n"
+    if a.output:
+        from pairings.reports.files import write_file
+
+        write_file(Path(a.output), text)
+        _say(f"wrote {a.output}")
+    else:
+        sys.stdout.write(text)
 
 
 def cmd_restore(a: argparse.Namespace) -> None:
     from pairings.interchange import restore
 
+    if _is_trf(a.file):
+        from pairings.trf import read_trf
+
+        EventStore.create_from(Path(a.event), read_trf(_read_text(a.file))).close()
+        _say(f"restored {a.event} from the report file")
+        return
     try:
         doc = json.loads(Path(a.file).read_text(encoding="utf-8-sig"))
     except OSError as exc:
@@ -421,6 +459,27 @@ def cmd_restore(a: argparse.Namespace) -> None:
     for line in restored.lost:
         print(f"pairings: not restored: {one_line(line)}", file=sys.stderr)
     _say(f"restored {a.event}")
+
+
+def _read_text(path: str) -> str:
+    try:
+        return Path(path).read_bytes().decode("utf-8-sig")
+    except OSError as exc:
+        raise InputError(f"{path}: cannot read ({exc.strerror})") from None
+    except UnicodeDecodeError as exc:
+        raise InputError(f"{path}: not UTF-8 text (byte {exc.start + 1})") from None
+
+
+def _is_trf(path: str) -> bool:
+    """A FIDE report file: named ``*.trf``, or a file whose first record is a TRF tag (``012 ...``)."""
+    if path.lower().endswith(".trf"):
+        return True
+    try:
+        with open(path, "rb") as f:
+            head = f.read(4).removeprefix(b"\xef\xbb\xbf")
+    except OSError:
+        return False
+    return len(head) == 4 and head[:3].isdigit() and head[3:] == b" "
 
 
 def cmd_log(a: argparse.Namespace) -> None:
@@ -574,6 +633,8 @@ def build_parser() -> argparse.ArgumentParser:
     _sheet_options(sp, category=True)
     sp.add_argument("--tiebreaks", metavar="LIST",
                     help="another tiebreak list for this printout only, e.g. BH-C1,BH,SB,WIN")
+    sp.add_argument("--ratings", action="store_true",
+                    help="add each player's expected score, rating change and performance (FIDE rating rules)")
     sp = add("print", cmd_print, "a printout: " + ", ".join(KINDS))
     sp.add_argument("kind", choices=KINDS)
     sp.add_argument("--round", type=int)
@@ -583,15 +644,20 @@ def build_parser() -> argparse.ArgumentParser:
     _sheet_options(sp)
 
     add_award_commands(sub, _Parser)
+    add_rated_commands(sub, _Parser)
     sp = add("publish-web", cmd_publish_web, "write static web pages (pairings, standings) to a folder")
     sp.add_argument("directory", metavar="DIR", type=_path)
     sp = add("settings", cmd_settings, "show the event's settings, or change them (one logged change)")
     sp.add_argument("--json", action="store_true", help="print the settings as JSON")
     _setting_options(sp)
-    sp = add("export", cmd_export, "print the event as one JSON document")
+    add_info_options(sp)
+    sp = add("export", cmd_export, "print the event as one JSON document, or as a FIDE report file (TRF16)")
     sp.add_argument("--log", action="store_true", help="add the whole history (every logged event)")
-    sp = add("restore", cmd_restore, "rebuild an event file from an exported JSON document", event=False)
-    sp.add_argument("file", metavar="FILE.json", type=_path)
+    sp.add_argument("--format", choices=("json", "trf"), default="json")
+    sp.add_argument("-o", "--output", metavar="FILE", type=_path)
+    sp = add("restore", cmd_restore, "rebuild an event file from an exported JSON document or a FIDE report "
+             "file (*.trf)", event=False)
+    sp.add_argument("file", metavar="FILE", type=_path)
     sp.add_argument("event", metavar="EVENT", type=_path)
     add("log", cmd_log, "the event's history")
     add("undo", cmd_undo, "take back the last action still in effect")

@@ -99,3 +99,11 @@ class ConflictError(StoreError, InputError):
             f"the event changed elsewhere (expected event {expected}, found {found}); "
             "reload and try again — nothing was written"
         )
+
+
+class ReportFileError(InputError):
+    """A tournament report file (TRF) that cannot be read; the message names the line and column."""
+
+
+class RatingListError(InputError):
+    """A rating list that cannot be read, or a rating update the event's state refuses."""

@@ -13,7 +13,7 @@ from pydantic import BaseModel, ConfigDict, Field, TypeAdapter
 
 from pairings.state import Acceleration, BetterPrize, ByeKind, PrizeTies, Result, System, Unplayed
 
-SCHEMA_VERSION = 3
+SCHEMA_VERSION = 4
 
 
 class _Event(BaseModel):
@@ -44,6 +44,14 @@ class EventCreated(_Event):
     seed: int = 0
     acceleration: Acceleration = Acceleration.NONE
     forfeit_is_meeting: bool = True
+    city: str = ""
+    federation: str = ""
+    start_date: str = ""
+    end_date: str = ""
+    chief_arbiter: str = ""
+    deputy_arbiters: tuple[str, ...] = ()
+    time_control: str = ""
+    round_dates: tuple[str, ...] = ()
     late_entry_points: float = 0.0
     requested_bye_limit: int | None = Field(default=None, ge=0)
     requested_bye_last_round: int | None = Field(default=None, ge=1)
@@ -68,6 +76,15 @@ class SettingsChanged(_Event):
     forfeit_is_meeting: bool | None = None
     max_meetings: int | None = Field(default=None, ge=1)
     final_round_side_exception: bool | None = None
+    city: str | None = None
+    """The report file's header fields (pairings.eventinfo); an empty text clears one."""
+    federation: str | None = None
+    start_date: str | None = None
+    end_date: str | None = None
+    chief_arbiter: str | None = None
+    deputy_arbiters: tuple[str, ...] | None = None
+    time_control: str | None = None
+    round_dates: tuple[str, ...] | None = None
     double_round: bool | None = None
     late_entry_points: float | None = None
     requested_bye_limit: int | None = Field(default=None, ge=0)
@@ -108,6 +125,8 @@ class PlayerEdited(_Event):
     club: str | None = None
     details: PlayerDetailsModel | None = None
     """None keeps the player's details as they are; a value replaces them whole."""
+    reason: str = ""
+    """Why, when the change is made after round 1 was published (a forced rating update)."""
 
 
 class PlayerWithdrawn(_Event):

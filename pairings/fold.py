@@ -83,6 +83,9 @@ def _(e: ev.EventCreated, b: _Builder) -> None:
         seed=e.seed,
         acceleration=e.acceleration,
         forfeit_is_meeting=e.forfeit_is_meeting,
+        city=e.city, federation=e.federation, start_date=e.start_date, end_date=e.end_date,
+        chief_arbiter=e.chief_arbiter, deputy_arbiters=tuple(e.deputy_arbiters), time_control=e.time_control,
+        round_dates=tuple(e.round_dates),
     )
 
 
@@ -95,6 +98,9 @@ def _(e: ev.SettingsChanged, b: _Builder) -> None:
         changes["changed_after"] = b.settings.changed_after + tuple((e.after_round, k) for k in changes)
     if "tiebreaks" in changes:
         changes["tiebreaks"] = check_tiebreaks(changes["tiebreaks"])  # older files stored snake_case names
+    for key in ("deputy_arbiters", "round_dates"):
+        if key in changes:
+            changes[key] = tuple(changes[key])
     if e.scoring is not None:
         changes["scoring"] = Scoring(e.scoring.win, e.scoring.draw, e.scoring.loss)
     b.settings = replace(b.settings, **changes)

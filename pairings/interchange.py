@@ -36,7 +36,7 @@ def export_event(state: EventState) -> dict[str, Any]:
     doc = {
         "format": FORMAT,
         "version": VERSION,
-        "event": settings_document(s) | {"forbidden": [_forbidden(f) for f in state.forbidden]},
+        "event": settings_document(s) | {"forbidden": [_forbidden(f) for f in state.forbidden]} | _report(s),
         "players": [_player(state, p) for p in state.players.values()],
         "rounds": [
             {
@@ -99,6 +99,26 @@ class _Scoring(_Strict):
     loss: float
 
 
+class _Report(_Strict):
+    """The report-file details (:mod:`pairings.eventinfo`), only those set."""
+
+    city: str | None = None
+    federation: str | None = None
+    start_date: str | None = None
+    end_date: str | None = None
+    chief_arbiter: str | None = None
+    deputy_arbiters: tuple[str, ...] | None = None
+    time_control: str | None = None
+    round_dates: tuple[str, ...] | None = None
+
+
+def _report(s: Settings) -> dict[str, Any]:
+    from pairings.eventinfo import info_document
+
+    report = info_document(s)
+    return {"report": report} if report else {}
+
+
 class _Event(_Strict):
     name: str = Field(min_length=1, max_length=300)
     rounds: int = Field(ge=1, le=1000)
@@ -122,6 +142,7 @@ class _Event(_Strict):
     seed: int = 0
     changed_after: list[tuple[int, str]] = []
     forbidden: list[tuple[str, str] | tuple[str, str, _Until]] = []
+    report: _Report | None = None
 
 
 class _Announced(_Strict):
@@ -249,6 +270,15 @@ def _settings(e: _Event) -> ev.EventCreated:
         default_rating=e.default_rating, seed=e.seed, **typed,
     )
     from pairings.fold import fold
+
+    if e.report is not None:
+        from pairings.eventinfo import InfoChange, checked_info
+
+        try:
+            info = checked_info(InfoChange(**e.report.model_dump()), fold([(1, created)]).settings)
+        except InputError as exc:
+            raise InputError(f"event.report: {exc}") from None
+        created = created.model_copy(update=info)
 
     check_consistent(fold([(1, created)]).settings)
     for number, key in e.changed_after:

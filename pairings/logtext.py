@@ -80,7 +80,9 @@ def _detail_words(d: ev.PlayerDetailsModel | None) -> list[str]:
 @_line.register
 def _(e: ev.PlayerEdited) -> str:
     details = "".join(f", {w}" for w in _detail_words(e.details))
-    return f"{e.name} ({e.id}) edited: rating {e.rating if e.rating is not None else '-'}, club {e.club or '-'}{details}"
+    why = f" ({e.reason})" if e.reason else ""
+    return (f"{e.name} ({e.id}) edited: rating {e.rating if e.rating is not None else '-'}, "
+            f"club {e.club or '-'}{details}{why}")
 
 
 @_line.register

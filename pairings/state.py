@@ -167,6 +167,19 @@ class Settings:
     acceleration: Acceleration = Acceleration.NONE
     forfeit_is_meeting: bool = True
     """A pairing that ended in a forfeit counts as a meeting (the current Handbook's rule, from memory)."""
+    city: str = ""
+    """The header fields of a rated event's report file (pairings.trf); empty when not given."""
+    federation: str = ""
+    """Three-letter code of the federation the event is held in."""
+    start_date: str = ""
+    """``YYYY-MM-DD``."""
+    end_date: str = ""
+    chief_arbiter: str = ""
+    deputy_arbiters: tuple[str, ...] = ()
+    time_control: str = ""
+    """The rate of play as the regulations state it (e.g. ``90 min + 30 s per move``)."""
+    round_dates: tuple[str, ...] = ()
+    """``YYYY-MM-DD`` per round, from round 1 (may be shorter than the number of rounds)."""
     late_entry_points: float = 0.0
     """Points a late entrant gets for each round missed before entry (see :func:`late_entry_points`)."""
     requested_bye_limit: int | None = None
@@ -354,6 +367,14 @@ class PlayerRecord:
     def opponents(self) -> tuple[PlayerId, ...]:
         """Opponents actually met over the board (forfeits are not meetings)."""
         return tuple(e.opponent for e in self.entries if e.played and e.opponent is not None)
+
+    def met(self, forfeits: bool) -> tuple[PlayerId, ...]:
+        """Opponents met (H1): over the board, and when ``forfeits`` also in pairings that ended in a forfeit.
+
+        ``forfeits`` is the event's ``Settings.forfeit_is_meeting``.
+        """
+        return tuple(e.opponent for e in self.entries
+                     if e.opponent is not None and (e.played or (forfeits and e.result is not None)))
 
     @property
     def had_pairing_bye(self) -> bool:

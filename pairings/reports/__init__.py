@@ -17,13 +17,14 @@ from pairings.reports.pdf import render_pdf
 from pairings.printouts import FORMATS, KINDS, PAPERS
 from pairings.reports.paper import default_paper
 from pairings.reports.posted import grid_sheet, prize_sheet, start_list_sheet
+from pairings.reports.rated import rating_report_sheet, with_rating_columns
 from pairings.reports.sheets import BUILDERS, Builder, Sheet, standings_sheet
 from pairings.reports.text import render_text
 from pairings.standings import standings
 from pairings.state import EventState
 
 ALL_BUILDERS: dict[str, Builder] = {**BUILDERS, "start-list": start_list_sheet, "grid": grid_sheet,
-                                    "prizes": prize_sheet}
+                                    "prizes": prize_sheet, "rating-report": rating_report_sheet}
 assert tuple(ALL_BUILDERS) == KINDS, "pairings.printouts.KINDS lists every sheet, in order"
 
 
@@ -41,7 +42,8 @@ def sheet(state: EventState, kind: str, round_number: int | None = None, now: da
 
 
 def render(state: EventState, kind: str, fmt: str, round_number: int | None = None,
-           now: datetime | None = None, category: str | None = None, paper: str | None = None) -> str | bytes:
+           now: datetime | None = None, category: str | None = None, paper: str | None = None,
+           ratings: bool = False) -> str | bytes:
     """Render sheet ``kind`` of round ``round_number`` (default: the latest) in format ``fmt``.
 
     Pairings, names and slips default to the latest round in any state (a draft
@@ -49,8 +51,10 @@ def render(state: EventState, kind: str, fmt: str, round_number: int | None = No
     the rounds up to ``round_number`` (default: the last published one); the
     start list needs no round. ``category`` narrows the standings to one prize
     category; ``paper`` (``a4`` or ``letter``, default from the locale) sizes PDF
-    and HTML pages. Returns ``bytes`` for ``pdf``, ``str`` otherwise. JSON of the
-    standings is the interchange list.
+    and HTML pages; ``ratings`` adds the expected score, rating change and
+    performance to the standings (FIDE B.02 as remembered, :mod:`.rated`).
+    Returns ``bytes`` for ``pdf``, ``str`` otherwise. JSON of the standings is
+    the interchange list (with ``ratings``, the sheet's JSON).
 
     Raises
     ------
@@ -63,12 +67,16 @@ def render(state: EventState, kind: str, fmt: str, round_number: int | None = No
         raise InputError(f"unknown paper {paper!r}: use a4 or letter")
     moment = now or datetime.now().astimezone()
     built = sheet(state, kind, round_number, moment, category)
+    if ratings:  # the standings' optional rating columns (pairings.reports.rated)
+        if kind != "standings":
+            raise InputError("the rating columns go with the standings (the rating-report sheet has its own)")
+        built = with_rating_columns(built, state)
     if fmt == "text":
         return render_text(built)
     if fmt == "csv":
         return render_csv(built)
     if fmt == "json":
-        if kind == "standings" and category is None:
+        if kind == "standings" and category is None and not ratings:
             return standings_json(standings(state, after_round=round_number).to_json())
         return render_json(built)
     if fmt == "html":

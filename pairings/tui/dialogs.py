@@ -240,11 +240,12 @@ class FormDialog(Dialog[dict[str, str] | None]):
     def compose(self) -> ComposeResult:
         with Vertical(classes="dialog"):
             yield Label("", id="form-title", classes="dialog-title")
-            for i in range(len(self._c_intro)):
-                yield Label("", id=f"intro-{i}", classes="dialog-intro")
-            for i, f in enumerate(self._c_fields):
-                yield Label("", id=f"label-{i}", classes="field-label")
-                yield Choice(id=f"field-{i}") if f.choices else Input(id=f"field-{i}", compact=True)
+            with VerticalScroll(classes="form-fields"):  # a long form scrolls; title and keys stay in view
+                for i in range(len(self._c_intro)):
+                    yield Label("", id=f"intro-{i}", classes="dialog-intro")
+                for i, f in enumerate(self._c_fields):
+                    yield Label("", id=f"label-{i}", classes="field-label")
+                    yield Choice(id=f"field-{i}") if f.choices else Input(id=f"field-{i}", compact=True)
             yield Label("", id="problem", classes="problem")
             yield Label("", id="form-keys", classes="dialog-keys")
 
@@ -266,8 +267,8 @@ class FormDialog(Dialog[dict[str, str] | None]):
             field.cursor_position = len(f.value)
         self.query_one("#problem", Label).update("")
         self.set_focus(self.query_one("#field-0"))
-        box = self.query_one(".dialog")
-        self.call_after_refresh(box.scroll_home, animate=False)  # a tall form opens at its title
+        box = self.query_one(".form-fields")
+        self.call_after_refresh(box.scroll_home, animate=False)  # a tall form opens at its first field
 
     def values(self) -> dict[str, str]:
         return {f.key: self._value(i) for i, f in enumerate(self._c_fields)}

@@ -17,7 +17,7 @@ from pairings.standings import standings
 def test_samples_of_the_demo_event(tmp_path: Path) -> None:
     state = demo_state()
     written = write_samples(tmp_path, state)
-    assert len(written) == 7 * 5 + 5 + state.rounds[-1].number   # no grid: the demo is a Swiss event
+    assert len(written) == 8 * 5 + 5 + state.rounds[-1].number   # no grid: the demo is a Swiss event
     rows = json.loads((tmp_path / "standings.json").read_text(encoding="utf-8"))
     assert rows == json.loads(json.dumps(standings(state).to_json()))
     # pypdf as an independent extractor: every player of the event is on the PDF standings.

@@ -9,6 +9,7 @@ from textual.widgets import Input, Label
 from textual.widgets._toast import Toast
 
 from pairings import actions
+from pairings.printouts import KINDS
 from pairings.state import ByeKind, PlayerId
 from pairings.store import EventStore
 from pairings.tui.app import DeskApp
@@ -140,7 +141,7 @@ def test_print_dialog_offers_choices_and_the_file_name_follows_the_format(tmp_pa
             dialog = app.screen
             assert isinstance(dialog, FormDialog)
             kind, fmt = dialog.query_one("#field-0", Choice), dialog.query_one("#field-1", Choice)
-            assert kind.choices == ("pairings", "names", "slips", "standings", "crosstable")
+            assert kind.choices == KINDS and kind.choices[:2] == ("pairings", "names")
             file = dialog.query_one("#field-3", Input)
             assert file.placeholder.endswith("e-pairings-round1.txt")
             notes = Notes(app)
