@@ -227,9 +227,9 @@ def _certificate(before: EventState, rnd: int, drafted: Draft, ov: Overrides, by
     if found is None:
         notes.append("dual certificate: not reached (values beyond the kernels' range); re-solved instead")
         return None, len(fld.order)
-    where = f"{found.pairs:,} candidate pairs and byes, checked by the {found.checker}"
+    where = f"the {found.pairs:,} pairs and byes a pairing as good could use (checked by the {found.checker})"
     if found.optimal:
-        notes.append(f"dual certificate: feasible on {where}, complementary slackness holds on every "
+        notes.append(f"dual certificate: feasible on {where}; complementary slackness holds on every "
                      "board: optimal")
         return True, len(fld.order)
     best_pairs = list(ov.pinned) + [(free[i], free[j]) for i, j in found.best if j < len(free)]
