@@ -34,7 +34,12 @@ HEAVY = ("networkx", "fpdf", "jinja2", "textual", "rich")
 """Libraries the ``pair`` command never needs (the PDF writer, HTML templates, the desk, the reference solver)."""
 
 
-def test_pair_runs_without_the_heavy_libraries(tmp_path) -> None:  # type: ignore[no-untyped-def]
+@pytest.mark.parametrize(("command", "forbidden", "says"), [
+    ("pair", HEAVY, "round 3 (draft)"),
+    ("standings", HEAVY[:4], "Standings"),  # text sheets measure cells with rich, nothing more of it
+])
+def test_commands_run_without_the_heavy_libraries(tmp_path, command: str, forbidden: tuple[str, ...],  # type: ignore[no-untyped-def]
+                                                  says: str) -> None:
     from pairings.simulate import simulate_events
     from pairings.store import EventStore
 
@@ -44,10 +49,10 @@ def test_pair_runs_without_the_heavy_libraries(tmp_path) -> None:  # type: ignor
     code = (
         "import sys\n"
         "from pairings.cli import main\n"
-        f"code = main(['pair', {str(path)!r}])\n"
-        f"bad = [m for m in {HEAVY!r} if m in sys.modules]\n"
+        f"code = main([{command!r}, {str(path)!r}])\n"
+        f"bad = [m for m in {forbidden!r} if m in sys.modules]\n"
         "print('loaded:', ','.join(bad), 'exit:', code, file=sys.stderr)"
     )
     ran = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True, check=True)
     assert ran.stderr.strip().splitlines()[-1] == "loaded:  exit: 0", ran.stderr
-    assert "round 3 (draft)" in ran.stdout.splitlines()[0], ran.stdout
+    assert says in ran.stdout, ran.stdout

@@ -3,17 +3,17 @@ starting rank list, round-robin grid, prize list (the kinds are named in :mod:`p
 
 :func:`render` turns the event's state into one kind of sheet in one format;
 :func:`publish_web` writes a static folder of pages. Imports rich (terminal
-text) but never textual.
+text) but never textual; the HTML templates (jinja2) and the PDF writer are
+imported only when a page or a PDF is made.
 """
 
 from __future__ import annotations
 
 from datetime import datetime
+from pathlib import Path
 
 from pairings.errors import InputError
 from pairings.reports.data import render_csv, render_json, standings_json
-from pairings.reports.html import publish_web, render_html
-from pairings.reports.pdf import render_pdf
 from pairings.printouts import FORMATS, KINDS, PAPERS
 from pairings.reports.paper import default_paper
 from pairings.reports.posted import grid_sheet, prize_sheet, start_list_sheet
@@ -80,8 +80,19 @@ def render(state: EventState, kind: str, fmt: str, round_number: int | None = No
             return standings_json(standings(state, after_round=round_number).to_json())
         return render_json(built)
     if fmt == "html":
+        from pairings.reports.html import render_html
+
         return render_html(built, size)
+    from pairings.reports.pdf import render_pdf
+
     return render_pdf(built, moment, size)
+
+
+def publish_web(state: EventState, directory: Path, now: datetime | None = None) -> list[Path]:
+    """:func:`pairings.reports.html.publish_web` (imported here on first use, with the templates)."""
+    from pairings.reports.html import publish_web as publish
+
+    return publish(state, directory, now)
 
 
 __all__ = ["FORMATS", "KINDS", "PAPERS", "default_paper", "publish_web", "render", "sheet"]
