@@ -10,8 +10,7 @@ the desk both call these; neither holds any rule of its own.
 from __future__ import annotations
 
 import secrets
-import unicodedata
-from typing import TYPE_CHECKING, Iterable, Sequence
+from typing import TYPE_CHECKING, Iterable, Mapping, Sequence
 
 from pairings import events as ev
 from pairings.errors import (
@@ -20,8 +19,8 @@ from pairings.errors import (
 )
 from pairings.state import ByeKind, EventState, PlayerDetails, PlayerId, Result, Round, RoundState, Status, System
 from pairings.store import StoredEvent, undo_target
-from pairings.text import counted
 from pairings.standings.tiebreaks import default_tiebreaks
+from pairings.text import counted, fold
 
 if TYPE_CHECKING:  # the engine (and networkx) load only for the commands that pair
     from pairings.engine import Draft, Overrides
@@ -70,17 +69,21 @@ def clean_text(value: str, what: str, *, required: bool = True, limit: int = MAX
 
 
 def find_player(state: EventState, text: str) -> PlayerId:
-    """A player by id, by exact name (any case), or by a part of the name that only one has."""
+    """A player by id, by exact name, or by a part of the name that only one has (case and accents ignored)."""
     key = text.strip()
     if key in state.players:
         return PlayerId(key)
-    folded = key.casefold()
+    folded = fold(key)
     if not folded:
         raise UnknownPlayerError("no player given")
-    exact = [p.id for p in state.players.values() if p.name.casefold() == folded]
+    same = [p.id for p in state.players.values() if p.name.casefold() == key.casefold()]
+    if len(same) == 1:  # "Zoe" is Zoe even when a Zoë plays too
+        return same[0]
+    by_id = {p.id: fold(p.name) for p in state.players.values()}
+    exact = [pid for pid, n in by_id.items() if n == folded]
     if len(exact) == 1:
         return exact[0]
-    matches = exact or [p.id for p in state.players.values() if folded in p.name.casefold()]
+    matches = exact or [pid for pid, n in by_id.items() if folded in n]
     if not matches:
         raise UnknownPlayerError(f"no player {text!r} (give an id or a name)")
     if len(matches) > 1:
@@ -135,9 +138,8 @@ def add_player(
 
 
 def folded_name(name: str) -> str:
-    """A name as duplicates are compared: accents dropped, case folded, spaces collapsed."""
-    bare = "".join(c for c in unicodedata.normalize("NFKD", name) if not unicodedata.combining(c))
-    return " ".join(bare.casefold().split())
+    """A name as duplicates are compared: folded as for matching (:func:`pairings.text.fold`), spaces collapsed."""
+    return " ".join(fold(name).split())
 
 
 def likely_duplicates(state: EventState, events: Iterable[ev.Event]) -> list[str]:
@@ -572,11 +574,11 @@ def record_result(
     return [ev.ResultRecorded(round=rnd.number, board=board, result=code)]
 
 
-def undo(log: Sequence[StoredEvent]) -> list[ev.Event]:
-    """Take back the newest action still in effect."""
+def undo(log: Sequence[StoredEvent], names: Mapping[str, str] | None = None) -> list[ev.Event]:
+    """Take back the newest action still in effect; ``names`` (player id to name) word its summary."""
     from pairings.logtext import describe
 
     target = undo_target(log)
     if target is None:
         raise InputError("nothing to undo")
-    return [ev.Undone(target=target.seq, summary=describe(target.event))]
+    return [ev.Undone(target=target.seq, summary=describe(target.event, names))]

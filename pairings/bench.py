@@ -14,24 +14,47 @@ or ``implicit``: whether the pruned edges were held in arrays or walked by
 the compiled scan;
 ``fallback``: the compiled solver on every pruned edge), and asserts that the
 two cost vectors are equal. ``--fold N`` also times folding a whole
-``--rounds``-round log of ``N`` players (:func:`pairings.fold.fold`). ``--rating-list N`` times one
-streamed read of a generated N-line FIDE rating list (default two million lines) for a 500-player event.
+``--rounds``-round log of ``N`` players (:func:`pairings.fold.fold`).
+``--verify N`` (default 10,000; 0: skip) times ``pairings verify``'s check of
+one engine round of ``N`` players (:func:`pairings.engine.verify_round`: the
+dual certificate, no networkx re-solve; target at most 30 s at 10,000).
+``--startup N`` (default 1,000; 0: skip) times, on one simulated event of
+``N`` players: the whole process ``python -m pairings pair EVENT`` (best of
+three, interpreter start and imports included; target at most 0.25 s and at
+most a quarter of the next figure), a rustworkx maximum-weight matching of the
+same round's full candidate graph (every allowed pair and bye; its exact
+weights need more than rustworkx's 128-bit integers, so it solves the same
+graph with each weight cut to its top 62 bits: the solver's work, not an exact
+optimum), and the text standings (target at most 0.3 s) with the reports' own
+table layout and with rich laying the tables out. ``--rating-list N`` times one streamed read of a
+generated N-line FIDE rating list (default two million lines) for a 500-player event.
 """
 
 from __future__ import annotations
 
 import argparse
+import shutil
+import subprocess
+import sys
+import tempfile
 import time
 import tracemalloc
+from pathlib import Path
 from typing import Callable, TypeVar
 
-from pairings.engine import draft_round
-from pairings.engine import candidates, implicit
+import numpy as np
+
+from pairings import actions
+from pairings.engine import draft_round, verify_round
+from pairings.engine import candidates, implicit, weights
 from pairings.engine.criteria import Field
+from pairings.engine.vector import Arrays
 from pairings.engine.solver import fast_available
 from pairings.fold import fold
+from pairings.reports import render, text
 from pairings.simulate import simulate_events
 from pairings.state import EventState
+from pairings.store import EventStore
 
 T = TypeVar("T")
 
@@ -95,6 +118,93 @@ def bench_fold(n: int, rounds: int, seed: int) -> str:
     return f"fold: {n:,} players, {rounds} rounds, {len(log):,} events: {fold_s:.2f} s"
 
 
+def bench_verify(n: int, rounds: int, played: int, seed: int) -> str:
+    """Time the check of one stored engine round of ``n`` players, as ``pairings verify`` makes it."""
+    log = simulate_events(n, rounds, played, seed)
+    state = fold(enumerate(log, 1))
+    draft = draft_round(state)
+    stored = fold(enumerate([*log, actions._draft_event(draft)], 1))
+    del log, state
+    check, seconds = _timed(lambda: verify_round(stored, draft.round))
+    assert check.ok and check.optimal is True, check.lines()
+    how = next((line.strip() for line in check.lines() if "dual certificate" in line), "no certificate")
+    return f"verify: {n:,} players, round {draft.round}: {seconds:.2f} s ({how})"
+
+
+def _whole_pair(path: Path, tries: int = 3) -> float:
+    """Best wall time of ``python -m pairings pair`` on fresh copies of ``path`` (output discarded)."""
+    best = float("inf")
+    for k in range(tries):
+        work = path.with_name(f"pair-{k}.pairings")
+        shutil.copyfile(path, work)
+        start = time.perf_counter()
+        subprocess.run([sys.executable, "-m", "pairings", "pair", str(work)], check=True,
+                       stdout=subprocess.DEVNULL)
+        best = min(best, time.perf_counter() - start)
+    return best
+
+
+def _rustworkx_full(state: EventState) -> tuple[float, int, int] | None:
+    """Seconds of a rustworkx solve of the next round's full graph, its edges, and its exact weights' bits."""
+    try:
+        import rustworkx as rx
+    except ImportError:
+        return None
+    rnd = state.next_round_number
+    fld = Field(state, rnd, state.available(rnd))
+    players = list(fld.order)
+    n = len(players)
+    arrays = Arrays(fld, players)
+    i, j = candidates._index_pairs(arrays.units, None, range(n))
+    keep = arrays.allowed(i, j)
+    u, v, rows = i[keep], j[keep], arrays.costs(i[keep], j[keep])
+    if n % 2:
+        u = np.concatenate([u, np.arange(n, dtype=np.int64)])
+        v = np.concatenate([v, np.full(n, n, dtype=np.int64)])
+        rows = np.concatenate([rows, np.array([fld.bye(p) for p in players], dtype=np.int64)])
+    w = weights.weight_array(rows, n + n % 2).tolist()
+    bits = max(int(x).bit_length() for x in w)
+    cut = max(0, bits - 62)
+    edges = list(zip(u.tolist(), v.tolist(), (int(x) >> cut for x in w)))
+    start = time.perf_counter()
+    graph = rx.PyGraph()
+    graph.add_nodes_from(range(n + n % 2))
+    graph.add_edges_from(edges)
+    rx.max_weight_matching(graph, max_cardinality=True, weight_fn=lambda x: x)
+    return time.perf_counter() - start, len(edges), bits
+
+
+def _standings_text(state: EventState) -> tuple[float, float]:
+    """Seconds to render the text standings with the reports' own layout, and with rich's."""
+    _, own = _timed(lambda: render(state, "standings", "text"))
+    text.OWN_LAYOUT = False
+    try:
+        _, by_rich = _timed(lambda: render(state, "standings", "text"))
+    finally:
+        text.OWN_LAYOUT = True
+    return own, by_rich
+
+
+def bench_startup(n: int, rounds: int, played: int, seed: int) -> list[str]:
+    """Lines for the whole-process ``pair``, the full-graph rustworkx yardstick and the text standings."""
+    log = simulate_events(n, rounds, played, seed)
+    with tempfile.TemporaryDirectory() as folder:
+        path = Path(folder) / "bench.pairings"
+        with EventStore.create(path, log[0]) as store:  # type: ignore[arg-type]
+            state = store.append(log[1:])
+        pair_s = _whole_pair(path)
+    out = [f"pair (whole process): {n:,} players, round {state.next_round_number}: {pair_s:.2f} s"]
+    full = _rustworkx_full(state)
+    if full is not None:
+        rx_s, edges, bits = full
+        out.append(f"rustworkx on the full graph ({edges:,} edges; weights of {bits} bits cut to 62): "
+                   f"{rx_s:.2f} s; pair / rustworkx = {pair_s / rx_s:.2f}")
+    own, by_rich = _standings_text(state)
+    out.append(f"standings as text: {n:,} players: {own:.2f} s (rich laying the tables out: {by_rich:.2f} s, "
+               f"{by_rich / own:.1f} times as long)")
+    return out
+
+
 def bench_rating_list(lines: int, players: int, seed: int) -> str:
     """Time one streamed pass over a generated FIDE-layout list of ``lines`` lines (a temp file) for an
     event of ``players`` players: half with a FIDE ID somewhere in the list, a tenth looked for by name."""
@@ -140,6 +250,10 @@ def main(argv: list[str] | None = None) -> None:
     parser.add_argument("--reference-limit", type=int, default=512,
                         help="largest field also solved by networkx on the full graph (default %(default)s)")
     parser.add_argument("--fold", type=int, default=0, help="also time folding a whole log of this many players")
+    parser.add_argument("--startup", type=int, default=1000,
+                        help="also time whole-process pair and text standings at this size (default %(default)s; 0: skip)")
+    parser.add_argument("--verify", type=int, default=10000,
+                        help="also time verifying one round of this many players (default %(default)s; 0: skip)")
     parser.add_argument("--rating-list", type=int, default=2_000_000, metavar="LINES",
                         help="lines of the generated FIDE rating list read once (default %(default)s; 0 skips it)")
     args = parser.parse_args(argv)
@@ -152,6 +266,11 @@ def main(argv: list[str] | None = None) -> None:
         print(bench_one(n, args.rounds, args.played, args.seed, args.reference_limit), flush=True)
     if args.fold:
         print(bench_fold(args.fold, args.rounds, args.seed))
+    if args.startup:
+        for line in bench_startup(args.startup, args.rounds, args.played, args.seed):
+            print(line, flush=True)
+    if args.verify:
+        print(bench_verify(args.verify, args.rounds, args.played, args.seed), flush=True)
     if args.rating_list:
         print(bench_rating_list(args.rating_list, 500, args.seed), flush=True)
 

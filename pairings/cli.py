@@ -483,19 +483,21 @@ def _is_trf(path: str) -> bool:
 
 
 def cmd_log(a: argparse.Namespace) -> None:
-    from pairings.logtext import describe
+    from pairings.logtext import describe, roster_names
 
     with _open(a.event) as store:
-        log = store.log
+        log, names = store.log, roster_names(store.state)
     undone = {s.event.target for s in log if isinstance(s.event, Undone)}
     for s in log:
         mark = "  (undone)" if s.seq in undone else ""
-        _say(f"{s.seq:>5}  {s.recorded_at[:19].replace('T', ' ')}  {describe(s.event)}{mark}")
+        _say(f"{s.seq:>5}  {s.recorded_at[:19].replace('T', ' ')}  {describe(s.event, names)}{mark}")
 
 
 def cmd_undo(a: argparse.Namespace) -> None:
+    from pairings.logtext import roster_names
+
     with _open(a.event) as store:
-        events = actions.undo(store.log)
+        events = actions.undo(store.log, roster_names(store.state))
         store.append(events)
     _say(f"undone: {events[0].summary}")  # type: ignore[union-attr]
 
@@ -503,7 +505,7 @@ def cmd_undo(a: argparse.Namespace) -> None:
 def cmd_verify(a: argparse.Namespace) -> None:
     from pairings.verify import verify_file
 
-    ok, lines = verify_file(Path(a.event))
+    ok, lines = verify_file(Path(a.event), a.deep)
     for line in lines:
         _say(line)
     if not ok:
@@ -659,7 +661,9 @@ def build_parser() -> argparse.ArgumentParser:
     sp.add_argument("event", metavar="EVENT", type=_path)
     add("log", cmd_log, "the event's history")
     add("undo", cmd_undo, "take back the last action still in effect")
-    add("verify", cmd_verify, "check the hash chain and every round against the pairing rules")
+    sp = add("verify", cmd_verify, "check the hash chain and every round against the pairing rules")
+    sp.add_argument("--deep", action="store_true", help="also re-solve every round with networkx on the full "
+                    "graph (always done below 300 players; slow beyond)")
     add("open", cmd_open, "the full-screen desk on an event file")
     sp = add("demo", cmd_demo, "the full-screen desk on a fresh copy of the demo event", event=False)
     sp.add_argument("--file", type=_path, help="where to write the demo copy (default: a new temporary folder)")

@@ -14,6 +14,7 @@ from types import MappingProxyType
 from typing import Iterable
 
 from pairings import events as ev
+from pairings.standings.tiebreaks import check_tiebreaks
 from pairings.state import (
     DEFAULT_TIEBREAKS,
     Bye,
@@ -69,7 +70,7 @@ def _(e: ev.EventCreated, b: _Builder) -> None:
         sides=e.sides,
         bye_points=e.bye_points,
         requested_bye_points=e.requested_bye_points,
-        tiebreaks=e.tiebreaks if e.tiebreaks is not None else DEFAULT_TIEBREAKS,
+        tiebreaks=check_tiebreaks(e.tiebreaks) if e.tiebreaks is not None else DEFAULT_TIEBREAKS,
         late_entry_points=e.late_entry_points,
         requested_bye_limit=e.requested_bye_limit,
         requested_bye_last_round=e.requested_bye_last_round,
@@ -96,7 +97,7 @@ def _(e: ev.SettingsChanged, b: _Builder) -> None:
     if e.after_round:
         changes["changed_after"] = b.settings.changed_after + tuple((e.after_round, k) for k in changes)
     if "tiebreaks" in changes:
-        changes["tiebreaks"] = tuple(changes["tiebreaks"])
+        changes["tiebreaks"] = check_tiebreaks(changes["tiebreaks"])  # older files stored snake_case names
     for key in ("deputy_arbiters", "round_dates"):
         if key in changes:
             changes[key] = tuple(changes[key])

@@ -1,16 +1,43 @@
-"""One readable line per event, for `pairings log`, the desk's History view and undo messages."""
+"""One readable line per event, for `pairings log`, the desk's Log place and undo messages.
+
+Players are named by name and id ("Ansel Ashgrove (p1)") when the caller
+gives the names (:func:`describe`'s ``names``, usually the event's current
+roster); without them by id ("player p1").
+"""
 
 from __future__ import annotations
 
+from contextvars import ContextVar
 from functools import singledispatch
+from typing import Mapping
 
 from pairings import events as ev
+from pairings.state import ByeKind, EventState
 from pairings.text import counted, plain
 
+_NAMES: ContextVar[Mapping[str, str]] = ContextVar("names", default={})
 
-def describe(event: ev.Event) -> str:
-    """One line for ``event``, safe to print on a terminal (names may hold anything)."""
-    return plain(_line(event))
+
+def describe(event: ev.Event, names: Mapping[str, str] | None = None) -> str:
+    """One line for ``event``, safe to print on a terminal (names may hold anything).
+
+    ``names`` maps player ids to names (see :func:`roster_names`).
+    """
+    token = _NAMES.set(names or {})
+    try:
+        return plain(_line(event))
+    finally:
+        _NAMES.reset(token)
+
+
+def roster_names(state: EventState) -> dict[str, str]:
+    """Every player's id and current name, for :func:`describe`."""
+    return {p.id: p.name for p in state.players.values()}
+
+
+def _who(player: str) -> str:
+    name = _NAMES.get().get(player)
+    return f"{name} ({player})" if name else f"player {player}"
 
 
 @singledispatch
@@ -40,7 +67,7 @@ def _(e: ev.PlayerRegistered) -> str:
         extra.append(e.club)
     extra += _detail_words(e.details)
     late = f", from round {e.entry_round}" if e.entry_round > 1 else ""
-    return f"player {e.id} registered: {e.name} ({', '.join(extra)}){late}"
+    return f"{e.name} ({e.id}) registered: {', '.join(extra)}{late}"
 
 
 def _detail_words(d: ev.PlayerDetailsModel | None) -> list[str]:
@@ -54,36 +81,37 @@ def _detail_words(d: ev.PlayerDetailsModel | None) -> list[str]:
 def _(e: ev.PlayerEdited) -> str:
     details = "".join(f", {w}" for w in _detail_words(e.details))
     why = f" ({e.reason})" if e.reason else ""
-    return (f"player {e.id} edited: {e.name}, rating {e.rating if e.rating is not None else '-'}, "
+    return (f"{e.name} ({e.id}) edited: rating {e.rating if e.rating is not None else '-'}, "
             f"club {e.club or '-'}{details}{why}")
 
 
 @_line.register
 def _(e: ev.PlayerWithdrawn) -> str:
     why = f" ({e.reason})" if e.reason else ""
-    return f"player {e.player} withdrawn from round {e.from_round}{why}"
+    return f"{_who(e.player)} withdrawn from round {e.from_round} on{why}"
 
 
 @_line.register
 def _(e: ev.PlayerReinstated) -> str:
-    return f"player {e.player} back in from round {e.from_round}"
+    return f"{_who(e.player)} back in from round {e.from_round}"
 
 
 @_line.register
 def _(e: ev.ByeRequested) -> str:
-    return f"player {e.player}: {e.kind.value} bye in round {e.round}"
+    what = "asked for a bye" if e.kind is ByeKind.REQUESTED else "announced absent"
+    return f"{_who(e.player)} {what} in round {e.round}"
 
 
 @_line.register
 def _(e: ev.ByeCancelled) -> str:
-    return f"player {e.player}: bye in round {e.round} cancelled"
+    return f"{_who(e.player)}: bye or absence in round {e.round} cancelled"
 
 
 @_line.register
 def _(e: ev.PairForbidden) -> str:
     until = f" until round {e.until_round}" if e.until_round else ""
     why = f" ({e.reason})" if e.reason else ""
-    return f"do not pair {e.a} with {e.b}{until}{why}"
+    return f"do not pair {_who(e.a)} with {_who(e.b)}{until}{why}"
 
 
 @_line.register

@@ -158,7 +158,8 @@ class Scoring:
         return Fraction(num, den)
 
 
-DEFAULT_TIEBREAKS: tuple[str, ...] = ("buchholz_cut1", "buchholz", "sonneborn_berger", "wins")
+DEFAULT_TIEBREAKS: tuple[str, ...] = ("BH-C1", "BH", "SB", "WIN")
+"""The list of event files that stored none (new events get the C.07 recommendation instead)."""
 
 
 @dataclass(frozen=True, slots=True)

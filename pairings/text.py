@@ -39,6 +39,23 @@ def plain(text: str) -> str:
     return "".join(c for c in text if unicodedata.category(c) not in _DROPPED).strip()
 
 
+_UNDECOMPOSED = str.maketrans({"ø": "o", "ł": "l", "đ": "d", "ħ": "h", "ı": "i", "æ": "ae", "œ": "oe", "þ": "th"})
+"""Letters with a stroke or ligatures that Unicode does not decompose into a base letter and a mark."""
+
+
+def fold(text: str) -> str:
+    """``text`` for matching what a person typed: case and accents ignored ("Zoe" finds "Zoë").
+
+    Unicode compatibility decomposition (NFKD) splits "ë" into "e" and a
+    combining diaeresis; the combining marks are dropped and the rest is
+    casefolded ("ß" becomes "ss"). A few letters that do not decompose
+    ("ø", "ł", "æ", ...) are mapped to the letters they are typed as on a plain
+    keyboard (common practice, no source).
+    """
+    decomposed = unicodedata.normalize("NFKD", text.casefold())
+    return "".join(c for c in decomposed if not unicodedata.combining(c)).translate(_UNDECOMPOSED)
+
+
 def one_line(text: str) -> str:
     """An error message as exactly one printable line (control characters shown escaped)."""
     return "".join(c if c.isprintable() else repr(c)[1:-1] for c in text.replace("\n", " ").replace("\r", " "))

@@ -12,8 +12,12 @@ from pairings.store import EventStore, StoredEvent
 from pairings.store.recorder import Recorder
 
 
-def verify_file(path: Path) -> tuple[bool, list[str]]:
-    """Check an event file; returns (all good, readable report lines)."""
+def verify_file(path: Path, deep: bool = False) -> tuple[bool, list[str]]:
+    """Check an event file; returns (all good, readable report lines).
+
+    ``deep`` re-solves every engine round with networkx on the full graph besides its dual
+    certificate (:func:`pairings.engine.verify.verify_round`); smaller fields always are.
+    """
     recorder = Recorder.open(path)
     try:
         chain = recorder.check_chain()
@@ -29,12 +33,12 @@ def verify_file(path: Path) -> tuple[bool, list[str]]:
     ok = True
     for rnd in state.rounds:
         if rnd.paired_before:
-            check = verify_round(as_paired(log, rnd.number), rnd.number)
+            check = verify_round(as_paired(log, rnd.number), rnd.number, deep)
             lines.extend(check.lines())
             lines.append(f"  paired on scores since corrected: checked against the results as they stood "
                          f"when round {rnd.number} was paired ({'; '.join(rnd.paired_before)})")
         else:
-            check = verify_round(state, rnd.number)
+            check = verify_round(state, rnd.number, deep)
             lines.extend(check.lines())
         if rnd.accepted and check.breaches:
             lines.append(f"  the organiser accepted the breaches when publishing: {rnd.accepted}")

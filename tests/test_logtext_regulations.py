@@ -23,6 +23,6 @@ def test_a_settings_change_reads_in_the_settings_words() -> None:
 def test_player_lines_name_title_federation_and_ratings() -> None:
     d = ev.PlayerDetailsModel(title="FM", federation="ENG", ratings={"fide": 2010, "national": 1990})
     assert describe(ev.PlayerRegistered(id="p1", name="Ada Quince", rating=2000, details=d)) == (
-        "player p1 registered: Ada Quince (rating 2000, FM, ENG, fide 2010, national 1990)")
+        "Ada Quince (p1) registered: rating 2000, FM, ENG, fide 2010, national 1990")
     assert describe(ev.PlayerEdited(id="p1", name="Ada Quince", rating=2000, details=d)).endswith(
         "club -, FM, ENG, fide 2010, national 1990")

@@ -207,3 +207,72 @@ def certify(n: int, u: NDArray[np.int64], v: NDArray[np.int64], w: AnyArray,
     weight = sum(w[order[at]].tolist())
     rc = reduced_costs(u, v, w, dual, split)
     return bool((rc >= 0).all()) and dual.objective2() == 2 * weight
+
+
+@dataclass(frozen=True)
+class Verdict:
+    """What :func:`check` found: the dual's feasibility and complementary slackness with a matching.
+
+    For a feasible dual ``(y, z)`` and a perfect matching ``M``,
+    ``w(M) = D(y, z)`` holds exactly when every edge of ``M`` is tight
+    (reduced cost 0) and every blossom with ``z_B > 0`` is full
+    (``|M cap E(B)| = (|B| - 1) / 2``): in the chain of the module Notes both
+    inequalities are then equalities, and conversely. So feasibility and
+    complementary slackness prove ``M`` a maximum-weight perfect matching.
+    """
+
+    perfect: bool
+    """The matching covers every vertex once, with edges of the graph only."""
+    violated: int
+    """Edges with a negative reduced cost (the dual is feasible when 0)."""
+    loose: int
+    """Edges of the matching that are not tight."""
+    short: int
+    """Blossoms with ``z_B > 0`` that the matching does not fill."""
+    sound: bool
+    """``z >= 0`` on odd sets of the graph's vertices, one ``y`` per vertex."""
+
+    @property
+    def ok(self) -> bool:
+        return self.perfect and self.sound and not self.violated and not self.loose and not self.short
+
+
+def check(n: int, u: IntArray, v: IntArray, w: AnyArray, matched: Sequence[tuple[int, int]], dual: Dual,
+          split: Limbs | None = None) -> Verdict:
+    """Check ``dual`` on the edges ``(u[k], v[k], w[k])`` and against the perfect matching ``matched``.
+
+    Computed here from the arrays alone (reduced costs by :func:`reduced_costs`,
+    blossom contents from the dual's vertex sets), with no code of the solver
+    that produced the dual; :class:`Verdict` says why each check is needed.
+    ``violated`` counts only the edges given: a caller that checks the rest
+    elsewhere adds its own count.
+    """
+    sound = len(dual.y2) == n and all(z >= 0 and len(b) % 2 == 1 and min(b) >= 0 and max(b) < n
+                                      for b, z in dual.blossoms)
+    ends = [x for pair in matched for x in pair]
+    keys = np.minimum(u, v) * n + np.maximum(u, v)
+    order = np.argsort(keys, kind="stable")
+    wanted = np.array([min(a, b) * n + max(a, b) for a, b in matched], dtype=np.int64)
+    at = np.minimum(np.searchsorted(keys[order], wanted), max(len(order) - 1, 0))
+    present = len(order) > 0 and bool((keys[order][at] == wanted).all()) if len(wanted) else True
+    perfect = sorted(ends) == list(range(n)) and present
+    if not sound:
+        return Verdict(perfect, 0, 0, 0, False)
+    violated = int((reduced_costs(u, v, w, dual, split) < 0).sum())
+    loose = len(matched)
+    if perfect and len(wanted):
+        mine = order[at]
+        loose = int((reduced_costs(u[mine], v[mine], w[mine], dual) != 0).sum())
+    partner = np.full(n, -1, dtype=np.int64)
+    if perfect:
+        pairs = np.array(ends, dtype=np.int64).reshape(-1, 2)
+        partner[pairs[:, 0]], partner[pairs[:, 1]] = pairs[:, 1], pairs[:, 0]
+    inside = np.zeros(n + 1, dtype=bool)  # inside[-1] stays False: an unmatched vertex's partner
+    short = 0
+    for members, z in dual.blossoms:
+        if z > 0:
+            idx = np.fromiter(members, dtype=np.int64, count=len(members))
+            inside[idx] = True
+            short += int(inside[partner[idx]].sum()) != len(idx) - 1  # each inner pair counted twice
+            inside[idx] = False
+    return Verdict(perfect, violated, loose, short, sound)

@@ -198,7 +198,8 @@ def rebuild(state: EventState, round: int, pairs: Sequence[Pair], bye: PlayerId 
     base_pairs = {frozenset((b.first, b.second)) for b in base.boards} if base is not None else None
     sided = [(kept.get(frozenset(p)) or fld.allocate(*p), p) for p in pairs]
     changed = [p for p in pairs if base_pairs is not None and frozenset(p) not in base_pairs]
-    absent = [p for p in state.available(round) if p not in set(paired)]
+    taken = set(paired)
+    absent = [p for p in state.available(round) if p not in taken]
     return assemble(state, fld, sided, bye, pinned=list(kept.values()), changed=changed, absent=absent)
 
 

@@ -1,15 +1,20 @@
-"""The one module that talks to maximum-weight matching solvers.
+"""The one module that talks to the external maximum-weight matching solvers.
 
-Two interchangeable back ends compute a maximum-weight matching among the
-matchings of maximum cardinality (Edmonds' blossom algorithm):
+The engine's own solve is its Edmonds blossom (:mod:`pairings.engine.blossom`,
+which also returns the dual its certificate needs). Two external solvers of
+the same problem (a maximum-weight matching among the matchings of maximum
+cardinality) are called from here only:
 
 - ``reference``: networkx ``max_weight_matching`` (pure Python, exact Python
-  integers of any size) - the reference every test compares against;
-- ``fast``: rustworkx ``max_weight_matching`` (compiled), used when installed
-  and when every weight fits its 128-bit signed integers; otherwise the
-  reference is used.
+  integers of any size): the independent solver of ``draft_round(...,
+  reference=True)``, ``pairings verify --deep`` and the tests;
+- ``fast``: rustworkx ``max_weight_matching`` (compiled) when installed and
+  every weight fits its 128-bit signed integers (otherwise the reference):
+  the listed path's first sparse solve and fallback, the full graph when no
+  greedy pairing exists, and Berge's maximum cardinality in ``verify``.
 
-Vertices are ``0..n-1``; edges are ``(u, v, weight)`` with integer weights.
+networkx is imported on first use only, so that drafting a round does not pay
+for it. Vertices are ``0..n-1``; edges are ``(u, v, weight)`` with integer weights.
 
 References
 ----------
@@ -23,8 +28,6 @@ maximum if and only if it admits no augmenting path.
 from __future__ import annotations
 
 from typing import Any, Sequence
-
-import networkx as nx  # type: ignore[import-untyped]
 
 Edge = tuple[int, int, int]
 _I128 = 2**127 - 1
@@ -46,6 +49,8 @@ def _normalise(pairs: object) -> list[tuple[int, int]]:
 
 def reference_matching(n: int, edges: Sequence[Edge]) -> list[tuple[int, int]]:
     """networkx ``max_weight_matching(maxcardinality=True)`` on exact integers."""
+    import networkx as nx  # type: ignore[import-untyped]
+
     g = nx.Graph()
     g.add_nodes_from(range(n))
     g.add_weighted_edges_from(edges)

@@ -11,6 +11,7 @@ processes and reloads.
 from __future__ import annotations
 
 import gc
+from collections import deque
 from dataclasses import dataclass
 from pathlib import Path
 from time import monotonic
@@ -20,14 +21,16 @@ from textual import events, on, work
 from textual.app import App, SystemCommand
 from textual.binding import Binding
 from textual.message import Message
+from textual.notifications import SeverityLevel
+from textual.dom import DOMNode
 from textual.screen import Screen
 
 from pairings.errors import ConflictError, InputError, RosterError
 from pairings.printouts import KINDS, ROUND_KINDS
 from pairings.state import EventState
 from pairings.store import EventStore
-from pairings.tui.base import Action, Place
-from pairings.tui.dialogs import Field, FormDialog, HelpDialog, open_dialog
+from pairings.tui.base import Action, KeyLine, Place
+from pairings.tui.dialogs import Dialog, Field, FormDialog, HelpDialog, open_dialog
 from pairings.tui.log import LogPlace
 from pairings.tui.offload import Job, Offload
 from pairings.tui.results import ResultsPlace
@@ -116,6 +119,9 @@ class DeskApp(App[None]):
         self.last_output: Path | None = None
         """Where the latest printout went."""
         self._last_key = monotonic()
+        self._keys: deque[events.Key] = deque()
+        """Keys read and not handled yet (see :meth:`_hand_on_keys`)."""
+        self._key_in_hand = False
         self.offload = Offload(store.path)
         """Where the engine works for the desk (a child process for big fields)."""
         for name, place in PLACES.items():
@@ -134,9 +140,48 @@ class DeskApp(App[None]):
         self.set_interval(QUIET_SECONDS / 2, self.tidy)
 
     async def on_event(self, event: events.Event) -> None:
-        if isinstance(event, events.Key):
+        if isinstance(event, events.Key) and not event.is_forwarded:
             self._last_key = monotonic()
+            self._keys.append(event)
+            await self._hand_on_keys()
+            return
         await super().on_event(event)
+
+    async def _hand_on_keys(self) -> None:
+        """Handle the next key typed once the one before it has been handled all the way.
+
+        textual hands a key to the focused widget's queue and runs a place's
+        binding only when the key has bubbled back up, so a fast typist's next
+        keys went out to the old focus before the previous key had opened a
+        dialog or moved to the next field. Keys wait here, in order, while one
+        is on its way (see :meth:`_after`) or while a dialog just opened has no
+        field to type into yet (``Dialog.ready``).
+        """
+        while self._keys and not self._key_in_hand and getattr(self.screen, "ready", True):
+            key = self._keys.popleft()
+            target = self.focused or self.screen
+            self._key_in_hand = True
+            await super().on_event(key)
+            self._after(target)
+
+    def _after(self, node: DOMNode | None) -> None:
+        """Go on with the keys once ``node`` and every node above it have handled what they hold.
+
+        A key not used up by a widget bubbles up through each parent's queue;
+        a call queued behind it at each step runs once it has moved on.
+        """
+        if node is None or node is self:
+            self.call_later(self._key_handled)
+        elif not node.call_later(self._after, node.parent):
+            self._after(node.parent)
+
+    async def _key_handled(self) -> None:
+        self._key_in_hand = False
+        await self._hand_on_keys()
+
+    @on(Dialog.Ready)
+    async def dialog_ready(self) -> None:
+        await self._hand_on_keys()
 
     def tidy(self) -> None:
         """A full collection once the keys have been quiet for a while and something new was kept."""
@@ -145,6 +190,15 @@ class DeskApp(App[None]):
 
     def on_unmount(self) -> None:
         self.offload.close()
+
+    def notify(self, message: str, *, title: str = "", severity: SeverityLevel = "information",
+               timeout: float | None = None, markup: bool = False) -> None:
+        """A notice on the place's bottom line, one at a time (see :meth:`KeyLine.say`); over a dialog, a toast."""
+        place = self.screen
+        if isinstance(place, Place) and place.is_mounted:
+            place.query_one(KeyLine).say(str(message), severity, timeout)
+        else:
+            super().notify(message, title=title, severity=severity, timeout=timeout, markup=False)
 
     # -- state -----------------------------------------------------------------------------
 
@@ -237,10 +291,6 @@ class DeskApp(App[None]):
 
     def action_output(self) -> None:
         def check(values: dict[str, str]) -> str | None:
-            if values["kind"] not in KINDS:
-                return f"kind must be one of {', '.join(KINDS)}"
-            if values["format"] not in FORMATS:
-                return f"format must be one of {', '.join(FORMATS)}"
             if values["round"] and not values["round"].isdigit():
                 return "round must be a number (or empty for the latest)"
             if not Path(values["file"] or ".").expanduser().parent.is_dir():
@@ -256,13 +306,17 @@ class DeskApp(App[None]):
             self.notify(f"writing {values['kind']} ({values['format']}) …")
             self.write_report(self.state, values["kind"], values["format"], number, path)
 
+        def follow(values: dict[str, str]) -> dict[str, str]:
+            return {"file": self.default_output(values["kind"], values["format"]).name}
+
         fields = [
-            Field("kind", f"What ({', '.join(KINDS)})", "pairings"),
-            Field("format", f"Format ({', '.join(FORMATS)})", "text"),
+            Field("kind", "What (← →, or type the first letters)", "pairings", choices=KINDS),
+            Field("format", "Format", "text", choices=tuple(FORMATS)),
             Field("round", "Round (empty: the latest)", ""),
-            Field("file", "File (empty: beside the event file)", "", str(self.default_output("pairings", "text"))),
+            Field("file", "File (empty: the name shown, beside the event file)", "",
+                  self.default_output("pairings", "text").name),
         ]
-        open_dialog(self, FormDialog("Print / export", fields, check), chosen)
+        open_dialog(self, FormDialog("Print / export", fields, check, follow=follow), chosen)
 
     @work(thread=True, exclusive=True, group="output", description="write a printout")
     def write_report(self, state: EventState, kind: str, fmt: str, number: int | None, path: Path) -> None:

@@ -15,12 +15,14 @@ from __future__ import annotations
 from dataclasses import dataclass
 from typing import Any, Callable, Generic, Sequence, TypeVar
 
-from textual import on
+from textual import events, on
 from textual.app import App, ComposeResult
 from textual.binding import Binding
 from textual.containers import Vertical, VerticalScroll
 from textual.content import Content
+from textual.message import Message
 from textual.screen import ModalScreen
+from textual.widget import Widget
 from textual.widgets import Input, Label
 
 from pairings.tui.text import cell, safe
@@ -30,24 +32,103 @@ T = TypeVar("T")
 
 @dataclass(frozen=True)
 class Field:
-    """One line of a form: its key in the result, its label, a starting value."""
+    """One line of a form: its key in the result, its label, a starting value; ``choices`` makes it a choice."""
 
     key: str
     label: str
     value: str = ""
     placeholder: str = ""
+    choices: tuple[str, ...] = ()
+
+
+class Choice(Widget, can_focus=True):
+    """One of a few words, all shown on one line: ← / → or the first letters of a word choose it.
+
+    The choice changes at once with the key (a ``RadioSet`` takes its new value
+    only when a message comes back, so an Enter typed right after could save
+    the old one). The chosen word is bracketed, so it reads in any colours.
+    """
+
+    DEFAULT_CSS = """
+    Choice { height: 1; width: 100%; }
+    Choice:focus { background: $accent 25%; }
+    """
+    BINDINGS = [Binding("left", "step(-1)", "Previous", show=False), Binding("right", "step(1)", "Next", show=False)]
+
+    @dataclass
+    class Changed(Message):
+        choice: "Choice"
+
+        @property
+        def control(self) -> "Choice":
+            return self.choice
+
+    def __init__(self, *, id: str | None = None) -> None:
+        super().__init__(id=id)
+        self.choices: tuple[str, ...] = ()
+        self.index = 0
+        self._typed = ""
+
+    def set_choices(self, choices: Sequence[str], value: str) -> None:
+        self.choices = tuple(choices)
+        self.index = self.choices.index(value) if value in self.choices else 0
+        self._typed = ""
+        self.refresh()
+
+    @property
+    def value(self) -> str:
+        return self.choices[self.index] if self.choices else ""
+
+    def _choose(self, index: int) -> None:
+        if index != self.index:
+            self.index = index
+            self.refresh()
+            self.post_message(self.Changed(self))
+
+    def action_step(self, step: int) -> None:
+        self._typed = ""
+        if self.choices:
+            self._choose((self.index + step) % len(self.choices))
+
+    def on_key(self, event: events.Key) -> None:
+        char = event.character
+        if char is None or len(char) != 1 or not char.isalnum():
+            return
+        event.stop()
+        for typed in (self._typed + char.casefold(), char.casefold()):
+            found = next((i for i, c in enumerate(self.choices) if c.casefold().startswith(typed)), None)
+            if found is not None:
+                self._typed = typed
+                self._choose(found)
+                return
+
+    def on_blur(self) -> None:
+        self._typed = ""
+
+    def render(self) -> Content:
+        parts: list[str | tuple[str, str]] = []
+        for i, word in enumerate(self.choices):
+            parts += [(f"[{word}]", "bold reverse") if i == self.index else f" {word} ", " "]
+        return Content.assemble(*parts)
 
 
 Check = Callable[[dict[str, str]], str | None]
 """Returns the problem with the values (one line), or None when they can be used."""
+Follow = Callable[[dict[str, str]], dict[str, str]]
+"""Placeholders by field key, worked out from the values (called when a choice changes)."""
 
 
 class Dialog(ModalScreen[T], Generic[T]):
     """A dialog that can be shown again with new contents (see :func:`open_dialog`)."""
 
+    class Ready(Message):
+        """Posted to the app once a new dialog has its widgets and its focus (see ``DeskApp.on_event``)."""
+
     def __init__(self) -> None:
         super().__init__()
         self.in_use = False
+        self.ready = False
+        """False until the widgets exist: keys typed before that wait in the app (``DeskApp._hand_on_keys``)."""
 
     @property
     def shape(self) -> str:
@@ -61,11 +142,16 @@ class Dialog(ModalScreen[T], Generic[T]):
 
     def on_mount(self) -> None:
         self.fill()
+        self.ready = True
+        self.app.post_message(self.Ready())
 
     def fill(self) -> None:
         """Bring the widgets up to the contents."""
 
     def close(self, value: T) -> None:
+        """Dismiss with ``value``; a second close before the screen is gone (Enter twice) does nothing."""
+        if not self.in_use:
+            return
         self.in_use = False
         self.dismiss(value)
 
@@ -118,13 +204,24 @@ class ConfirmDialog(Dialog[bool]):
 
 
 class FormDialog(Dialog[dict[str, str] | None]):
-    """A few text fields; Enter moves on and, in the last field, saves (after ``check``); Esc cancels."""
+    """A few text fields; Enter moves on and, in the last field, saves (after ``check``); Esc cancels.
 
-    BINDINGS = [Binding("escape", "cancel", "Cancel")]
+    Enter in a field before the last is a priority binding: it runs when the
+    app reads the key, so the focus is on the next field before the keys typed
+    after it are handed out (as an ``Input.Submitted`` message it ran only after
+    them, and fast typing landed in the first field). Enter in the last field
+    stays the field's own, so it submits after every key typed before it.
+    """
+
+    BINDINGS = [
+        Binding("escape", "cancel", "Cancel"),
+        Binding("enter", "next_field", "Next field", show=False, priority=True),
+    ]
 
     def __init__(
         self, title: str, fields: Sequence[Field], check: Check | None = None, intro: Sequence[str] = (),
         save_from: int | None = None,
+        follow: Follow | None = None,
     ) -> None:
         """``save_from``: Enter saves from this field on (the fields after it are reached with Tab)."""
         super().__init__()
@@ -133,19 +230,22 @@ class FormDialog(Dialog[dict[str, str] | None]):
         self._c_check = check
         self._c_intro = list(intro)
         self._c_save_from = len(self._c_fields) - 1 if save_from is None else save_from
+        self._c_follow = follow
 
     @property
     def shape(self) -> str:
-        return f"{len(self._c_fields)} {len(self._c_intro)}"
+        kinds = ",".join("|".join(f.choices) for f in self._c_fields)
+        return f"{len(self._c_fields)} {len(self._c_intro)} {kinds}"
 
     def compose(self) -> ComposeResult:
         with Vertical(classes="dialog"):
             yield Label("", id="form-title", classes="dialog-title")
-            for i in range(len(self._c_intro)):
-                yield Label("", id=f"intro-{i}", classes="dialog-intro")
-            for i in range(len(self._c_fields)):
-                yield Label("", id=f"label-{i}", classes="field-label")
-                yield Input(id=f"field-{i}", compact=True)
+            with VerticalScroll(classes="form-fields"):  # a long form scrolls; title and keys stay in view
+                for i in range(len(self._c_intro)):
+                    yield Label("", id=f"intro-{i}", classes="dialog-intro")
+                for i, f in enumerate(self._c_fields):
+                    yield Label("", id=f"label-{i}", classes="field-label")
+                    yield Choice(id=f"field-{i}") if f.choices else Input(id=f"field-{i}", compact=True)
             yield Label("", id="problem", classes="problem")
             yield Label("", id="form-keys", classes="dialog-keys")
 
@@ -159,24 +259,62 @@ class FormDialog(Dialog[dict[str, str] | None]):
             self.query_one(f"#intro-{i}", Label).update(cell(line))
         for i, f in enumerate(self._c_fields):
             self.query_one(f"#label-{i}", Label).update(cell(f.label))
+            if f.choices:
+                self.query_one(f"#field-{i}", Choice).set_choices(f.choices, f.value)
+                continue
             field = self.query_one(f"#field-{i}", Input)
             field.value, field.placeholder = f.value, f.placeholder
             field.cursor_position = len(f.value)
         self.query_one("#problem", Label).update("")
-        self.set_focus(self.query_one("#field-0", Input))
-        box = self.query_one(".dialog")
-        self.call_after_refresh(box.scroll_home, animate=False)  # a tall form opens at its title
+        self.set_focus(self.query_one("#field-0"))
+        box = self.query_one(".form-fields")
+        self.call_after_refresh(box.scroll_home, animate=False)  # a tall form opens at its first field
 
     def values(self) -> dict[str, str]:
-        return {f.key: self.query_one(f"#field-{i}", Input).value for i, f in enumerate(self._c_fields)}
+        return {f.key: self._value(i) for i, f in enumerate(self._c_fields)}
+
+    def _value(self, i: int) -> str:
+        if self._c_fields[i].choices:
+            return self.query_one(f"#field-{i}", Choice).value
+        return self.query_one(f"#field-{i}", Input).value
+
+    @on(Choice.Changed)
+    def choice_changed(self) -> None:
+        """Placeholders that depend on a choice (the printout's file name on its format) follow it."""
+        if self._c_follow is None:
+            return
+        shown = self._c_follow(self.values())
+        for i, f in enumerate(self._c_fields):
+            if f.key in shown and not f.choices:
+                self.query_one(f"#field-{i}", Input).placeholder = shown[f.key]
+
+    @staticmethod
+    def _index(widget: Widget | None) -> int:
+        """The field number of a form widget (``field-3`` → 3)."""
+        return int(((widget.id if widget is not None else None) or "field-0").removeprefix("field-"))
+
+    def check_action(self, action: str, parameters: tuple[object, ...]) -> bool | None:
+        if action == "next_field":
+            focused = self.focused
+            return isinstance(focused, Choice) or isinstance(focused, Input) and self._index(focused) < self._c_save_from
+        return True
+
+    def action_next_field(self) -> None:
+        if self._index(self.focused) >= self._c_save_from:
+            self.save()
+        else:
+            self.focus_next("Input, Choice")
 
     @on(Input.Submitted)
     def submit(self, event: Input.Submitted) -> None:
         event.stop()
-        index = int((event.input.id or "field-0").removeprefix("field-"))
-        if index < self._c_save_from:
-            self.focus_next()
+        if self._index(event.input) < self._c_save_from:
+            self.focus_next("Input, Choice")
             return
+        self.save()
+
+    def save(self) -> None:
+        """Close with the values, unless ``check`` finds a problem (shown in the form)."""
         values = self.values()
         problem = self._c_check(values) if self._c_check is not None else None
         if problem:
@@ -185,6 +323,31 @@ class FormDialog(Dialog[dict[str, str] | None]):
         self.close(values)
 
     def action_cancel(self) -> None:
+        self.close(None)
+
+
+class ReadDialog(Dialog[None]):
+    """A text to read whole (wrapped, scrolled), for a line a table had to cut."""
+
+    BINDINGS = [Binding("escape,enter,q", "close_text", "Close")]
+
+    def __init__(self, title: str, lines: Sequence[str]) -> None:
+        super().__init__()
+        self._c_title = title
+        self._c_lines = list(lines)
+
+    def compose(self) -> ComposeResult:
+        with Vertical(classes="dialog"):
+            yield Label("", id="read-title", classes="dialog-title")
+            with VerticalScroll(classes="dialog-lines"):
+                yield Label("", id="read-text", classes="read-text")
+            yield Label("Esc / Enter: close", classes="dialog-keys")
+
+    def fill(self) -> None:
+        self.query_one("#read-title", Label).update(cell(self._c_title))
+        self.query_one("#read-text", Label).update(Content("\n".join(safe(line) for line in self._c_lines)))
+
+    def action_close_text(self) -> None:
         self.close(None)
 
 

@@ -35,6 +35,10 @@ class Column:
     flex: bool = False
     """Takes a share of the width the other columns leave."""
     limit: int = 40
+    least: int = 6
+    """A flex column's narrowest width."""
+    rank: int = 0
+    """Flex columns of a lower rank grow to their longest cell first (names before a result's words)."""
 
 
 RowMaker = Callable[[int], Sequence[object]]
@@ -79,7 +83,7 @@ class Grid(ScrollView, can_focus=True):
     ]
     COMPONENT_CLASSES: ClassVar[set[str]] = {"grid--header", "grid--cursor", "grid--odd"}
     DEFAULT_CSS = """
-    Grid { height: 1fr; }
+    Grid { height: 1fr; overflow-x: hidden; }
     Grid > .grid--header { text-style: bold; background: $panel; }
     Grid > .grid--cursor { background: $accent 40%; text-style: bold; }
     Grid:focus > .grid--cursor { background: $accent; color: $text; }
@@ -183,15 +187,24 @@ class Grid(ScrollView, can_focus=True):
         fixed = [c.width if c.width is not None else min(self._natural[i], c.limit) if not c.flex else 0
                  for i, c in enumerate(self.columns)]
         flex = [i for i, c in enumerate(self.columns) if c.flex]
-        spare = width - sum(fixed) - len(self.columns) - 2
         for i in flex:
-            fixed[i] = max(6, min(self._natural[i], spare // len(flex))) if spare > 0 else 6
+            fixed[i] = min(self.columns[i].least, self._natural[i])
+        left = width - sum(fixed) - len(self.columns) - 2  # a space before each column, the scrollbar
+        for rank in sorted({self.columns[i].rank for i in flex}):
+            # Within a rank, the shortest needs are met first and what they leave goes to the others.
+            waiting = sorted((i for i in flex if self.columns[i].rank == rank), key=lambda i: self._natural[i])
+            while waiting and left > 0:
+                i = waiting.pop(0)
+                grow = min(self._natural[i] - fixed[i], left // (len(waiting) + 1))
+                fixed[i] += max(0, grow)
+                left -= max(0, grow)
         self._widths = fixed
         self.virtual_size = Size(width, len(self._keys) + 1)
         self.refresh()
 
     def on_resize(self, event: events.Resize) -> None:
         self._layout()
+        self._show_cursor()
 
     def _line(self, cells: Sequence[str]) -> str:
         return " " + " ".join(fit(text, w) for text, w in zip(cells, self._widths))
@@ -214,13 +227,18 @@ class Grid(ScrollView, can_focus=True):
 
     # -- cursor ----------------------------------------------------------------------------
 
-    def watch_cursor(self, old: int, new: int) -> None:
+    def _show_cursor(self) -> None:
+        """Scroll so that the cursor row is on screen (again after a resize: rows set before the
+        grid had a size were scrolled against a height of nothing)."""
         body = max(1, self.size.height - 1)
-        top = int(self.scroll_offset.y)
+        top, new = int(self.scroll_offset.y), self.cursor
         if new < top:
             self.scroll_to(y=new, animate=False, immediate=True)
         elif new >= top + body:
             self.scroll_to(y=new - body + 1, animate=False, immediate=True)
+
+    def watch_cursor(self, old: int, new: int) -> None:
+        self._show_cursor()
         self.refresh()
         if self._keys:
             self.post_message(self.Highlighted(self, new, self._keys[new]))

@@ -18,7 +18,7 @@ from pairings.state import EventState, Result, Round, RoundState
 from pairings.tui.base import Place
 from pairings.tui.dialogs import ConfirmDialog, Field, FormDialog, open_dialog
 from pairings.tui.grid import Column, Grid, RowMaker
-from pairings.tui.text import RESULT_WORDS, cell, name, points, widest
+from pairings.tui.text import RESULT_WORDS, cell, name, points, short_result, widest
 
 RESULT_KEYS: dict[str, Result] = {
     "f": Result.FIRST_WINS,
@@ -38,6 +38,10 @@ _KEY_SHOWN = {"plus": "+", "minus": "-"}
 
 def result_text(result: Result | None) -> str:
     return f"{result.value}  {RESULT_WORDS[result]}" if result is not None else "open"
+
+
+RESULT_WIDTH = max(len(result_text(r)) for r in Result)
+"""The widest a result can be (the column keeps its width while results come in)."""
 
 
 class ResultsPlace(Place):
@@ -91,11 +95,12 @@ class ResultsPlace(Place):
         if shape != self._shown:
             grid.set_columns([
                 Column("board", "Bd", 4), Column("first", sides[0], flex=True), Column("p1", "Pts", 4),
-                Column("second", sides[1], flex=True), Column("p2", "Pts", 4), Column("result", "Result", 32),
+                Column("second", sides[1], flex=True), Column("p2", "Pts", 4),
+                Column("result", "Result", flex=True, least=7, rank=1),  # names first; the code fits in 7
             ])
             grid.set_source([str(g.board) for g in rnd.games], self._row_maker(state, rnd), [
                 4, widest(name(state, g.first) for g in rnd.games), 4,
-                widest(name(state, g.second) for g in rnd.games), 4, 32,
+                widest(name(state, g.second) for g in rnd.games), 4, RESULT_WIDTH,
             ])
             self._shown = shape
             self.move_to_open(0)
@@ -113,9 +118,9 @@ class ResultsPlace(Place):
         return row
 
     def show_entry(self) -> None:
-        text = f"Board: {self.typed}_" if self.typed else "Board: (the one under the cursor)"
-        keys = ("  then f first wins · d draw · s second wins · + / - forfeit · x double forfeit · c clear"
-                " · arbiter: z 0-0, h ½-0, j 0-½")
+        text = f"Board: {self.typed}_" if self.typed else "Board: under the cursor"
+        keys = " · then " + " ".join(f"{_KEY_SHOWN.get(k, k)} {short_result(r)}" for k, r in RESULT_KEYS.items())
+        keys += " · c clear"
         self.query_one("#entry", Label).update(text + keys)
 
     def move_to_open(self, start_index: int) -> None:

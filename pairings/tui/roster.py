@@ -16,6 +16,7 @@ from pairings.events import Event
 from pairings.details import detail_texts, read_details
 from pairings.roster import decode, import_roster, read_roster
 from pairings.state import ByeKind, EventState, Player, PlayerDetails, PlayerId, Status
+from pairings.text import fold
 from pairings.tui.base import Action, Place
 from pairings.tui.dialogs import Field, FormDialog, open_dialog
 from pairings.tui.grid import Column, Grid
@@ -76,31 +77,31 @@ class RosterPlace(Place):
     ]
 
     def body(self) -> ComposeResult:
-        yield Input(placeholder="/ filter by name (Esc: back to the list)", id="filter", compact=True)
+        yield Input(placeholder="/ filter by name, id or club (Esc: back to the list)", id="filter", compact=True)
         yield Grid(id="players")
 
     def __init__(self) -> None:
         super().__init__()
         self._index: tuple[int, list[Player], list[str], dict[PlayerId, str]] | None = None
-        """Per state head: the players, their names casefolded (for the filter) and their status."""
+        """Per state head: the players, what the filter looks in (id, name, club: folded) and their status."""
 
     def on_mount(self) -> None:
         grid = self.query_one("#players", Grid)
-        grid.set_columns([Column("id", "Id", limit=8), Column("name", "Name", flex=True),
-                          Column("fed", "Fed", 3), Column("rating", "Rating", 7), Column("club", "Club", limit=20),
+        grid.set_columns([Column("id", "Id", limit=8), Column("name", "Name", flex=True, least=10),
+                          Column("fed", "Fed", 3), Column("rating", "Rating", 7), Column("club", "Club", flex=True, rank=1),
                           Column("score", "Score", 5), Column("status", "Status", limit=24)])
         grid.focus()
 
     def index(self, state: EventState) -> tuple[list[Player], list[str], dict[PlayerId, str]]:
         if self._index is None or self._index[0] != state.head:
             players = list(state.players.values())
-            self._index = (state.head, players, [p.name.casefold() for p in players],
+            self._index = (state.head, players, [fold(f"{p.id}\n{p.name}\n{p.club or ''}") for p in players],
                            {p.id: status_words(state, p) for p in players})
         return self._index[1:]
 
     def show(self, state: EventState) -> None:
         players, folded, status = self.index(state)
-        wanted = self.query_one("#filter", Input).value.strip().casefold()
+        wanted = fold(self.query_one("#filter", Input).value.strip())
         shown = [p for p, f in zip(players, folded) if wanted in f] if wanted else players
 
         def row(i: int) -> tuple[str, ...]:

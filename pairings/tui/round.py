@@ -32,7 +32,7 @@ from pairings.tui.dialogs import ConfirmDialog, Field, FormDialog, open_dialog
 from pairings.tui.grid import Column, Grid
 from pairings.tui.offload import Job
 from pairings.tui.text import (
-    cell, describe_round, flag_words, name, open_flags, points, safe, short_result, widest,
+    cell, describe_round, flag_words, flagged_games, name, open_flags, points, safe, short_result, widest,
 )
 
 WHY_DELAY = 0.25
@@ -40,6 +40,15 @@ WHY_DELAY = 0.25
 WIDE = 96
 """From this terminal width on the screen has the ``-wide`` class (desk.tcss), below ``-narrow``."""
 
+
+
+def prefill(state: EventState, pid: PlayerId) -> str:
+    """What a player field starts with: the name, or the id when the name alone would not find them."""
+    player = state.players[pid]
+    try:
+        return player.name if actions.find_player(state, player.name) == pid else pid
+    except InputError:
+        return pid
 
 
 class RoundPlace(Place):
@@ -52,6 +61,7 @@ class RoundPlace(Place):
         Binding("b", "bye", "To/from bye"),
         Binding("x", "discard", "Discard draft"),
         Binding("p", "publish", "Publish"),
+        Binding("w", "why", "Why panel"),
         Binding("comma", "browse(-1)", "Earlier round", key_display=","),
         Binding("full_stop", "browse(1)", "Later round", key_display="."),
     ]
@@ -106,7 +116,23 @@ class RoundPlace(Place):
 
     def on_mount(self) -> None:
         self.query_one("#busy").display = False
+        self.query_one("#why").border_title = "Why · ↑↓ PgUp PgDn · w/Esc: back"
         self.query_one("#boards", Grid).focus()
+
+    def action_why(self) -> None:
+        """Into the Why panel (opened beside the boards in a narrow terminal) and back out of it."""
+        why, main = self.query_one("#why", VerticalScroll), self.query_one("#round-main")
+        if why.has_focus:
+            main.remove_class("-why-open")
+            self.query_one("#boards", Grid).focus()
+            return
+        main.add_class("-why-open")
+        why.focus()
+        self.explain_selected()
+
+    def key_escape(self) -> None:
+        if self.query_one("#why").has_focus:
+            self.action_why()
 
     # -- showing ---------------------------------------------------------------------------
 
@@ -129,8 +155,9 @@ class RoundPlace(Place):
             self._boards = ()
             return
         sides = state.settings.sides or ("First", "Second")
-        what = f"Round {rnd.number}: {describe_round(rnd)}"
         costs = [f"{k} {points(v)}" for k, v in rnd.cost.items() if v]
+        # The topline says how the latest round stands; this line says it for a round browsed back to.
+        what = f"Round {rnd.number}" if rnd is state.last_round else f"Round {rnd.number}: {describe_round(rnd)}"
         what += " · cost: " + (", ".join(costs) if costs else "none")
         if rnd.paired_before:
             what += f" · paired on scores since corrected ({len(rnd.paired_before)}: see the Log)"
@@ -202,6 +229,8 @@ class RoundPlace(Place):
     def start_explain(self) -> None:
         """One explanation at a time (each is a full re-draft), for the board the cursor rests on."""
         if self._explaining or self._wanted is None or self._wanted[0] != self.state.head:
+            return
+        if not self.query_one("#why").display:  # closed in a narrow terminal: worked out when opened (w)
             return
         self._explaining = True
         _, number, board = self._wanted
@@ -377,7 +406,7 @@ class RoundPlace(Place):
             if values is not None:
                 self.start_preview((kind, tuple(found)), base)
 
-        first = game.first if game is not None else ""
+        first = prefill(self.state, game.first) if game is not None else ""
         fields = [Field(f"p{i}", label, first if i == 0 else "", "id or name") for i, label in enumerate(labels)]
         open_dialog(self.app, FormDialog(title, fields, check), done)
 
@@ -408,7 +437,7 @@ class RoundPlace(Place):
         state, base = self.state, self.shown_head
         lines = [
             f"board {g.board}: {', '.join(open_flags(g.flags))} ({name(state, g.first)} – {name(state, g.second)})"
-            for g in rnd.games if open_flags(g.flags)
+            for g in flagged_games(rnd)
         ]
         lines = [f"Flags still open: {len(lines)}"] + lines if lines else ["No flags open."]
         lines += [f"bye: {name(state, y.player)} ({y.kind.value})" for y in rnd.byes]

@@ -9,6 +9,7 @@ from __future__ import annotations
 from dataclasses import dataclass
 from typing import TYPE_CHECKING, ClassVar
 
+from rich.text import Text
 from textual import on, work
 from textual.app import ComposeResult
 from textual.binding import Binding, BindingType
@@ -20,7 +21,7 @@ from pairings.errors import InputError
 from pairings.state import EventState
 from pairings.tui.base import Place
 from pairings.tui.grid import Column, Grid
-from pairings.tui.text import cell, points, widest
+from pairings.tui.text import cell, points, safe, widest
 
 if TYPE_CHECKING:  # standings and prizes load in the worker
     from pairings.prizes import PrizeList

@@ -13,7 +13,7 @@ from typing import Iterable
 from rich.cells import cell_len
 from rich.text import Text
 
-from pairings.state import EventState, PlayerId, Result, Round, RoundState
+from pairings.state import EventState, Game, PlayerId, Result, Round, RoundState
 from pairings.text import plain
 
 
@@ -74,8 +74,7 @@ def round_status(state: EventState) -> str:
 
 def describe_round(rnd: Round) -> str:
     if rnd.state is RoundState.DRAFT:
-        flagged = sum(1 for g in rnd.games if g.flags)
-        return f"draft, {len(rnd.games)} boards, {flagged} flagged"
+        return f"draft, {len(rnd.games)} boards, {len(flagged_games(rnd))} flagged"
     if rnd.state is RoundState.PUBLISHED:
         return f"published, {len(rnd.open_boards)} of {len(rnd.games)} boards open"
     return f"complete, {len(rnd.games)} boards"
@@ -105,3 +104,8 @@ OPEN_FLAGS_IGNORED = ("pinned", "changed")
 
 def open_flags(flags: tuple[str, ...]) -> tuple[str, ...]:
     return tuple(f for f in flags if f.split()[0] not in OPEN_FLAGS_IGNORED)
+
+
+def flagged_games(rnd: Round) -> list[Game]:
+    """The boards whose flags are still open: what "N flagged" counts and the publish check lists."""
+    return [g for g in rnd.games if open_flags(g.flags)]

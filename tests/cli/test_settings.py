@@ -40,7 +40,7 @@ CHANGES = [
     ("--requested-bye-limit", "2", "requested_bye_limit", 2),
     ("--requested-bye-last-round", "4", "requested_bye_last_round", 4),
     ("--late-entry-points", "0.5", "late_entry_points", 0.5),
-    ("--tiebreaks", "sonneborn_berger,buchholz", "tiebreaks", ("sonneborn_berger", "buchholz")),
+    ("--tiebreaks", "sb,BH", "tiebreaks", ("SB", "BH")),
     ("--unplayed", "as-they-stand", "unplayed", "as_they_stand"),
     ("--system", "dutch", "system", "dutch"),
     ("--acceleration", "baku", "acceleration", "baku"),
@@ -158,11 +158,11 @@ def test_allowed_after_publication_and_the_standings_say_so(cli, tmp_path: Path)
     _publish_round_one(cli, event)
     for board in (1, 2):
         assert cli("result", event, board, "1-0").code == 0
-    ran = cli("settings", event, "--tiebreaks", "wins", "--name", "Heath Winter Open", "--rounds", "6")
+    ran = cli("settings", event, "--tiebreaks", "win", "--name", "Heath Winter Open", "--rounds", "6")
     assert ran.code == 0, ran.err
     assert "changed after round 1; standings recomputed" in ran.out
     settings, _ = _settings(event)
-    assert settings.tiebreaks == ("wins",) and settings.rounds == 6
+    assert settings.tiebreaks == ("WIN",) and settings.rounds == 6
     standings = cli("standings", event).out
     assert "Tiebreaks changed after round 1; standings recomputed." in standings
     assert "Tiebreaks changed after round 1" in cli("standings", event, "--format", "html").out

@@ -56,5 +56,23 @@ def new_event(path: Path, players: int = 0) -> EventStore:
     """An event made as `pairings new E --name "Test Open" --rounds 3 --seed 7` makes it."""
     store = EventStore.create(path, actions.new_event("Test Open", 3, seed=7))
     for name, rating, club in PLAYERS[:players]:
-        store.apply(lambda s, n=name, r=rating, c=club: actions.add_player(s, n, int(r) if r else None, c or None))
+        store.append(actions.add_player(store.state, name, int(rating) if rating else None, club or None))
     return store
+
+
+def burst(app: DeskApp, *keys: str) -> None:
+    """Queue ``keys`` at once, as a terminal delivers fast typing: nothing is handled in between.
+
+    (``pilot.press`` waits for the app to go idle after each key, which hides
+    races between a key and the focus change the previous key caused.)
+    """
+    from textual import events
+
+    driver = app._driver
+    assert driver is not None
+    for key in keys:
+        char = key if len(key) == 1 else {"space": " "}.get(key)
+        name = {" ": "space"}.get(key, key)
+        event = events.Key(name, char)
+        event.set_sender(app)
+        driver.send_message(event)

@@ -35,12 +35,12 @@ def test_settings_place_changes_each_kind_of_setting(tmp_path: Path) -> None:
             head = app.state.head
             await _set_input(app, pilot, "name", "Spring Open")
             await _set_input(app, pilot, "rounds", "5")
-            await _set_input(app, pilot, "tiebreaks", "buchholz,wins")
+            await _set_input(app, pilot, "tiebreaks", "bh,WIN")
             await _set_input(app, pilot, "late_entry_points", "0.5")
             await _set_input(app, pilot, "requested_bye_limit", "2")
             s = app.state.settings
             assert (s.name, s.rounds, s.tiebreaks, s.late_entry_points, s.requested_bye_limit) == (
-                "Spring Open", 5, ("buchholz", "wins"), 0.5, 2), notes.messages
+                "Spring Open", 5, ("BH", "WIN"), 0.5, 2), notes.messages
             assert app.state.head == head + 5  # one logged change each
 
             app.screen.query_one("#setting-system", Select).value = "dutch"
@@ -85,8 +85,8 @@ def test_settings_place_refuses_what_would_change_a_published_round(tmp_path: Pa
             assert app.state.head == head and "round 1 is published" in notes.last()
             assert store.path.read_bytes() == before
             # Allowed after publication: the tiebreaks; the standings note says so.
-            await _set_input(app, pilot, "tiebreaks", "sonneborn_berger")
-            assert app.state.settings.tiebreaks == ("sonneborn_berger",)
+            await _set_input(app, pilot, "tiebreaks", "SB")
+            assert app.state.settings.tiebreaks == ("SB",)
             assert app.state.settings.changed_after == ((1, "tiebreaks"),)
             assert app.state.rounds[0].state is RoundState.PUBLISHED
         store.close()
