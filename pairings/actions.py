@@ -28,6 +28,7 @@ if TYPE_CHECKING:  # the engine (and networkx) load only for the commands that p
 MAX_NAME = 300
 
 
+
 def new_event(
     name: str, rounds: int, scoring: str = "1,0.5,0", sides: bool = True, bye_points: float | None = None,
     seed: int | None = None, round_robin: bool = False, double_round: bool = False,

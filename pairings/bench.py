@@ -28,6 +28,8 @@ graph with each weight cut to its top 62 bits: the solver's work, not an exact
 optimum), and the text standings (target at most 0.3 s) with the reports' own
 table layout and with rich laying the tables out. ``--rating-list N`` times one streamed read of a
 generated N-line FIDE rating list (default two million lines) for a 500-player event.
+``--dutch 1000,10000`` also drafts the same states by the FIDE (Dutch) System and prints
+its time against the whole-round system's in the same run.
 """
 
 from __future__ import annotations
@@ -39,6 +41,7 @@ import sys
 import tempfile
 import time
 import tracemalloc
+from dataclasses import replace
 from pathlib import Path
 from typing import Callable, TypeVar
 
@@ -53,7 +56,7 @@ from pairings.engine.solver import fast_available
 from pairings.fold import fold
 from pairings.reports import render, text
 from pairings.simulate import simulate_events
-from pairings.state import EventState
+from pairings.state import EventState, System
 from pairings.store import EventStore
 
 T = TypeVar("T")
@@ -109,6 +112,17 @@ def bench_one(n: int, rounds: int, played: int, seed: int, reference_limit: int)
     cost = ", ".join(f"{k} {v}" for k, v in draft.cost.items() if v)
     return (f"| {n:,} | {played + 1} of {rounds} | {fold_s:.2f} | {engine_s:.2f} | {peak:.0f} | "
             f"{ref_cell} | {ratio_cell} | {how} | {cost} |")
+
+
+def bench_dutch(n: int, rounds: int, played: int, seed: int) -> str:
+    """One row: the FIDE (Dutch) System against the whole-round system on the same simulated state."""
+    state = fold(enumerate(simulate_events(n, rounds, played, seed), 1))
+    _, whole_s = _timed(lambda: draft_round(state))
+    dutch = replace(state, settings=replace(state.settings, system=System.DUTCH))
+    draft, dutch_s = _timed(lambda: draft_round(dutch))
+    floats = sum(1 for b in draft.boards if any(f.startswith("gap") for f in b.flags))
+    return (f"| {n:,} | {played + 1} of {rounds} | {whole_s:.2f} | {dutch_s:.2f} | {dutch_s / whole_s:.1f} | "
+            f"{len(draft.boards):,} | {floats} |")
 
 
 def bench_fold(n: int, rounds: int, seed: int) -> str:
@@ -256,6 +270,7 @@ def main(argv: list[str] | None = None) -> None:
                         help="also time verifying one round of this many players (default %(default)s; 0: skip)")
     parser.add_argument("--rating-list", type=int, default=2_000_000, metavar="LINES",
                         help="lines of the generated FIDE rating list read once (default %(default)s; 0 skips it)")
+    parser.add_argument("--dutch", default="", help="comma-separated field sizes also drafted by the Dutch system")
     args = parser.parse_args(argv)
     engine = "compiled blossom and pair scan (implicit pruned pairs)" if implicit.available() else \
         f"{'rustworkx (compiled)' if fast_available() else 'networkx'} on the listed pruned pairs"
@@ -264,6 +279,12 @@ def main(argv: list[str] | None = None) -> None:
     print("| ---: | :---: | ---: | ---: | ---: | ---: | ---: | :--- | :--- |")
     for n in (int(x) for x in args.sizes.split(",")):
         print(bench_one(n, args.rounds, args.played, args.seed, args.reference_limit), flush=True)
+    if args.dutch:
+        print("\nFIDE (Dutch) System against the whole-round system, same state:")
+        print("| players | round | whole-round s | Dutch s | ratio | boards | floating boards |")
+        print("| ---: | :---: | ---: | ---: | ---: | ---: | ---: |")
+        for n in (int(x) for x in args.dutch.split(",")):
+            print(bench_dutch(n, args.rounds, args.played, args.seed), flush=True)
     if args.fold:
         print(bench_fold(args.fold, args.rounds, args.seed))
     if args.startup:

@@ -221,6 +221,8 @@ def check_consistent(s: Settings) -> None:
         )
     if s.acceleration is not Acceleration.NONE and s.system is System.ROUND_ROBIN:
         raise SettingsError("accelerated pairings are for a Swiss system, not a round robin")
+    if s.acceleration is Acceleration.BAKU and (s.scoring.win, s.scoring.draw, s.scoring.loss) != (1.0, 0.5, 0.0):
+        raise SettingsError("the Baku acceleration (C.04.5.1) is for the standard scoring 1,0.5,0 only")
 
 
 def _published(state: EventState) -> int:

@@ -388,6 +388,14 @@ class PlayerRecord:
         """Opponents actually met over the board (forfeits are not meetings)."""
         return tuple(e.opponent for e in self.entries if e.played and e.opponent is not None)
 
+    def met(self, forfeits: bool) -> tuple[PlayerId, ...]:
+        """Opponents met (H1): over the board, and when ``forfeits`` also in pairings that ended in a forfeit.
+
+        ``forfeits`` is the event's ``Settings.forfeit_is_meeting``.
+        """
+        return tuple(e.opponent for e in self.entries
+                     if e.opponent is not None and (e.played or (forfeits and e.result is not None)))
+
     @property
     def floats(self) -> tuple[tuple[int, Float | None], ...]:
         return tuple((e.round, e.float) for e in self.entries)

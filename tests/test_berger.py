@@ -144,10 +144,10 @@ def test_odd_field_sides_balanced(n: int) -> None:
 def test_double_round_repeats_with_sides_reversed(n: int) -> None:
     single = berger_rounds(n)
     for r in range(1, single + 1):
-        first = berger_pairs(n, r, double=True)
-        assert first == berger_pairs(n, r)
         second = berger_pairs(n, r + single, double=True)
-        assert second == [(a, None) if b is None else (b, a) for a, b in first]
+        assert second == [(a, None) if b is None else (b, a) for a, b in berger_pairs(n, r)]
+    # The first cycle plays the same table rounds (its last two swapped, tested below).
+    assert sorted(map(str, _cycle(n, double=True)[:single])) == sorted(map(str, _cycle(n)))
     meetings = Counter(
         frozenset((a, b)) for pairs in _cycle(n, double=True) for a, b in pairs if b is not None
     )
@@ -173,3 +173,42 @@ def test_round_out_of_range(n: int, double: bool, r: int) -> None:
 def test_last_round_in_range_is_accepted() -> None:
     assert len(berger_pairs(6, 10, double=True)) == 3
     assert len(berger_pairs(7, 7)) == 4
+
+
+def _played_runs(sides: str) -> int:
+    """The longest run of one side over the games played (a bye neither breaks nor separates)."""
+    played = sides.replace("-", "")
+    longest = run = 0
+    for k, s in enumerate(played):
+        run = run + 1 if k and s == played[k - 1] else 1
+        longest = max(longest, run)
+    return longest
+
+
+@pytest.mark.parametrize("n", SIZES)
+def test_double_round_robin_never_gives_a_side_three_times_running(n: int) -> None:
+    # Brute force over the whole double event: the first cycle's last two table rounds are swapped
+    # (the Berger-table practice, from memory), so no seat plays one side three rounds in a row,
+    # also across the two cycles.
+    for seat, s in _sides(n, double=True).items():
+        assert _played_runs(s) <= 2, (n, seat, s)
+
+
+def test_double_round_robin_of_six_rounds_five_to_seven() -> None:
+    # Unswapped, seat 1 had S, S, S and seat 4 F, F, F in rounds 5-7 (table round 5, then the
+    # reversed rounds 1 and 2).
+    sides = _sides(6, double=True)
+    assert sides[1][4:7] != "SSS" and sides[4][4:7] != "FFF"
+    assert sides[1] == "FFSSFSSFSF" and sides[4] == "SSFFSFFSFS"
+
+
+@pytest.mark.parametrize("n", sorted(PUBLISHED))
+def test_double_cycles_are_the_published_table(n: int) -> None:
+    # FIDE Handbook C.05 Annex 1 (from memory, as above): the first cycle is the table with its last
+    # two rounds swapped, the second cycle the table in its own order with every side reversed.
+    table = PUBLISHED[n]
+    cycle = len(table)
+    double = _cycle(n, double=True)
+    assert double[:cycle] == table[:-2] + [table[-1], table[-2]]
+    assert double[cycle:] == [[(b, a) for a, b in pairs] for pairs in table]
+    assert _cycle(n) == table  # a single round robin keeps the table's order

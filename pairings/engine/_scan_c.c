@@ -8,7 +8,8 @@
  *   heaviest  per vertex the k pairs of largest weight (smallest encoded cost, weights.Encoder);
  *   violated  per vertex the k pairs of most negative doubled reduced cost
  *             rc = y2[i] + y2[j] + 2 * sum(z_B : i, j in B) - 2 w(i, j)   (LP duality over
- *             Edmonds' perfect matching polytope, certificate.py), and the count of rc < 0.
+ *             Edmonds' perfect matching polytope, certificate.py), the count of rc < 0, and every
+ *             pair with rc == 0 (under an optimal dual: the pairs an optimum may use, canonical.py).
  * The blossom sum is P[lca(owner[i], owner[j])] in the laminar blossom tree (Euler tour plus a
  * sparse table of depth minima: constant time per pair). Exact integers: int32 cost columns,
  * __int128 place values, weights, duals and reduced costs (the Python wrapper bounds them).
@@ -95,7 +96,9 @@ typedef struct {
     uint8_t *gaps;
     Entry *entries;  /* n * k */
     int32_t *filled; /* n */
-    int error;
+    int64_t *tight;  /* MODE_VIOLATED: keys of the pairs with rc == 0 */
+    int64_t ntight, captight;
+    int error;       /* 1: a gap beyond the encoder's levels; 2: out of memory */
 } Work;
 
 static void scan_free(Scan *s) {
@@ -131,6 +134,10 @@ static Py_ssize_t lower_bound(const int64_t *a, Py_ssize_t len, int64_t key) {
 /* True when player i (ranked above j) gets the first side: vector.Arrays.first_of. */
 static inline int first_of(const Scan *s, int64_t i, int64_t j) {
     const Player *a = &s->p[i], *b = &s->p[j];
+    /* First the sides that break H3 for fewer of the two (breaks_* already leave out exempt players). */
+    int i_first = a->breaks_first + b->breaks_second, j_first = b->breaks_first + a->breaks_second;
+    if (i_first != j_first)
+        return i_first < j_first;
     if (a->want != 0 && a->want != b->want)
         return a->want == FIRST;
     if (a->want == 0)
@@ -241,6 +248,20 @@ static inline void offer(Work *w, int64_t v, i128 key, int64_t pid) {
     e[c].pid = pid;
 }
 
+static void keep_tight(Work *w, int64_t key) {
+    if (w->ntight == w->captight) {
+        int64_t cap = w->captight ? 2 * w->captight : 1024;
+        int64_t *grown = realloc(w->tight, sizeof(int64_t) * cap);
+        if (grown == NULL) {
+            w->error = 2;
+            return;
+        }
+        w->tight = grown;
+        w->captight = cap;
+    }
+    w->tight[w->ntight++] = key;
+}
+
 static inline i128 encoded(Work *w, const int32_t *c) {
     const i128 *pl = w->place;
     i128 total = (i128)c[0] * pl[0] + (i128)c[1] * pl[1] + (i128)c[2] * pl[2];
@@ -297,7 +318,9 @@ static void visit(Work *w, int64_t i, int64_t j, const int32_t *c) {
     default: {
         i128 weight = w->top - encoded(w, c);
         i128 rc = w->y2[i] + w->y2[j] + 2 * common_z(w->tree, i, j) - 2 * weight;
-        if (rc < 0) {
+        if (rc == 0)
+            keep_tight(w, i * s->n + j);
+        else if (rc < 0) {
             int64_t pid = i * s->n + j;
             w->count++;
             offer(w, i, rc, pid);
@@ -356,6 +379,8 @@ static int run_all(Work *works, int parts) {
     a->count += b->count;
     a->rematch_free += b->rematch_free;
     a->error |= b->error;
+    for (int64_t t = 0; t < b->ntight && !a->error; t++)
+        keep_tight(a, b->tight[t]);
     for (int k = 0; k < WIDTH; k++)
         if (b->maxima[k] > a->maxima[k])
             a->maxima[k] = b->maxima[k];
@@ -476,6 +501,7 @@ static void works_free(Work *works, int parts) {
         free(works[t].gaps);
         free(works[t].entries);
         free(works[t].filled);
+        free(works[t].tight);
     }
 }
 
@@ -681,31 +707,26 @@ static void tree_free(Tree *t) {
 }
 
 /* violated(capsule, parts, k, elevels, place, top, y2 (16 bytes per player), owner (int64 per player),
- *          parent (int64 per blossom, root = m), prefix (16 bytes per node, m + 1)) -> (bytes, count) */
-static PyObject *violated(PyObject *self, PyObject *args) {
-    PyObject *capsule;
-    int parts, k;
-    Py_ssize_t elevels;
-    Py_buffer place, top, y2, owner, parent, prefix;
-    if (!PyArg_ParseTuple(args, "Oiiny*y*y*y*y*y*", &capsule, &parts, &k, &elevels, &place, &top, &y2, &owner,
-                          &parent, &prefix))
-        return NULL;
-    PyObject *out = NULL, *keys = NULL;
+ *          parent (int64 per blossom, root = m), prefix (16 bytes per node, m + 1))
+ * -> (keys of every vertex's k most violated pairs, count of rc < 0, keys of every pair with rc == 0) */
+static PyObject *by_dual(PyObject *capsule, int parts, int k, Py_ssize_t elevels, Py_buffer *place,
+                         Py_buffer *top, Py_buffer *y2, Py_buffer *owner, Py_buffer *parent, Py_buffer *prefix) {
+    PyObject *out = NULL, *keys = NULL, *tight = NULL;
     Scan *s = scan_of(capsule);
     Work works[2];
     Tree tree;
     memset(&tree, 0, sizeof(tree));
     memset(works, 0, sizeof(works));
     parts = parts > 1 ? 2 : 1;
-    int64_t nodes = prefix.len / 16;
-    if (s == NULL || k < 1 || elevels < 0 || nodes < 1 || !int128_ok(&place, elevels + 10, "place") ||
-        !int128_ok(&top, 1, "top") || !int128_ok(&y2, s->n, "y2") || !int128_ok(&prefix, nodes, "prefix") ||
-        buffer_of(&owner, s->n, 8, "owner") || buffer_of(&parent, nodes - 1, 8, "parent")) {
+    int64_t nodes = prefix->len / 16;
+    if (s == NULL || k < 1 || elevels < 0 || nodes < 1 || !int128_ok(place, elevels + 10, "place") ||
+        !int128_ok(top, 1, "top") || !int128_ok(y2, s->n, "y2") || !int128_ok(prefix, nodes, "prefix") ||
+        buffer_of(owner, s->n, 8, "owner") || buffer_of(parent, nodes - 1, 8, "parent")) {
         if (!PyErr_Occurred())
-            PyErr_SetString(PyExc_ValueError, "bad violated arguments");
+            PyErr_SetString(PyExc_ValueError, "bad dual scan arguments");
         goto done;
     }
-    const int64_t *own = owner.buf, *par = parent.buf;
+    const int64_t *own = owner->buf, *par = parent->buf;
     for (int64_t v = 0; v < s->n; v++)
         if (own[v] < 0 || own[v] >= nodes) {
             PyErr_SetString(PyExc_ValueError, "owner out of range");
@@ -718,34 +739,52 @@ static PyObject *violated(PyObject *self, PyObject *args) {
         }
     tree.nodes = nodes;
     tree.owner = own;
-    tree.prefix = prefix.buf;
+    tree.prefix = prefix->buf;
     if (build_tree(&tree, par, nodes) || works_init(works, parts, s, MODE_VIOLATED, k)) {
         PyErr_NoMemory();
         goto done;
     }
     i128 topv;
-    memcpy(&topv, top.buf, 16);
+    memcpy(&topv, top->buf, 16);
     for (int t = 0; t < parts; t++) {
-        works[t].place = place.buf;
+        works[t].place = place->buf;
         works[t].elevels = elevels;
         works[t].top = topv;
-        works[t].y2 = y2.buf;
+        works[t].y2 = y2->buf;
         works[t].tree = &tree;
     }
     Py_BEGIN_ALLOW_THREADS
     run_all(works, parts);
     Py_END_ALLOW_THREADS
     if (works[0].error) {
-        PyErr_SetString(PyExc_ValueError, "a pair's score gap is beyond the encoder's levels");
+        if (works[0].error & 2)
+            PyErr_NoMemory();
+        else
+            PyErr_SetString(PyExc_ValueError, "a pair's score gap is beyond the encoder's levels");
         goto done;
     }
     keys = collect(&works[0]);
-    if (keys)
-        out = Py_BuildValue("OL", keys, (long long)works[0].count);
+    tight = PyBytes_FromStringAndSize((const char *)works[0].tight, works[0].ntight * 8);
+    if (keys && tight)
+        out = Py_BuildValue("OLO", keys, (long long)works[0].count, tight);
 done:
     Py_XDECREF(keys);
+    Py_XDECREF(tight);
     tree_free(&tree);
     works_free(works, parts);
+    return out;
+}
+
+/* The Python entry point of by_dual (above). */
+static PyObject *violated(PyObject *self, PyObject *args) {
+    PyObject *capsule;
+    int parts, k;
+    Py_ssize_t elevels;
+    Py_buffer place, top, y2, owner, parent, prefix;
+    if (!PyArg_ParseTuple(args, "Oiiny*y*y*y*y*y*", &capsule, &parts, &k, &elevels, &place, &top, &y2, &owner,
+                          &parent, &prefix))
+        return NULL;
+    PyObject *out = by_dual(capsule, parts, k, elevels, &place, &top, &y2, &owner, &parent, &prefix);
     PyBuffer_Release(&place);
     PyBuffer_Release(&top);
     PyBuffer_Release(&y2);
@@ -759,7 +798,8 @@ static PyMethodDef methods[] = {
     {"prepare", prepare, METH_VARARGS, "Per-player fields of one round's scan, as a capsule."},
     {"stats", stats, METH_VARARGS, "(count, column maxima, gaps, rematch-free count) of the pruned pairs."},
     {"heaviest", heaviest, METH_VARARGS, "Keys i * n + j of every vertex's k heaviest pruned pairs."},
-    {"violated", violated, METH_VARARGS, "Keys of every vertex's k most violated pruned pairs, and their count."},
+    {"violated", violated, METH_VARARGS,
+     "Keys of every vertex's k most violated pruned pairs, their count, and the keys of the tight pairs."},
     {NULL, NULL, 0, NULL},
 };
 

@@ -22,7 +22,13 @@ Round 1 of the 8-seat table thus reads 1-8, 2-7, 3-6, 4-5 and round 2 reads
 
 An odd field uses the table of the next even size; the extra seat is a dummy
 and the player drawn against it has the bye (C.05). A double round robin plays
-the table twice, the second cycle with every pair's sides reversed.
+the table twice, the second cycle with every pair's sides reversed, and its
+first cycle plays the table's last two rounds in swapped order (the usual
+practice with the Berger tables, from memory): otherwise seat 1 would play
+the second side in the table's last round and in the first two rounds of the
+reversed cycle, and seat ``n/2 + 1`` the first side three times. With the swap
+no player has the same side three rounds running anywhere in the event (the
+tests check every size).
 
 References
 ----------
@@ -72,8 +78,9 @@ def berger_pairs(n_players: int, round: int, double: bool = False) -> list[tuple
     round
         Round number, 1..``berger_rounds(n_players, double)``.
     double
-        A double round robin: rounds after the first cycle repeat it with the
-        sides reversed.
+        A double round robin: the first cycle plays the table's last two
+        rounds in swapped order; the second cycle repeats the table (in its
+        own order) with the sides reversed.
 
     Returns
     -------
@@ -94,6 +101,8 @@ def berger_pairs(n_players: int, round: int, double: bool = False) -> list[tuple
     cycle_length = seats - 1
     reverse = round > cycle_length
     r = round - cycle_length if reverse else round
+    if double and not reverse and r >= cycle_length - 1:
+        r = 2 * cycle_length - 1 - r  # the first cycle's last two rounds swapped (module Notes)
 
     half = seats // 2
     start = (r - 1) * half

@@ -54,7 +54,7 @@ from typing import Collection, Iterator, Sequence
 import numpy as np
 from numpy.typing import NDArray
 
-from pairings.engine import blossom, certificate, solver, weights
+from pairings.engine import blossom, canonical, certificate, solver, weights
 from pairings.engine.criteria import Cost, Field
 from pairings.engine.vector import WIDTH, AnyArray, Arrays, IntArray
 from pairings.errors import NoPairingError
@@ -437,8 +437,9 @@ def _best_per_vertex(u: IntArray, v: IntArray, score: AnyArray, among: NDArray[n
 
 def certified_matching(n: int, u: IntArray, v: IntArray, w: AnyArray, rank: IntArray,
                        window: int = SPARSE_WINDOW, rounds: int = SPARSE_ROUNDS, *,
-                       seed: NDArray[np.bool_] | None = None) -> tuple[list[tuple[int, int]], Route]:
-    """A maximum-weight perfect matching of the edges ``(u, v, w)``, certified when possible.
+                       seed: NDArray[np.bool_] | None = None
+                       ) -> tuple[list[tuple[int, int]], Route, blossom.Dual | None]:
+    """A maximum-weight perfect matching of the edges ``(u, v, w)``, certified when possible, and its dual.
 
     Start from the edges with ``rank <= window`` (each player's partners
     around the rank-order ideal, and every bye edge); solve them (compiled
@@ -448,7 +449,7 @@ def certified_matching(n: int, u: IntArray, v: IntArray, w: AnyArray, rank: IntA
     certify on every edge (:mod:`certificate`); add the
     edges with negative reduced cost (or, when the subgraph has no perfect
     matching, widen the window) and repeat. After ``rounds`` solves, the
-    compiled solver runs on all edges (still exact, only slower).
+    compiled solver runs on all edges (still exact, only slower; no dual).
     """
     split = certificate.limbs(w)
     score = w if split is None or w.dtype != object else split[0] * 2.0**certificate.SHIFT + split[1]
@@ -475,10 +476,10 @@ def certified_matching(n: int, u: IntArray, v: IntArray, w: AnyArray, rank: IntA
         rc = certificate.reduced_costs(u, v, w, dual, split)
         bad = rc < 0
         if not bad.any() and certificate.certify(n, u, v, w, pairs, dual, split):
-            return pairs, Route(True, attempt, len(idx), len(u))
+            return pairs, Route(True, attempt, len(idx), len(u)), dual
         mask |= _best_per_vertex(u, v, -rc, bad, SPARSE_ADD)
     edges = list(zip(u.tolist(), v.tolist(), w.tolist()))
-    return solver.matching(n, edges), Route(False, rounds, len(u))
+    return solver.matching(n, edges), Route(False, rounds, len(u)), None
 
 
 def _all_rematches(rematch: Sequence[int]) -> bool:
@@ -491,7 +492,8 @@ def engine_matching(fld: Field, players: Sequence[PlayerId], no_bye: Collection[
 
     With the compiled kernels, the implicit certified solve (:mod:`implicit`);
     else, or when it cannot certify, the listed pruned pairs and the certified
-    sparse solve; the full graph when no greedy pairing exists.
+    sparse solve; the full graph when no greedy pairing exists. Whatever the
+    path, a full pairing is the canonical optimum (:mod:`canonical`).
     """
     from pairings.engine import implicit  # it builds on this module
 
@@ -507,15 +509,23 @@ def engine_matching(fld: Field, players: Sequence[PlayerId], no_bye: Collection[
     pr = pruned_edges(fld, players, no_bye, bound)
     assert pr is not None
     w = weights.weight_array(pr.costs, pr.n)
-    pairs, route = certified_matching(pr.n, pr.u, pr.v, w, pr.costs[:, RANK_INDEX], seed=seed_mask(pr))
+    pairs, route, dual = certified_matching(pr.n, pr.u, pr.v, w, pr.costs[:, RANK_INDEX], seed=seed_mask(pr))
+    if 2 * len(pairs) == pr.n:
+        pairs = canonical.settle(pr.n, pr.u, pr.v, w, pairs, dual)
     return pairs, route, _all_rematches(pr.costs[pr.v != len(players), 0].tolist())
 
 
 def solve(g: Graph, reference: bool) -> list[tuple[int, int]]:
+    """A maximum-cardinality optimum of ``g`` (networkx when ``reference``), canonical when it is a full pairing."""
     wedges = g.weighted()
-    if reference:
-        return solver.reference_matching(g.n, wedges)
-    return solver.matching(g.n, wedges)
+    found = solver.reference_matching(g.n, wedges) if reference else solver.matching(g.n, wedges)
+    if 2 * len(found) < g.n:
+        return found  # someone is left without an opponent: the caller refuses the round
+    u = np.array([i for i, _ in g.edges], dtype=np.int64)
+    v = np.array([j for _, j in g.edges], dtype=np.int64)
+    ws = [x for _, _, x in wedges]
+    w = np.array(ws, dtype=np.int64 if max(ws, default=0) < 2**62 else object)
+    return canonical.settle(g.n, u, v, w, found)
 
 
 def optimal_pairs(fld: Field, players: Sequence[PlayerId], no_bye: Collection[PlayerId],

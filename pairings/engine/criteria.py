@@ -23,6 +23,7 @@ from fractions import Fraction
 from math import gcd, lcm
 from typing import Iterable
 
+from pairings.engine.acceleration import virtual_points
 from pairings.state import EventState, Float, PlayerId, Side
 
 ABSOLUTE, STRONG, MILD, NONE = 3, 2, 1, 0
@@ -107,7 +108,11 @@ class Field:
                 in_units[score] = int(round(Fraction(score).limit_denominator(1000) / self.unit))
             return in_units[score]
 
-        self.units: dict[PlayerId, int] = {pid: units(recs[pid].score_before(round_number)) for pid in players}
+        # Pairing score: the real score plus any virtual points of an accelerated round (C.04.5.1).
+        self.virtual = virtual_points(state, round_number, state.initial_rank())
+        self.units: dict[PlayerId, int] = {
+            pid: units(recs[pid].score_before(round_number) + float(self.virtual.get(pid, 0))) for pid in players
+        }
         # Rank during the event: score descending, then initial rank (rules.md).
         self.order: tuple[PlayerId, ...] = tuple(sorted(self.units, key=lambda p: (-self.units[p], initial[p])))
         self.index = {pid: i for i, pid in enumerate(self.order)}
@@ -125,7 +130,8 @@ class Field:
             pid for pid in self.order
             if s.final_round_side_exception and round_number == s.rounds and 2 * self.units[pid] > max_score
         )
-        self.meetings = {pid: Counter(recs[pid].opponents) for pid in self.order}
+        # H1 counts pairings that ended in a forfeit as meetings when the event says so (rules.md H1).
+        self.meetings = {pid: Counter(recs[pid].met(s.forfeit_is_meeting)) for pid in self.order}
         self.max_meetings = s.max_meetings
         self.prev_float = {pid: self._float(pid, round_number - 1) for pid in self.order}
         self.prev_float_2 = {pid: self._float(pid, round_number - 2) for pid in self.order}
@@ -158,15 +164,21 @@ class Field:
     def allocate(self, p: PlayerId, q: PlayerId) -> tuple[PlayerId, PlayerId] | None:
         """Sides inside a pair per rules.md; None when neither has any preference.
 
-        Order: compatible wishes are both granted; else the stronger preference
-        wins; equal: larger |SD|; then alternate from the most recent round in
-        which the two played different sides; then the higher-ranked player.
+        Order: first the sides that break H3 for fewer of the two (a player
+        who breaks it whatever side he gets must not make his opponent break it
+        too); then compatible wishes are both granted; else the stronger
+        preference wins; equal: larger |SD|; then alternate from the most recent
+        round in which the two played different sides; then the higher-ranked
+        player.
         """
         if not self.sides:
             return (p, q) if self.index[p] < self.index[q] else (q, p)
         a, b = self.pref[p], self.pref[q]
         if a.side is None and b.side is None:
             return None
+        p_first, q_first = self.side_costs(p, q)[0], self.side_costs(q, p)[0]
+        if p_first != q_first:
+            return (p, q) if p_first < q_first else (q, p)
         if a.side is not None and a.side != b.side:
             return (p, q) if a.side is Side.FIRST else (q, p)
         if b.side is not None and a.side is None:

@@ -139,6 +139,10 @@ def draft_round(state: EventState, overrides: Overrides = Overrides(), *, refere
     fld = Field(state, rnd, players, overrides.forbidden)
     if state.settings.system is System.ROUND_ROBIN:
         return _round_robin(state, fld, overrides)
+    if state.settings.system is System.DUTCH:
+        from pairings.engine.dutch import draft_dutch  # the FIDE (Dutch) System, C.04.3
+
+        return draft_dutch(state, overrides)
     pinned = [(fld.pair(a, b, (a, b))[0], (a, b)) for a, b in overrides.pinned]
     placed = {p for _, pair in pinned for p in pair}
     free = [p for p in fld.order if p not in placed and p != overrides.bye]
@@ -200,6 +204,10 @@ def rebuild(state: EventState, round: int, pairs: Sequence[Pair], bye: PlayerId 
     changed = [p for p in pairs if base_pairs is not None and frozenset(p) not in base_pairs]
     taken = set(paired)
     absent = [p for p in state.available(round) if p not in taken]
+    if state.settings.system is System.DUTCH:
+        from pairings.engine.dutch.rounds import rebuild_dutch  # Dutch colours and board order
+
+        return rebuild_dutch(state, round, pairs, bye, kept, changed, absent)
     return assemble(state, fld, sided, bye, pinned=list(kept.values()), changed=changed, absent=absent)
 
 

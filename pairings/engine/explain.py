@@ -12,7 +12,7 @@ from pairings.engine.criteria import ABSOLUTE, MILD, STRONG, Field
 from pairings.engine.draft import draft_round
 from pairings.engine.types import CRITERIA, Draft, Overrides
 from pairings.errors import NoPairingError
-from pairings.state import ByeKind, EventState, PlayerId
+from pairings.state import ByeKind, EventState, PlayerId, System
 
 _WORDS: dict[str, tuple[str, str]] = {
     "rematch": ("rematch", "rematches"),
@@ -127,6 +127,10 @@ def _reasons(state: EventState, draft: Draft, p: PlayerId, q: PlayerId) -> tuple
         hi, lo = (p, q) if up > uq else (q, p)
         out.append(f"{hi} ({_points(fld.units[hi], unit)}) floats down to {lo} "
                    f"({_points(fld.units[lo], unit)}): gap {_points(abs(up - uq), unit)}")
+    for pid in (p, q):
+        if fld.virtual.get(pid):
+            out.append(f"{pid} carries {float(fld.virtual[pid]):g} virtual point(s) this round (Baku acceleration, "
+                       "pairing only)")
     if fld.sides:
         for pid in (p, q):
             pref = fld.pref[pid]
@@ -146,7 +150,13 @@ def explain(state: EventState, draft: Draft, board: int) -> Explanation:
     b = next((x for x in draft.boards if x.board == board), None)
     if b is None:
         raise NoPairingError(f"round {draft.round} has no board {board}")
-    reasons = _reasons(state, draft, b.first, b.second) + tuple(f"flag: {f}" for f in b.flags)
+    if state.settings.system is System.DUTCH:
+        from pairings.engine.dutch.explain import reasons as dutch_reasons  # C.04.3's own terms
+
+        said = dutch_reasons(state, draft, b)
+    else:
+        said = _reasons(state, draft, b.first, b.second)
+    reasons = said + tuple(f"flag: {f}" for f in b.flags)
     alt: Draft | None = None
     if draft.round == state.next_round_number and "pinned" not in b.flags:
         ov = _overrides_of(state, draft)

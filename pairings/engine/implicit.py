@@ -21,8 +21,11 @@ are added and the solve repeats; after ``SOLVES`` solves the caller
 falls back to the listed path. The weights are :func:`weights.bounding`'s
 over the :func:`net` cost rows, with radices from the pairs' maxima and
 :func:`shares`: another valid mixed-radix encoding of the same lexicographic
-order, so the optimum is the same lexicographic optimum (among optima of equal
-cost the two paths may choose differently).
+order, so the optimum is the same lexicographic optimum. Among optima of equal
+cost the answer is then made canonical (:mod:`pairings.engine.canonical`) on the
+pairs tight under the certified dual: the sparse graph's, and every pruned pair
+the certifying scan found tight (:meth:`scan.PairScan.check`), so both paths
+return the same pairs.
 """
 
 from __future__ import annotations
@@ -32,7 +35,7 @@ from typing import Collection, Sequence
 
 import numpy as np
 
-from pairings.engine import blossom, candidates, certificate, scan, weights
+from pairings.engine import blossom, candidates, canonical, certificate, scan, weights
 from pairings.engine.criteria import ABSOLUTE, MILD, STRONG, Field
 from pairings.engine.types import CRITERIA
 from pairings.engine.vector import WIDTH, AnyArray, Arrays, IntArray
@@ -55,6 +58,7 @@ def available() -> bool:
 @dataclass(frozen=True)
 class Solved:
     pairs: list[tuple[int, int]]
+    """The canonical optimum (:mod:`pairings.engine.canonical`)."""
     route: candidates.Route
     every_pair_a_rematch: bool
     """The pruned player pairs exist and all are rematches (the engine then refuses the round)."""
@@ -176,8 +180,12 @@ def _start(fld: Field, players: Sequence[PlayerId], no_bye: Collection[PlayerId]
     return pairscan, stats, sparse, len(bu)
 
 
-def _certified(sparse: _Sparse, pairscan: scan.PairScan) -> tuple[list[tuple[int, int]], int] | None:
-    """The sparse solve repeated until its dual holds on every pair of the scan: the pairs and the solves made.
+Certified = tuple[list[tuple[int, int]], blossom.Dual, int, scan.Checked]
+"""An optimum, its certified dual, the sparse solves made and the scan under that dual."""
+
+
+def _certified(sparse: _Sparse, pairscan: scan.PairScan) -> Certified | None:
+    """The sparse solve repeated until its dual holds on every pair of the scan.
 
     None when no certificate is reached within ``SOLVES`` solves (or values leave the kernels' range).
     """
@@ -192,13 +200,28 @@ def _certified(sparse: _Sparse, pairscan: scan.PairScan) -> tuple[list[tuple[int
             return None
         pairs, dual = last = result
         try:
-            vi, vj, count = pairscan.violated(sparse.enc, dual, candidates.SPARSE_ADD)
+            found = pairscan.check(sparse.enc, dual, candidates.SPARSE_ADD)
         except ValueError:
             return None
-        if count == 0 and certificate.certify(sparse.n, u, v, w, pairs, dual):
-            return pairs, attempt
-        sparse.add(vi, vj)
+        if found.count == 0 and certificate.certify(sparse.n, u, v, w, pairs, dual):
+            return pairs, dual, attempt, found
+        sparse.add(found.i, found.j)
     return None
+
+
+def _canonical(sparse: _Sparse, checked: scan.Checked, pairs: list[tuple[int, int]], dual: blossom.Dual
+               ) -> list[tuple[int, int]]:
+    """The canonical optimum among the pruned pairs and bye edges tight under the certified ``dual``.
+
+    Every bye edge is in the sparse graph; the pruned player pairs outside it
+    are those the certifying scan found tight (``checked``).
+    """
+    u, v, w = sparse.edges()
+    keep = canonical.tight(u, v, w, dual)
+    keys = np.unique(np.concatenate([u[keep] * sparse.n + v[keep],
+                                     checked.tight_i * sparse.n + checked.tight_j]))
+    tu, tv = keys // sparse.n, keys % sparse.n
+    return canonical.canonical(sparse.n, tu, tv, canonical.depths(sparse.n, tu, tv, dual), pairs)
 
 
 def _proves_itself(fld: Field, players: Sequence[PlayerId], no_bye: Collection[PlayerId],
@@ -235,9 +258,10 @@ def implicit_matching(fld: Field, players: Sequence[PlayerId], no_bye: Collectio
         found = _certified(sparse, pairscan)
         if found is None:
             continue
-        pairs, attempts = found
+        pairs, dual, attempts, checked = found
         if limits is not bound and not _proves_itself(fld, players, no_bye, pairs, limits.levels):
             continue
+        pairs = _canonical(sparse, checked, pairs, dual)
         route = candidates.Route(True, attempts, sum(len(x) for x in sparse.u), stats.count + byes)
         return Solved(pairs, route, stats.count > 0 and stats.rematch_free == 0, limits)
     return None

@@ -134,6 +134,20 @@ def _tree(n: int, dual: Dual) -> tuple[bytes, bytes, bytes]:
     return _int64(node[tree.owner[:n]]), _int64(parent), _int128(prefix, "a blossom z sum")
 
 
+@dataclass(frozen=True)
+class Checked:
+    """What one walk under a dual found (:meth:`PairScan.check`)."""
+
+    i: IntArray
+    j: IntArray
+    """Each vertex's most violated pairs ``(i, j)``."""
+    count: int
+    """How many pairs violate the dual."""
+    tight_i: IntArray
+    tight_j: IntArray
+    """Every pair with a zero reduced cost, sorted by ``(i, j)``."""
+
+
 class PairScan:
     """The pruned player pairs of one round (``candidates.pruned_edges`` less the bye edges).
 
@@ -219,16 +233,23 @@ class PairScan:
         :mod:`pairings.engine.certificate`). Most negative first, ties by
         ``(i, j)``; the union over vertices, sorted by ``(i, j)``, no duplicates.
         """
+        found = self.check(enc, dual, k)
+        return found.i, found.j, found.count
+
+    def check(self, enc: weights.Encoder, dual: Dual, k: int) -> Checked:
+        """:meth:`violated`, and every pruned pair whose doubled reduced cost is zero, from one walk."""
         if len(dual.y2) < self.n:
             raise ValueError("the dual has fewer vertices than the scan")
+        empty = np.zeros(0, dtype=np.int64)
         if self.n < 2:
-            return np.zeros(0, dtype=np.int64), np.zeros(0, dtype=np.int64), 0
+            return Checked(empty, empty, 0, empty, empty)
         place, top = self._encoder(enc)
         y2 = _int128(dual.y2[:self.n], "a vertex dual")
         owner, parent, prefix = _tree(self.n, dual)
-        keys, count = _scan_c.violated(self._scan, self.threads, max(k, 1), enc.levels, place, top, y2,
-                                       owner, parent, prefix)
+        keys, count, tight = _scan_c.violated(self._scan, self.threads, max(k, 1), enc.levels, place, top, y2,
+                                              owner, parent, prefix)
+        ti, tj = self._pairs(tight)
         if k < 1:
-            return np.zeros(0, dtype=np.int64), np.zeros(0, dtype=np.int64), int(count)
+            return Checked(empty, empty, int(count), ti, tj)
         i, j = self._pairs(keys)
-        return i, j, int(count)
+        return Checked(i, j, int(count), ti, tj)

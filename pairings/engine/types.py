@@ -13,7 +13,7 @@ from typing import Mapping
 
 from pairings.state import Bye, PlayerId
 
-ENGINE_VERSION = "1.2"
+ENGINE_VERSION = "1.3"
 """Recorded with every draft; bumped whenever the same log could yield a different draft."""
 
 CRITERIA: tuple[str, ...] = (

@@ -73,7 +73,10 @@ class Arrays:
         return ~np.isin(i * self.n + j, self.forbidden_keys)
 
     def first_of(self, i: IntArray, j: IntArray) -> NDArray[np.bool_]:
-        """True where ``i`` gets the first side, per :meth:`Field.allocate` (``i`` ranks above ``j``)."""
+        """True where ``i`` gets the first side, per :meth:`Field.allocate` (``i`` ranks above ``j``).
+
+        Only pairs where someone has a preference read it (:meth:`costs`).
+        """
         a, b = self.want[i], self.want[j]
         first = np.ones(len(i), dtype=bool)  # no preferences: the higher-ranked (lot settled later)
         first = np.where(a != 0, a == FIRST, first)
@@ -91,7 +94,11 @@ class Arrays:
             i_wins = np.where(differ, hi != a, i_wins)  # whoever had the wanted side gives it up
             undecided &= ~differ
         i_wins = np.where(undecided, True, i_wins)
-        return np.where(same, i_wins == (a == FIRST), first)
+        first = np.where(same, i_wins == (a == FIRST), first)
+        # Before all that: the sides that break H3 for fewer of the two.
+        i_first = self.breaks_first[i].astype(np.int64) + self.breaks_second[j]
+        j_first = self.breaks_first[j].astype(np.int64) + self.breaks_second[i]
+        return np.where(i_first != j_first, i_first < j_first, first)
 
     def costs(self, i: IntArray, j: IntArray) -> IntArray:
         """Cost tuples (rows, :data:`CRITERIA` order) of pairs ``i < j``, as :meth:`Field.pair`."""

@@ -84,6 +84,10 @@ def verify_round(state: EventState, round_number: int, deep: bool = False) -> Ro
     breaches, fld = _breaches(before, stored, str)
     if fld is None:
         return RoundCheck(round_number, breaches, (), None, False)
+    if before.settings.system is System.DUTCH:
+        from pairings.engine.dutch.verify import check_round  # the Dutch criteria, C.04.3
+
+        return check_round(state, before, round_number)
     pairs = [(g.first, g.second) for g in stored.games]
     pairing_bye = next((y.player for y in stored.byes if y.kind is ByeKind.PAIRING), None)
     notes: list[str] = []

@@ -127,7 +127,7 @@ def test_certified_path_equals_full_graph_path(n: int, played: int, seed: int, r
     w = weight_array(pr.costs, pr.n)
     enc = encoder([tuple(r) for r in pr.costs.tolist()], pr.n)  # once: it reads every row
     assert w.tolist() == [enc.weight(tuple(r)) for r in pr.costs.tolist()]
-    pairs, route = candidates.certified_matching(pr.n, pr.u, pr.v, w, pr.costs[:, candidates.RANK_INDEX])
+    pairs, route, _ = candidates.certified_matching(pr.n, pr.u, pr.v, w, pr.costs[:, candidates.RANK_INDEX])
     edges = list(zip(pr.u.tolist(), pr.v.tolist(), w.tolist()))
     full = solver.matching(pr.n, edges)
     if 2 * len(full) < pr.n:
@@ -135,8 +135,8 @@ def test_certified_path_equals_full_graph_path(n: int, played: int, seed: int, r
     assert weight(edges, pairs) == weight(edges, full)
     if route.certified:
         assert route.sparse_edges <= len(edges)
-    seeded, _ = candidates.certified_matching(pr.n, pr.u, pr.v, w, pr.costs[:, candidates.RANK_INDEX],
-                                              seed=candidates.seed_mask(pr))
+    seeded, _, _ = candidates.certified_matching(pr.n, pr.u, pr.v, w, pr.costs[:, candidates.RANK_INDEX],
+                                                 seed=candidates.seed_mask(pr))
     assert weight(edges, seeded) == weight(edges, full)
 
 
@@ -156,9 +156,9 @@ def test_fallback_engages_and_stays_exact(monkeypatch: pytest.MonkeyPatch) -> No
     # certificate: the compiled solver on every pruned edge must take over, same cost vector.
     state, fld, order, pr, w = simulated_pruned(300, 2)
     rank = pr.costs[:, candidates.RANK_INDEX]
-    _, first = candidates.certified_matching(pr.n, pr.u, pr.v, w, rank)
+    _, first, _ = candidates.certified_matching(pr.n, pr.u, pr.v, w, rank)
     assert first.certified and first.rounds > 1  # the first sparse solve alone was not optimal
-    _, route = candidates.certified_matching(pr.n, pr.u, pr.v, w, rank, rounds=1)
+    _, route, _ = candidates.certified_matching(pr.n, pr.u, pr.v, w, rank, rounds=1)
     assert not route.certified
     monkeypatch.setattr(candidates, "SPARSE_ROUNDS", 1)
     monkeypatch.setattr(implicit, "available", lambda: False)  # the listed path (implicit: its own test)
@@ -174,7 +174,7 @@ def test_fallback_engages_and_stays_exact(monkeypatch: pytest.MonkeyPatch) -> No
 @pytest.mark.parametrize("seed", range(3))
 def test_certified_path_at_1000(seed: int) -> None:
     _, _, _, pr, w = simulated_pruned(1000, seed)
-    pairs, route = candidates.certified_matching(pr.n, pr.u, pr.v, w, pr.costs[:, candidates.RANK_INDEX])
+    pairs, route, _ = candidates.certified_matching(pr.n, pr.u, pr.v, w, pr.costs[:, candidates.RANK_INDEX])
     edges = list(zip(pr.u.tolist(), pr.v.tolist(), w.tolist()))
     assert route.certified
     assert weight(edges, pairs) == weight(edges, solver.matching(pr.n, edges))

@@ -126,6 +126,10 @@ def check_violated(c: Case, dual: Dual, k: int) -> None:
     i, j, count = c.scan.violated(c.enc, dual, k)
     assert count == int(bad.sum())
     assert list(zip(i.tolist(), j.tolist())) == pairs_of(c.u, c.v, candidates._best_per_vertex(c.u, c.v, -rc, bad, k))
+    # The same walk's tight pairs (canonical.py reads them): exactly the rows with a zero reduced cost.
+    found = c.scan.check(c.enc, dual, k)
+    zero = np.array([x == 0 for x in rc.tolist()], dtype=bool)
+    assert list(zip(found.tight_i.tolist(), found.tight_j.tolist())) == pairs_of(c.u, c.v, zero)
 
 
 def sparse_dual(c: Case) -> Dual | None:

@@ -1,0 +1,566 @@
+"""One bracket's choice by maximum-weight perfect matching (Edmonds' blossom), and the completion check.
+
+Method (ours; the criteria are C.04.3's):
+
+- **Weights.** Every edge carries the counts of :mod:`.criteria` (C.5-C.19);
+  :func:`encode` packs them into one integer per edge, each layer's radix above
+  the largest total any perfect matching can reach, so the maximum-weight
+  perfect matching minimises the layers lexicographically, exactly.
+- **Graphs** (:class:`_Graph`), tried in this order, each used only when it is
+  provably exact for the bracket at hand (:meth:`BracketSolver.run`):
+  *compact*, the bracket alone plus as few float places as let it be paired;
+  *fast*, the bracket and the next score group, each vertex given a private
+  way to stay unpaired by doubling the graph (two copies, each vertex joined
+  to its own copy: a perfect matching of the doubled graph is two equally good
+  matchings of the original); *exact*, the bracket and every lower player (plus
+  one bye vertex, joined to the PAB-eligible, when the count is odd), where a
+  member matched below the bracket floats.
+- **Completion (C.4).** The players left for later must still be pairable
+  under the absolute criteria with at most one PAB to an eligible player
+  (:func:`completable`: Dirac's degree bound, else a matching). The compact
+  and fast forms are relaxations; each is accepted only with a completion at
+  hand. Checking completion in every bracket replaces the Handbook's PPB/CLB
+  re-pairing (a decision: it gives the same pairing whenever only the bracket
+  just above the unpairable rest has to change).
+- **Generation order (the final tie-break).** After the quality solve, the
+  optimal dual marks the quality-optimal face: an edge's penalty is 1 if its
+  reduced cost is not zero, plus 1 per positive-dual blossom it crosses; by
+  complementary slackness the matchings of least penalty are exactly the
+  quality-optimal ones. Tie-break solves then minimise (penalty, digits) on
+  small integers, deciding the generation order step by step (heterogeneous
+  brackets: MDP part first, then the remainder; see
+  :func:`.generation.generation_key` for why the first appearance of a
+  candidate is the exchange whose S1 holds each pair's lower BSN):
+  (1, 2) players swapped and BSN sum: sums over the pairs' S1 sides;
+  (3) "the S1-to-S2 group holds the highest differing BSN": binary digits, a
+  cost ``2**k`` for an original S1 player who stays, highest BSN first;
+  (4) "the S2-to-S1 group holds the lowest differing BSN": a reward likewise;
+  then the transpositions, lexicographic in the partners' BSNs, a block of S1
+  places at a time (digit base ``len(S2) + 1``), each block's pairs fixed
+  before the next. Digits that would pass the compiled kernel's integers are
+  avoided by the block sizes; the pure-Python blossom takes any size.
+- A last bracket that cannot be paired without pairing MDPs with each other
+  is paired as one homogeneous group (the collapsed last bracket: our reading
+  of the Handbook's CLB).
+"""
+
+from __future__ import annotations
+
+from collections import Counter
+from typing import Any, Callable, Iterable, Sequence
+
+import numpy as np
+from numpy.typing import NDArray
+
+from pairings.engine import blossom
+from pairings.engine.certificate import reduced_costs
+from pairings.engine.dutch.criteria import (
+    Bracket, Costs, float_costs, next_float_costs, next_pair_costs, pair_costs,
+)
+from pairings.engine.dutch.entrants import Entrants
+from pairings.state import PlayerId
+
+Pair = tuple[PlayerId, PlayerId]
+CostEdge = tuple[int, int, Costs]
+
+
+def encode(edges: Sequence[CostEdge]) -> list[tuple[int, int, int]]:
+    """Integer weights whose maximum perfect matching minimises the cost layers lexicographically.
+
+    A layer's total over a matching is at most half the sum, over vertices,
+    of the layer's largest value on an edge at that vertex (each matched
+    edge's value is at most the mean of its two ends' largest values); its
+    radix is one more. Edges may share cost objects: each distinct one is
+    packed once.
+    """
+    if not edges:
+        return []
+    distinct: dict[int, Costs] = {}
+    which = np.empty(len(edges), dtype=np.int64)
+    slot: dict[int, int] = {}
+    for k, (_, _, c) in enumerate(edges):
+        key = id(c)
+        if key not in slot:
+            slot[key] = len(slot)
+            distinct[slot[key]] = c
+        which[k] = slot[key]
+    layers = sorted({layer for c in distinct.values() for layer, n in c.items() if n})
+    if not layers:
+        return [(u, v, 1) for u, v, _ in edges]
+    col = {layer: j for j, layer in enumerate(layers)}
+    table = np.zeros((len(distinct), len(layers)), dtype=np.int64)
+    for i, c in distinct.items():
+        for layer, n in c.items():
+            if n:
+                table[i, col[layer]] = n
+    u = np.fromiter((e[0] for e in edges), dtype=np.int64, count=len(edges))
+    v = np.fromiter((e[1] for e in edges), dtype=np.int64, count=len(edges))
+    size = int(max(u.max(), v.max())) + 1
+    top = np.zeros((size, len(layers)), dtype=np.int64)
+    values = table[which]
+    np.maximum.at(top, u, values)
+    np.maximum.at(top, v, values)
+    bound = (top.sum(axis=0) + 1) // 2
+    scale: list[int] = [0] * len(layers)
+    step = 1
+    for j in reversed(range(len(layers))):
+        scale[j] = step
+        step *= int(bound[j]) + 1
+    packed = [sum(int(n) * scale[j] for j, n in enumerate(row) if n) for row in table.tolist()]
+    costs = [packed[k] for k in which.tolist()]
+    ceiling = max(costs) + 1
+    return [(a, b, ceiling - cost) for (a, b, _), cost in zip(edges, costs)]
+
+
+def completable(ent: Entrants, players: Sequence[PlayerId]) -> bool:
+    """C.4: ``players`` can all be paired (C.1, C.3) but one, who must be PAB-eligible if the count is odd."""
+    rest = list(players)
+    if len(rest) % 2:
+        eligible = [p for p in reversed(ent.order) if p in ent.pab_eligible and p in set(rest)]
+        if not eligible:
+            return False
+        if _dirac(ent, [p for p in rest if p != eligible[0]]):
+            return True
+    elif _dirac(ent, rest):
+        return True
+    index = {p: i for i, p in enumerate(rest)}
+    edges = [(index[p], index[q], 1) for i, p in enumerate(rest) for q in rest[i + 1:] if ent.compatible(p, q)]
+    if len(rest) % 2:
+        edges += [(index[p], len(rest), 1) for p in rest if p in ent.pab_eligible]
+    return blossom.perfect_matching(len(rest) + len(rest) % 2, edges) is not None
+
+
+def _dirac(ent: Entrants, players: Sequence[PlayerId]) -> bool:
+    """Dirac (1952): every degree at least n/2 gives a Hamiltonian cycle, hence a perfect matching (n even)."""
+    n = len(players)
+    if n == 0:
+        return True
+    here = set(players)
+    absolute: Counter[object] = Counter(ent.absolute(p) for p in players if p not in ent.topscorers)
+    for p in players:
+        blocked = len(ent.met[p] & here) + sum(1 for f in ent.forbidden if p in f and not f - here)
+        side = ent.absolute(p)
+        if side is not None and p not in ent.topscorers:
+            blocked += absolute[side] - 1
+        if n - 1 - blocked < n / 2:
+            return False
+    return True
+
+
+Edge = tuple[int, int, Costs, "Pair | None"]
+"""``(u, v, quality costs, the bracket pair it stands for or None)``."""
+
+
+class _Graph:
+    """A bracket's matching graph, its quality-optimal face, and lexicographic tie-break solves.
+
+    Built once per form (fast or exact). :meth:`optimise` solves the quality
+    layers and keeps the optimal dual; afterwards every edge carries a penalty
+    (1 if its reduced cost is not zero, plus 1 for each blossom with a positive
+    dual it crosses). By complementary slackness a perfect matching is
+    quality-optimal exactly when all its edges are tight and it crosses every
+    such blossom once, i.e. when its penalty is the least possible, so the
+    tie-break solves minimise (penalty, digits) on small integers instead of
+    (quality, digits) on large ones. Removing both players of a pair that the
+    current optimum holds, or edges that it does not use, keeps that property
+    (an optimal matching survives, and crossing counts keep their parity).
+    """
+
+    def __init__(self, solver: "BracketSolver", form: str, slots: int = 0) -> None:
+        self.solver = solver
+        ent, br = solver.ent, solver.br
+        exact = form == "exact"
+        self.vertices = list(br.members) + (list(br.lower) if exact else list(br.next) if form == "fast" else [])
+        self.real = len(self.vertices)
+        self.index = {p: i for i, p in enumerate(self.vertices)}
+        idx = self.index
+        edges: list[Edge] = []
+        for i, u in enumerate(self.vertices):
+            for v in self.vertices[i + 1:]:
+                pair: Pair | None = None
+                if u in solver.members and v in solver.members:
+                    if br.allows(ent, u, v):
+                        c, pair = solver.pair_cost(u, v), (u, v)
+                    elif exact and not br.last and ent.compatible(u, v):  # both float, meet further down
+                        c = solver.lone(u) + solver.lone(v)
+                    else:
+                        continue
+                elif not ent.compatible(u, v):
+                    continue
+                elif u in solver.members:
+                    c = solver.below(u, v)
+                elif u in solver.next and v in solver.next:
+                    c = solver.shared(("next pair", ent.score[u], ent.score[v]),
+                                      lambda: next_pair_costs(ent, br, u, v))
+                elif u in solver.next or v in solver.next:
+                    c = solver.shared(("next float", u if u in solver.next else v),
+                                      lambda: next_float_costs(ent, br, u if u in solver.next else v))
+                else:
+                    c = solver.shared(("nothing",), Counter)
+                edges.append((idx[u], idx[v], c, pair))
+        alone = [solver.alone(u, exact) for u in self.vertices]
+        n = self.real
+        self.copies = 2 if form == "fast" else 1
+        if form == "compact":  # ``slots`` places to float to, each open to every member
+            for k in range(slots):
+                edges += [(i, n + k, solver.floats(u), None) for i, u in enumerate(self.vertices)
+                          if not br.last or u in ent.pab_eligible]
+                edges += [(n + k, n + j, solver.shared(("nothing",), Counter), None) for j in range(k + 1, slots)]
+            n += slots
+        elif exact:
+            if n % 2:
+                edges += [(i, n, c, None) for i, c in enumerate(alone) if c is not None]
+                n += 1
+        else:
+            edges += [(u + n, v + n, c, pair) for u, v, c, pair in edges]
+            edges += [(i, i + n, c + c, None) for i, c in enumerate(alone) if c is not None]
+            n *= 2
+        self.n = n
+        self.edges = edges
+        self.mate: dict[int, int] = {}
+
+    def optimise(self) -> bool:
+        """Solve the quality layers; False when no perfect matching exists."""
+        weights = encode([(u, v, c) for u, v, c, _ in self.edges])
+        found = blossom.perfect_matching(self.n, weights)
+        if found is None:
+            return False
+        pairs, dual = found
+        self._read(pairs)
+        u = np.array([e[0] for e in weights], dtype=np.int64)
+        v = np.array([e[1] for e in weights], dtype=np.int64)
+        w = np.array([e[2] for e in weights], dtype=object)
+        tight = reduced_costs(u, v, w, dual) == 0
+        crossings = np.zeros(len(weights), dtype=np.int64)
+        for group, z in dual.blossoms:
+            if z > 0:
+                inside = np.zeros(self.n, dtype=bool)
+                inside[list(group)] = True
+                crossings += inside[u] != inside[v]
+        # An optimal matching uses tight edges only: the others can go.
+        kept = [(a, b, pair, x) for (a, b, _, pair), x, t in zip(self.edges, crossings.tolist(), tight.tolist()) if t]
+        self.eu = np.array([e[0] for e in kept], dtype=np.int64)
+        self.ev = np.array([e[1] for e in kept], dtype=np.int64)
+        self.pen = np.array([e[3] for e in kept], dtype=np.int64)
+        self.pu = np.array([self.index[e[2][0]] if e[2] else -1 for e in kept], dtype=np.int64)
+        self.pv = np.array([self.index[e[2][1]] if e[2] else -1 for e in kept], dtype=np.int64)
+        self.cu = self.eu % self.real if self.copies == 2 else self.eu
+        self.cv = self.ev % self.real if self.copies == 2 else self.ev
+        self.keep = np.ones(len(kept), dtype=bool)
+        self.live = np.ones(self.n, dtype=bool)
+        return True
+
+    def _read(self, pairs: Iterable[tuple[int, int]]) -> None:
+        for a, b in pairs:
+            self.mate[a], self.mate[b] = b, a
+
+    def tiebreak(self, digits: NDArray[Any], limit: int) -> None:
+        """Among the quality-optimal matchings left, one with the least ``digits`` (one value per edge).
+
+        ``limit`` exceeds the digits' sum over any matching, so one more
+        penalty always outweighs them.
+        """
+        use = self.keep & self.live[self.eu] & self.live[self.ev]
+        local = np.cumsum(self.live) - 1
+        cost = self.pen[use].astype(object) * limit + np.asarray(digits, dtype=object)[use]
+        ceiling = (max(cost.tolist()) if len(cost) else 0) + 1
+        found = blossom.perfect_matching_arrays(int(self.live.sum()), local[self.eu[use]], local[self.ev[use]],
+                                                ceiling - cost)
+        assert found is not None, "a quality-optimal matching survives every restriction"
+        order = np.flatnonzero(self.live)
+        self._read((int(order[a]), int(order[b])) for a, b in found[0])
+
+    def drop(self, bad: NDArray[np.bool_]) -> None:
+        """Remove the edges ``bad`` marks (the current matching uses none of them)."""
+        self.keep &= ~bad
+
+    def remove(self, players: Iterable[PlayerId]) -> None:
+        """Take the players (a decided pair) out of every copy."""
+        for p in players:
+            i = self.index[p]
+            self.live[i] = False
+            if self.copies == 2:
+                self.live[i + self.real] = False
+
+    def partner(self, p: PlayerId) -> PlayerId | None:
+        """``p``'s partner inside the bracket in the current matching (None: floats)."""
+        m = self.mate[self.index[p]]
+        return self.vertices[m] if m < self.real and self.vertices[m] in self.solver.members else None
+
+    def beyond(self) -> list[PlayerId]:
+        """Players the current matching leaves unpaired in the graph (fast form: floating below it)."""
+        return [p for i, p in enumerate(self.vertices) if self.live[i] and self.mate[i] >= self.real]
+
+
+class BracketSolver:
+    """Pairs one bracket: :meth:`run` returns its pairs and its floaters (C.04.3 via matching)."""
+
+    def __init__(self, ent: Entrants, br: Bracket, cache: dict[object, Costs]) -> None:
+        self.ent, self.br, self.cache = ent, br, cache
+        self.members = set(br.members)
+        self.next = set(br.next)
+        self.memo: dict[tuple[object, ...], Costs] = {}
+
+    def pair_cost(self, u: PlayerId, v: PlayerId) -> Costs:
+        """The pair's costs, shared by every pair of the same two player profiles.
+
+        Outside topscorers' pairs the costs depend only on the two scores,
+        colour preferences (side and strength) and float histories: when both
+        want one colour exactly one misses it, the weaker (rule 2) or one of
+        equal strength, so who gets it changes no count.
+        """
+        ent = self.ent
+        if u in ent.topscorers or v in ent.topscorers:
+            key: object = frozenset((u, v))
+        else:
+            hi, lo = (u, v) if ent.score[u] >= ent.score[v] else (v, u)
+            a, b = self.profile(hi), self.profile(lo)
+            key = (a, b) if ent.score[hi] != ent.score[lo] else frozenset((a, b))
+        if key not in self.cache:
+            self.cache[key] = pair_costs(ent, self.br, u, v)[0]
+        return self.cache[key]
+
+    def profile(self, p: PlayerId) -> tuple[object, ...]:
+        pref = self.ent.pref[p]
+        return (self.ent.score[p], pref.side, pref.strength, self.ent.floats[p])
+
+    def shared(self, key: tuple[object, ...], make: Callable[[], Costs]) -> Costs:
+        """One cost object per key (edges share them; :func:`encode` packs each once). Never mutated."""
+        if key not in self.memo:
+            self.memo[key] = make()
+        return self.memo[key]
+
+    def floats(self, u: PlayerId) -> Costs:
+        """``u`` leaves the bracket unpaired (an MDP floating again also counts for the MDP digit)."""
+        def make() -> Costs:
+            c = float_costs(self.ent, self.br, u)
+            if self.br.heterogeneous and u in self.br.mdps:
+                c[200, 0] += 1
+            return c
+
+        return self.shared(("float", u), make)
+
+    def lone(self, u: PlayerId) -> Costs:
+        """``u`` floats from the bracket and is not paired in the next one either."""
+        return self.shared(("lone", u), lambda: self.floats(u) + (
+            next_float_costs(self.ent, self.br, u) if self.br.next else Counter()))
+
+    def below(self, u: PlayerId, v: PlayerId) -> Costs:
+        """Member ``u`` floats and meets ``v`` below the bracket (in the next bracket or further down)."""
+        if v in self.next:
+            return self.shared(("meets next", u, self.ent.score[v]), lambda: self.floats(u) + next_pair_costs(
+                self.ent, self.br, u, v))
+        return self.lone(u)
+
+    def alone(self, u: PlayerId, exact: bool) -> Costs | None:
+        """The cost of ``u`` staying unpaired in a graph; None where that is not allowed.
+
+        Exact form: only the PAB-eligible may take the bye vertex. Fast form: a
+        relaxation (anybody may float below the graph, except from the last
+        bracket and, when nothing lies below it, from the next score group).
+        """
+        ent, br = self.ent, self.br
+        cost = self.lone(u) if u in self.members else \
+            next_float_costs(ent, br, u) if u in self.next else Counter()
+        if exact or br.last or (u in self.next and len(br.lower) == len(br.next)):
+            return cost if u in ent.pab_eligible else None
+        return cost
+
+    def run(self) -> tuple[list[Pair], list[PlayerId]]:
+        """The bracket's pairs and floaters, by the cheapest form that is provably exact here.
+
+        1. Compact form: the bracket alone, with as few float places as let it
+           be paired (so C.5 is met). Exact when its floaters all hold the
+           bracket's lowest score (no candidate can float lower ones, and C.6
+           fixed their number) and the next bracket can then be paired at its
+           ideal for C.7 (every floater meets a next-group player, the rest of
+           that group pairs up, one left over at most) with the rest of the
+           round still pairable: then no candidate does better on C.7, and the
+           compact choice, best on every other criterion, is the first best.
+        2. Fast form (bracket and next group): a relaxation, exact when the
+           players it leaves below the next bracket, with everyone lower, can
+           still be paired.
+        3. Exact form: every lower player in the graph.
+        """
+        members = len(self.br.members)
+        for slots in range(members % 2, min(members, 4) + 1, 2):
+            g = _Graph(self, "compact", slots)
+            if g.optimise():
+                pairs = self._decide(g)
+                if self._ideal_rest(self._floaters(pairs)):
+                    return pairs, self._floaters(pairs)
+                break
+        g = _Graph(self, "fast")
+        if g.optimise():
+            pairs = self._decide(g)
+            if completable(self.ent, g.beyond() + list(self.br.lower[len(self.br.next):])):
+                return pairs, self._floaters(pairs)
+        g = _Graph(self, "exact")
+        if not g.optimise():
+            raise ValueError("no completion exists: the caller checks the round first")
+        pairs = self._decide(g)
+        return pairs, self._floaters(pairs)
+
+    def _ideal_rest(self, floaters: list[PlayerId]) -> bool:
+        """The compact form's exactness test (see :meth:`run`); a concrete completion is built."""
+        ent, br = self.ent, self.br
+        if br.last:
+            return True
+        if any(ent.score[f] != br.score for f in floaters) or len(floaters) > len(br.next):
+            return False
+        free = list(br.next)
+        for f in floaters:
+            mate = next((q for q in free if ent.compatible(f, q)), None)
+            if mate is None:
+                return False
+            free.remove(mate)
+        beyond = list(br.lower[len(br.next):])
+        if len(free) % 2:
+            for x in reversed(free):
+                rest = [q for q in free if q != x]
+                if _dirac(ent, rest) and completable(ent, [x] + beyond):
+                    return True
+            return False
+        return _dirac(ent, free) and completable(ent, beyond)
+
+    def _floaters(self, pairs: list[Pair]) -> list[PlayerId]:
+        paired = {p for pair in pairs for p in pair}
+        return [p for p in self.br.members if p not in paired]
+
+    def _decide(self, g: _Graph) -> list[Pair]:
+        """Fix the bracket's pairs in the Handbook's generation order (MDP part first, then the remainder)."""
+        br = self.br
+        fixed: list[Pair] = []
+        is_pair = g.pu >= 0
+        pu, pv = np.maximum(g.pu, 0), np.maximum(g.pv, 0)
+        if br.heterogeneous:
+            mdps = [p for p in br.members if p in br.mdps]
+            residents = [p for p in br.members if p not in br.mdps]
+            made = sum(1 for m in mdps if g.partner(m) is not None)
+            mdp = np.zeros(g.n, dtype=bool)
+            mdp[[g.index[m] for m in mdps]] = True
+            relevant = is_pair & (mdp[pu] != mdp[pv])
+            fixed += self._choose(g, mdps, residents, made, relevant, np.where(mdp[pu], pu, pv),
+                                  np.where(mdp[pu], pv, pu), lambda p, q: q not in br.mdps)
+            limbo = np.zeros(g.n, dtype=bool)
+            limbo[[g.index[m] for m in mdps if all(m not in pair for pair in fixed)]] = True
+            g.drop(is_pair & (limbo[pu] | limbo[pv]))
+        rest = [p for p in br.members if all(p not in pair for pair in fixed)
+                and not (br.heterogeneous and p in br.mdps)]
+        inside = set(rest)
+        made = sum(1 for p in rest if (q := g.partner(p)) is not None and q in inside) // 2
+        rank = np.zeros(g.n, dtype=np.int64)
+        rank[[g.index[p] for p in rest]] = np.arange(1, len(rest) + 1)
+        relevant = is_pair & (rank[pu] > 0) & (rank[pv] > 0)
+        low = rank[pu] < rank[pv]
+        order = {p: i for i, p in enumerate(rest)}
+        fixed += self._choose(g, rest, rest, made, relevant, np.where(low, pu, pv), np.where(low, pv, pu),
+                              lambda p, q: q in order and order[p] < order[q])
+        return fixed
+
+    def _choose(self, g: _Graph, leads: list[PlayerId], follows: list[PlayerId], count: int,
+                relevant: NDArray[np.bool_], lead: NDArray[np.int64], follow: NDArray[np.int64],
+                heads: Callable[[PlayerId, PlayerId], bool]) -> list[Pair]:
+        """One phase of the generation order: exchanges (which ``leads`` are S1), then transpositions.
+
+        ``count`` pairs are made between S1 (``count`` of ``leads``) and
+        ``follows``; on each ``relevant`` edge ``lead`` is the vertex on S1's
+        side and ``follow`` its partner. Returns the pairs, fixed in the graph.
+        """
+        if count == 0:
+            return []
+        lrank = np.zeros(g.n, dtype=np.int64)
+        lrank[[g.index[p] for p in leads]] = np.arange(1, len(leads) + 1)
+        frank = np.zeros(g.n, dtype=np.int64)
+        frank[[g.index[p] for p in follows]] = np.arange(1, len(follows) + 1)
+        spread = g.copies * len(leads) ** 2 + 1
+        swap_limit = (g.copies * len(leads) + 1) * spread
+        # tests 1 and 2: players swapped into S1, then the BSN sum of S1
+        swaps = np.where(relevant, (lrank[lead] > count) * spread + lrank[lead], 0)
+        g.tiebreak(swaps, swap_limit)
+        chosen = self._leads(g, leads, heads)
+        if chosen != set(leads[:count]):
+            chosen = self._membership(g, leads, count, relevant, lead, swaps, swap_limit, heads)
+        self._settle(g, leads, chosen, relevant, lead)
+        order = sorted(chosen, key=leads.index)
+        budget = 2 ** max(8, 100 - g.n.bit_length())
+        out: list[Pair] = []
+        k = 0
+        while k < len(order):
+            # Transpositions: each S1 player's partner digit is its rank among the partners still
+            # possible for him (the BSN order kept), so a block holds as many places as the budget allows.
+            ids = np.flatnonzero(relevant & g.keep & g.live[g.eu] & g.live[g.ev])
+            ids = ids[np.argsort(lead[ids], kind="stable")]
+            heads_of = lead[ids]
+            block: list[tuple[PlayerId, NDArray[np.int64], NDArray[np.int64]]] = []
+            product = 1
+            for x in order[k:]:
+                lo, hi = np.searchsorted(heads_of, g.index[x], "left"), np.searchsorted(heads_of, g.index[x], "right")
+                mine = ids[lo:hi]
+                options = np.unique(frank[follow[mine]])
+                if block and product * len(options) > budget:
+                    break
+                block.append((x, mine, options))
+                product *= max(1, len(options))
+            digits = np.zeros(len(g.eu), dtype=object)
+            weight = product
+            for x, mine, options in block:
+                weight //= max(1, len(options))
+                digits[mine] = np.searchsorted(options, frank[follow[mine]]).astype(object) * weight
+            g.tiebreak(digits, g.copies * product)
+            for x, _, _ in block:
+                y = g.partner(x)
+                assert y is not None
+                out.append((x, y))
+                g.remove((x, y))
+            k += len(block)
+        return out
+
+    def _leads(self, g: _Graph, leads: list[PlayerId], heads: Callable[[PlayerId, PlayerId], bool]
+               ) -> set[PlayerId]:
+        """The ``leads`` on S1's side of their pair in the current matching (``heads(p, q)``: p is)."""
+        out = set()
+        for p in leads:
+            q = g.partner(p)
+            if q is not None and heads(p, q):
+                out.add(p)
+        return out
+
+    def _settle(self, g: _Graph, leads: list[PlayerId], chosen: Iterable[PlayerId], relevant: NDArray[np.bool_],
+                lead: NDArray[np.int64]) -> None:
+        """Keep S1 players on S1's side of a pair, and the others off it."""
+        inside = np.zeros(g.n, dtype=bool)
+        inside[[g.index[p] for p in chosen]] = True
+        candidate = np.zeros(g.n, dtype=bool)
+        candidate[[g.index[p] for p in leads]] = True
+        outside = candidate & ~inside
+        bad = np.zeros(len(g.eu), dtype=bool)
+        for end in (g.cu, g.cv):
+            own = relevant & (lead == end)
+            bad |= (inside[end] & ~own) | (outside[end] & own)
+        g.drop(bad)
+
+    def _membership(self, g: _Graph, leads: list[PlayerId], count: int, relevant: NDArray[np.bool_],
+                    lead: NDArray[np.int64], swaps: NDArray[Any], swap_limit: int,
+                    heads: Callable[[PlayerId, PlayerId], bool]) -> set[PlayerId]:
+        """Tests 3 and 4 of the exchange order, a block of players at a time, highest S1 BSN first."""
+        width = max(1, 100 - 5 * g.n.bit_length())
+        s1 = leads[:count][::-1]
+        s2 = leads[count:]
+        for group, keep in ((s1, False), (s2, True)):
+            for start in range(0, len(group), width):
+                block = group[start:start + width]
+                size = len(block)
+                spread = g.copies * len(leads) * 2 ** size + 1
+                place = np.full(g.n, -1, dtype=np.int64)
+                place[[g.index[p] for p in block]] = np.arange(size)
+                power = np.array([2 ** (size - 1 - k) for k in range(size)] + [0], dtype=object)
+                at = np.where(relevant, place[lead], -1)
+                bit = np.where(at >= 0, power[at], 0)
+                # test 3: an S1 player leaving S1 is preferred, the higher BSN first (a cost to stay);
+                # test 4: an S2 player entering S1 is preferred, the lower BSN first (a reward to enter)
+                extra = np.where(relevant, 2 ** size - bit, 0) if keep else bit
+                g.tiebreak(swaps.astype(object) * spread + extra, swap_limit * spread)
+                now = self._leads(g, leads, heads)
+                self._settle(g, block, [p for p in block if p in now], relevant, lead)
+        return self._leads(g, leads, heads)

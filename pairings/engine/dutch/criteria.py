@@ -1,0 +1,130 @@
+"""The quality criteria of a bracket (C.04.3, 2017 numbering C.5-C.19, from memory) as additive costs.
+
+A bracket's candidate is judged by a vector of counts, compared
+lexicographically, smaller first. Every entry is a sum over the candidate's
+pairs, its floaters and, for C.7, the next bracket's pairs and floaters, so
+the same numbers serve the tests' brute force and the weights of
+the bracket matching (:mod:`pairings.engine.dutch.bracket`).
+
+Layers, in priority order (a :data:`Layer` is ``(criterion * 10 + part, level)``;
+SD levels are listed from the largest score difference down, so comparing
+the counts level by level compares the sorted lists of score differences):
+
+- C.5  players of the bracket left unpaired (= maximise the pairs);
+- C.6  PSD: one count per score difference (SD): a pair's SD is its score
+  difference, a floater's SD is his score minus (the bracket's lowest score
+  minus one point); "one point" is the event's win value (our decision);
+- C.7  the next bracket (this bracket's floaters and the next score group):
+  its players left unpaired, then its PSD (applied in every bracket that has
+  a next one: our completion check replaces the PPB/CLB route, see
+  :mod:`pairings.engine.dutch.bracket`);
+- C.8 / C.9  topscorers or their opponents ending with |CD| > 2 / getting one
+  colour three times running (final round only);
+- C.10 players not getting their colour preference; C.11 players not getting
+  a strong (or absolute) one (our reading: an absolute preference is also strong);
+- C.12 / C.14  floaters of this bracket (the PAB included: it is a downfloat)
+  who also downfloated one / two rounds before;
+- C.13 / C.15  residents paired with a higher-scored MDP who also upfloated
+  one / two rounds before;
+- C.16 / C.18  the SDs of MDPs paired here who also downfloated one / two rounds
+  before; C.17 / C.19 the SDs of their opponents who also upfloated.
+
+MDPs paired in this bracket downfloat whatever candidate is chosen, so C.12 and
+C.14 count this bracket's floaters only (the MDPs were counted where they floated).
+"""
+
+from __future__ import annotations
+
+from collections import Counter
+from dataclasses import dataclass
+
+from pairings.engine.dutch.colours import Colours, allocate, breaks
+from pairings.engine.dutch.entrants import Entrants
+from pairings.state import Float, PlayerId, Side
+
+Layer = tuple[int, int]
+Costs = Counter[Layer]
+
+
+@dataclass(frozen=True)
+class Bracket:
+    """One bracket (Art. 1.3.2): its members in BSN order and what lies below it."""
+
+    members: tuple[PlayerId, ...]
+    mdps: frozenset[PlayerId]
+    score: int
+    """The residents' score (the lowest in the bracket)."""
+    next: tuple[PlayerId, ...]
+    """The next score group's players (empty for the last bracket)."""
+    lower: tuple[PlayerId, ...]
+    """Every player below the bracket, next score group first."""
+    collapsed: bool = False
+    """Last bracket paired as one group, MDPs with each other too (see bracket.py)."""
+
+    @property
+    def last(self) -> bool:
+        return not self.lower
+
+    @property
+    def heterogeneous(self) -> bool:
+        return bool(self.mdps) and not self.collapsed
+
+    def allows(self, ent: Entrants, u: PlayerId, v: PlayerId) -> bool:
+        """The pair may be made inside this bracket: C.1, C.3, and no MDP-MDP pair (2017 B.2)."""
+        if self.heterogeneous and u in self.mdps and v in self.mdps:
+            return False
+        return ent.compatible(u, v)
+
+
+def _repeat(ent: Entrants, p: PlayerId, way: Float, back: int) -> bool:
+    return ent.floats[p][back - 1] is way
+
+
+def pair_costs(ent: Entrants, br: Bracket, u: PlayerId, v: PlayerId) -> tuple[Costs, Colours]:
+    """Costs of the pair ``u``-``v`` inside the bracket, and its colours."""
+    c: Costs = Counter()
+    colours = allocate(ent, u, v)
+    hi, lo = (u, v) if ent.score[u] >= ent.score[v] else (v, u)
+    sd = ent.score[hi] - ent.score[lo]
+    c[60, -sd] = 1
+    if hi in ent.topscorers or lo in ent.topscorers:
+        wide, third = breaks(ent, colours)
+        c[80, 0] = len(wide)
+        c[90, 0] = len(third)
+    if ent.colours:
+        first, second = ent.pref[colours.first], ent.pref[colours.second]
+        lost = [p for p, side in ((first, Side.FIRST), (second, Side.SECOND)) if p.side not in (None, side)]
+        if lost:
+            c[100, 0] = len(lost)
+            c[110, 0] = sum(1 for p in lost if p.strength >= 2)
+    if sd:
+        for back, part in ((1, 0), (2, 20)):
+            if _repeat(ent, lo, Float.UP, back):
+                c[130 + part, 0] += 1
+                c[170 + part, -sd] += 1
+            if _repeat(ent, hi, Float.DOWN, back):
+                c[160 + part, -sd] += 1
+    return c, colours
+
+
+def float_costs(ent: Entrants, br: Bracket, u: PlayerId) -> Costs:
+    """Costs of ``u`` leaving the bracket unpaired (a downfloater, or the PAB in the last bracket)."""
+    c: Costs = Counter()
+    c[50, 0] += 1
+    c[60, -(ent.score[u] - (br.score - ent.win))] += 1
+    if _repeat(ent, u, Float.DOWN, 1):
+        c[120, 0] += 1
+    if _repeat(ent, u, Float.DOWN, 2):
+        c[140, 0] += 1
+    return c
+
+
+def next_pair_costs(ent: Entrants, br: Bracket, u: PlayerId, v: PlayerId) -> Costs:
+    """C.7: a pair of the next bracket."""
+    return Counter({(71, -abs(ent.score[u] - ent.score[v])): 1})
+
+
+def next_float_costs(ent: Entrants, br: Bracket, u: PlayerId) -> Costs:
+    """C.7: a player of the next bracket left unpaired there."""
+    low = ent.score[br.next[0]] if br.next else br.score
+    return Counter({(70, 0): 1, (71, -(ent.score[u] - (low - ent.win))): 1})
