@@ -556,9 +556,6 @@ def build_parser() -> argparse.ArgumentParser:
     sp.add_argument("--seed", type=int, default=None, help="seed of the round-1 side lot (default: drawn now)")
     sp.add_argument("--round-robin", action="store_true", help="all-play-all by the Berger tables (3-24 players)")
     sp.add_argument("--double", action="store_true", help="double round robin, sides reversed in the second cycle")
-    sp.add_argument("--system", default="whole-round", help="Swiss system: whole-round (default) or dutch "
-                    "(the FIDE Dutch System, C.04.3; not endorsed by FIDE)")
-    sp.add_argument("--acceleration", default="none", help="baku (FIDE C.04.5.1 virtual points) or none (default)")
 
     player = sub.add_parser("player", help="register and manage players")
     psub = player.add_subparsers(dest="player_command", required=True, parser_class=_Parser)
