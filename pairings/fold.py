@@ -14,6 +14,7 @@ from types import MappingProxyType
 from typing import Iterable
 
 from pairings import events as ev
+from pairings.errors import InputError
 from pairings.standings.tiebreaks import check_tiebreaks
 from pairings.state import (
     DEFAULT_TIEBREAKS,
@@ -70,7 +71,7 @@ def _(e: ev.EventCreated, b: _Builder) -> None:
         sides=e.sides,
         bye_points=e.bye_points,
         requested_bye_points=e.requested_bye_points,
-        tiebreaks=check_tiebreaks(e.tiebreaks) if e.tiebreaks is not None else DEFAULT_TIEBREAKS,
+        tiebreaks=_tiebreaks(e.tiebreaks) if e.tiebreaks is not None else DEFAULT_TIEBREAKS,
         late_entry_points=e.late_entry_points,
         requested_bye_limit=e.requested_bye_limit,
         requested_bye_last_round=e.requested_bye_last_round,
@@ -97,7 +98,7 @@ def _(e: ev.SettingsChanged, b: _Builder) -> None:
     if e.after_round:
         changes["changed_after"] = b.settings.changed_after + tuple((e.after_round, k) for k in changes)
     if "tiebreaks" in changes:
-        changes["tiebreaks"] = check_tiebreaks(changes["tiebreaks"])  # older files stored snake_case names
+        changes["tiebreaks"] = _tiebreaks(changes["tiebreaks"])
     for key in ("deputy_arbiters", "round_dates"):
         if key in changes:
             changes[key] = tuple(changes[key])
@@ -121,6 +122,16 @@ def _(e: ev.PlayerEdited, b: _Builder) -> None:
     old = b.players[pid]
     details = old.details if e.details is None else _details(e.details)
     b.players[pid] = replace(old, name=e.name, rating=e.rating, club=e.club, details=details)
+
+
+def _tiebreaks(stored: Iterable[str]) -> tuple[str, ...]:
+    """A stored list as C.07 acronyms (older files stored snake_case names); a list that does not
+    read is kept as stored, so the file still opens and the standings name what is wrong."""
+    names = tuple(stored)
+    try:
+        return check_tiebreaks(names)
+    except InputError:
+        return names
 
 
 def _details(m: ev.PlayerDetailsModel | None) -> PlayerDetails:

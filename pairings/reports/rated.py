@@ -24,6 +24,8 @@ NOTES = (
     "K: 40 for players up to the year they turn 18 while below 2300, 10 from 2400, else 20 (K × games ≤ 700); "
     "the desk cannot know a player's first 30 games (K 40): check K by hand.",
     "Performance: average rating of the rated opponents + dp of table 8.1(a), p rounded half up.",
+    "An unrated player's first rating (five rated games or more) counts two 1800-rated opponents drawn with "
+    "(the rule of March 2024 as remembered): ratings below the list's floor are not published.",
 )
 
 
@@ -34,7 +36,8 @@ def _number(value: Decimal | None) -> float | None:
 def _note(c: RatingChange) -> str | None:
     parts = []
     if c.rating is None:
-        parts.append(f"unrated: {counted(len(c.games), 'game')} against rated opponents")
+        first = f", first rating {c.first_rating} if this event alone counts" if c.first_rating else ""
+        parts.append(f"unrated: {counted(len(c.games), 'game')} against rated opponents{first}")
     if c.unrated_opponents:
         parts.append(f"{counted(c.unrated_opponents, 'game')} against unrated opponents not rated")
     return "; ".join(parts) or None

@@ -19,7 +19,10 @@ rating change 8.3):
   how many rated games a player has had (K 40 for the first 30 games) nor
   whether a published rating was ever 2400 or more: it takes the rating held;
 * the performance rating is Ra + dp with table 8.1(a) (also the one in
-  :mod:`pairings.standings.ratings`), over the same rated games.
+  :mod:`pairings.standings.ratings`), over the same rated games;
+* an unrated player's first rating from this event (at least five rated games, a
+  point at least) counts two hypothetical 1800-rated opponents drawn with (the rule
+  of 1 March 2024 as remembered, low confidence).
 """
 
 from __future__ import annotations
@@ -37,6 +40,8 @@ CAP_EXEMPT_FROM = 2650
 K_CAP = 700
 FIRST_RATING_GAMES = 5
 """Games against rated opponents a first rating needs (from memory)."""
+HYPOTHETICAL = 1800
+"""The rating of the two hypothetical opponents of a first rating (from memory, low confidence)."""
 SCORE = {"win": Decimal(1), "draw": Decimal("0.5"), "loss": Decimal(0)}
 """A rated game's score whatever the event's own points (1, ½, 0)."""
 
@@ -117,6 +122,19 @@ class RatingChange:
             return None
         average = round_half_up(Decimal(sum(g.opponent_rating for g in self.games)) / len(self.games))
         return average + dp_from_fraction(float(self.scored / len(self.games)))
+
+
+    @property
+    def first_rating(self) -> int | None:
+        """An unrated player's first rating from this event alone, by the rule of 1 March 2024 as remembered
+        (low confidence): Ra + dp(p) with two hypothetical 1800 opponents drawn with, i.e. Ra the average
+        of the rated opponents and two 1800s, p = (points + 1) / (games + 2). None for a rated player, with
+        fewer than :data:`FIRST_RATING_GAMES` rated games, or without a point (such an event is ignored)."""
+        if self.rating is not None or len(self.games) < FIRST_RATING_GAMES or not self.scored:
+            return None
+        ratings = [g.opponent_rating for g in self.games] + [HYPOTHETICAL] * 2
+        average = round_half_up(Decimal(sum(ratings)) / len(ratings))
+        return average + dp_from_fraction(float((self.scored + 1) / (len(self.games) + 2)))
 
 
 def _year(text: str | None) -> int | None:

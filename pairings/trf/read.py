@@ -11,12 +11,12 @@ record tags are skipped, as the standard asks.
 
 from __future__ import annotations
 
-from dataclasses import dataclass, field
+from dataclasses import dataclass, field, replace
 
 from pairings import events as ev
 from pairings.actions import clean_text
 from pairings.errors import InputError, ReportFileError
-from pairings.eventinfo import check_date
+from pairings.eventinfo import InfoChange, check_date, checked_info
 from pairings.standings import check_tiebreaks, default_tiebreaks
 from pairings.state import ByeKind, Result, Side, System, Unplayed
 from pairings.trf.layout import (
@@ -165,6 +165,8 @@ def _player(line_no: int, text: str) -> _Entry:
 @dataclass
 class _Header:
     values: dict[str, str] = field(default_factory=dict)
+    lines: dict[str, int] = field(default_factory=dict)
+    """The line of each header tag (the last one, for 112)."""
     deputies: list[str] = field(default_factory=list)
     round_dates: tuple[str, ...] = ()
     rounds: int | None = None
@@ -191,6 +193,7 @@ def _round_dates(line_no: int, text: str) -> tuple[str, ...]:
 
 def _header_line(h: _Header, line_no: int, tag: str, text: str) -> None:
     value = text[4:].strip()
+    h.lines[tag] = line_no
     if tag == "112":
         h.deputies.append(value)
     elif tag == "132":
@@ -314,6 +317,29 @@ def _check_points(p: _Entry, rounds: list[ev.RoundDrafted], points: Points) -> N
         raise _fail(p.line, PLAYER["points"].first, f"points {p.points:g} but the rounds give {total:g}")
 
 
+INFO_TAGS = {"city": "022", "federation": "032", "start_date": "042", "end_date": "052",
+             "chief_arbiter": "102", "deputy_arbiters": "112", "time_control": "122", "round_dates": "132"}
+
+
+def _info(header: _Header, first: ev.EventCreated) -> dict[str, object]:
+    """The header's report-file details, each checked as ``pairings settings`` checks it."""
+    from pairings.fold import fold
+
+    settings = fold([(1, first)]).settings
+    given: dict[str, object] = {key: header.values[tag] for key, tag in INFO_TAGS.items() if tag in header.values}
+    if header.deputies:
+        given["deputy_arbiters"] = tuple(header.deputies)
+    if header.round_dates:
+        given["round_dates"] = header.round_dates
+    out: dict[str, object] = {}
+    for key, value in given.items():  # one at a time, so that an error names its record's line
+        try:
+            out |= checked_info(InfoChange(**{key: value}), replace(settings, **out))  # type: ignore[arg-type]
+        except InputError as exc:
+            raise _fail(header.lines[INFO_TAGS[key]], 5, str(exc)) from None
+    return out
+
+
 def read_trf(text: str) -> list[ev.Event]:
     """The events that rebuild the event a report file describes; ReportFileError on what it cannot read."""
     header, players = _parse(text)
@@ -333,17 +359,15 @@ def read_trf(text: str) -> list[ev.Event]:
     v = header.values
     tiebreaks, unplayed = header.tiebreaks or (default_tiebreaks(system, True), Unplayed.VIRTUAL_OPPONENT)
     try:
-        first: ev.Event = ev.EventCreated(
+        first = ev.EventCreated(
             name=clean_text(v["012"], "tournament name"), rounds=total,
             scoring=ev.ScoringModel(win=win, draw=draw, loss=loss), bye_points=bye, requested_bye_points=half,
             late_entry_points=late,
             system=system, double_round=double, tiebreaks=tiebreaks, unplayed=unplayed, seed=0,
-            city=v.get("022", ""), federation=v.get("032", "").upper(), start_date=v.get("042", ""),
-            end_date=v.get("052", ""), chief_arbiter=v.get("102", ""), deputy_arbiters=tuple(header.deputies),
-            time_control=v.get("122", ""), round_dates=header.round_dates,
         )
     except InputError as exc:
-        raise ReportFileError(f"record 012: {exc}") from None
+        raise _fail(header.lines["012"], 5, str(exc)) from None
+    first = first.model_copy(update=_info(header, first))
     out: list[ev.Event] = [first]
     withdrawn: list[ev.Event] = []
     for p in sorted(players, key=lambda e: e.rank):

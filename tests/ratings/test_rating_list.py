@@ -152,3 +152,11 @@ def test_cli_ratings_update(capsys: pytest.CaptureFixture[str], tmp_path: Path) 
     assert "3 players updated" in out and "not found: Xan Away" in out
     assert main(["log", str(path)]) == 0
     assert "(late list)" in capsys.readouterr().out
+
+
+def test_the_benchmark_list_is_in_the_layout_and_every_player_is_found() -> None:
+    """The bench's generated list (not timed here: speed lives in ``python -m pairings.bench``)."""
+    from pairings.bench import bench_rating_list
+
+    line = bench_rating_list(3_000, 200, seed=5)
+    assert "rating list: 3,000 lines" in line and "200 players" in line and ", 200 matched," in line

@@ -125,3 +125,18 @@ def test_standings_column_and_rating_report(capsys: pytest.CaptureFixture[str], 
     assert "0.36" in ash and "12.8" in ash and "2900" in ash  # perf: 2100 + 800 for 1 / 1
     code, out = cli("print", path, "rating-report")
     assert code == 0 and "Rating report" in out and "2013" in out  # 2000 + 12.8 → 2013
+
+
+def test_first_rating_of_an_unrated_player_with_two_hypothetical_opponents() -> None:
+    """The rule of 1 March 2024 as remembered (low confidence): an unrated player scores 3 of 5 against
+    2000, 2100, 1900, 2200, 1800. With two 1800 draws: Ra = (2000 + 2100 + 1900 + 2200 + 1800 + 1800 + 1800)
+    / 7 = 13600 / 7 = 1942.86 → 1943; p = (3 + 1) / (5 + 2) = .571 → .57 → dp 50; Ru = 1993."""
+    rated = [("r1", 2000), ("r2", 2100), ("r3", 1900), ("r4", 2200), ("r5", 1800)]
+    results = [Result.FIRST_WINS, Result.FIRST_WINS, Result.FIRST_WINS, Result.SECOND_WINS, Result.SECOND_WINS]
+    state = _event([("u", None, "2000"), *((pid, r, "1990") for pid, r in rated)],
+                   [("u", pid, res) for (pid, _), res in zip(rated, results)])
+    c = rating_changes(state)[PlayerId("u")]
+    assert c.scored == 3 and len(c.games) == 5 and c.first_rating == 1993
+    fewer = _event([("u", None, "2000"), *((pid, r, "1990") for pid, r in rated[:4])],
+                   [("u", pid, res) for (pid, _), res in zip(rated[:4], results)])
+    assert rating_changes(fewer)[PlayerId("u")].first_rating is None  # four games: no first rating yet

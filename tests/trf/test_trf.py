@@ -199,6 +199,8 @@ def _broken(line_index: int, column: int, text: str) -> str:
     (15, 11, " XX", "line 16, column 11: title 'XX'"),
     (17, 5, "   1", "line 18, column 5: start rank 1 also on line 15"),
     (14, 100, "x", "line 15, column 100: round 1: unexpected 'x'"),
+    (2, 5, "EN1", "line 3, column 5: federation 'EN1' is not a three-letter code"),
+    (4, 5, "2026/04/01", "line 5, column 5: the end date 2026-04-01 is before the start date 2026-04-03"),
     (14, 119, "1", "line 15, column 119: round 3: results '1' and '=' (start rank 2) do not make"),
 ])
 def test_reader_names_line_and_column(line: int, column: int, text: str, message: str) -> None:

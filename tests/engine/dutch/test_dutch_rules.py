@@ -197,7 +197,7 @@ def test_cli_new_dutch_baku(tmp_path: Path, capsys: pytest.CaptureFixture[str]) 
     assert isinstance(created, ev.EventCreated)
     assert created.system is System.DUTCH and created.acceleration is Acceleration.BAKU
     bad = cli("new", tmp_path / "f.pairings", "--name", "X", "--rounds", "5", "--system", "monrad")
-    assert bad.code == 2 and "unknown system" in bad.err and not (tmp_path / "f.pairings").exists()
+    assert bad.code == 2 and "system 'monrad'" in bad.err and not (tmp_path / "f.pairings").exists()
     bad = cli("new", tmp_path / "g.pairings", "--name", "X", "--rounds", "5", "--acceleration", "baku",
               "--scoring", "3,1,0")
     assert bad.code == 2 and "standard scoring" in bad.err
