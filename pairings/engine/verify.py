@@ -48,7 +48,8 @@ class RoundCheck:
         return not self.breaches and self.optimal is not False
 
     def lines(self) -> list[str]:
-        head = f"round {self.round}: " + ("ok" if self.ok else f"{len(self.breaches)} breach(es)")
+        n = len(self.breaches)
+        head = f"round {self.round}: " + ("ok" if self.ok else f"{n} breach{'es' if n != 1 else ''}")
         return [head, *(f"  breach: {b}" for b in self.breaches), *(f"  {n}" for n in self.notes)]
 
 
@@ -68,7 +69,7 @@ def verify_round(state: EventState, round_number: int) -> RoundCheck:
     if stored is None:
         raise InputError(f"there is no round {round_number} to verify")
     before = state_before(state, round_number)
-    breaches, fld = _breaches(before, stored, str)
+    breaches, fld = _breaches(before, stored, lambda pid: state.players[pid].name if pid in state.players else pid)
     if fld is None:
         return RoundCheck(round_number, breaches, (), None, False)
     pairs = [(g.first, g.second) for g in stored.games]

@@ -76,6 +76,8 @@ def test_swap_says_its_cost_and_publish_wants_an_accepted_reason(event: Path, cl
     assert cli("result", event, "1", "1-0").code == 0
     ran = cli("verify", event)
     assert "breach: H1" in ran.out and "accepted the breaches when publishing: the players agreed" in ran.out
+    # In the players' names, as the swap and publish lines say it (not "p6 and p3"), and "1 breach".
+    assert "round 2: 1 breach\n  breach: H1: board 2: Fay Orrin and Cy Rill have met before" in ran.out
     assert ran.code == 0
 
 
