@@ -169,7 +169,8 @@ def _(e: ev.CategoryDefined) -> str:
     if e.rule is None:
         return f"category {e.name!r} defined (members by hand)"
     rule = {k: v for k, v in e.rule.model_dump().items() if v not in (None, False)}
-    return f"category {e.name!r} defined: " + ", ".join(f"{k.replace('_', ' ')} {v}" for k, v in rule.items())
+    return f"category {e.name!r} defined: " + ", ".join(
+        k.replace('_', ' ') if v is True else f"{k.replace('_', ' ')} {v}" for k, v in rule.items())
 
 
 @_line.register
@@ -179,7 +180,7 @@ def _(e: ev.CategoryRemoved) -> str:
 
 @_line.register
 def _(e: ev.CategoryMember) -> str:
-    return f"player {e.player} {'put in' if e.member else 'left out of'} category {e.category!r} by hand"
+    return f"{_who(e.player)} {'put in' if e.member else 'left out of'} category {e.category!r} by hand"
 
 
 @_line.register
