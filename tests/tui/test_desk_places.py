@@ -234,3 +234,21 @@ def test_80_by_24_names_take_the_free_width_and_the_why_panel_is_one_key_away(tm
             assert state.region.width >= len(str(state.content)), str(state.content)
 
     asyncio.run(run())
+
+
+def test_results_key_line_shows_every_result_key_at_80_and_120_columns(tmp_path: Path) -> None:
+    """The arbiter's results (z, h, j) had no short words, so the line dropped h and j even at 120 columns."""
+    from pairings.tui.base import KeyList
+
+    store = roster_event(tmp_path / "e.pairings")
+
+    async def run(size: tuple[int, int]) -> None:
+        app = DeskApp(store, poll_seconds=3600, start="results")
+        async with app.run_test(size=size) as pilot:
+            await settle(app, pilot)
+            keys = str(app.screen.query_one(KeyLine).query_one(".keys", KeyList).render())
+            for entry in (" f 1-0", " d ½-½", " x --", " z 0-0", " h ½-0", " j 0-½", " f1 Help"):
+                assert entry in keys, (size, keys)
+
+    for size in ((80, 24), (120, 40)):
+        asyncio.run(run(size))
