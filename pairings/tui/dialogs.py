@@ -50,7 +50,7 @@ class Choice(Widget, can_focus=True):
     """
 
     DEFAULT_CSS = """
-    Choice { height: 1; width: 100%; }
+    Choice { height: auto; width: 100%; }
     Choice:focus { background: $accent 25%; }
     """
     BINDINGS = [Binding("left", "step(-1)", "Previous", show=False), Binding("right", "step(1)", "Next", show=False)]

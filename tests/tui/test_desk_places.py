@@ -252,3 +252,19 @@ def test_results_key_line_shows_every_result_key_at_80_and_120_columns(tmp_path:
 
     for size in ((80, 24), (120, 40)):
         asyncio.run(run(size))
+
+
+def test_print_dialog_shows_every_kind_at_80_columns(tmp_path: Path) -> None:
+    """The kinds were one line, so "prizes" fell off the dialog's edge at 80 columns, even when chosen."""
+    store = roster_event(tmp_path / "e.pairings")
+
+    async def run() -> None:
+        app = DeskApp(store, poll_seconds=3600, start="round")
+        async with app.run_test(size=(80, 24)) as pilot:
+            await pilot.press("f7")
+            await pilot.pause()
+            kind = app.screen.query_one("#field-0", Choice)
+            shown = " ".join(f" {k} " for k in KINDS)
+            assert kind.region.height * kind.region.width >= len(shown) and kind.region.height >= 2, kind.region
+
+    asyncio.run(run())
