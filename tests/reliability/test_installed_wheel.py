@@ -80,11 +80,11 @@ def test_desk_opens_on_the_demo_from_the_wheel(installed: tuple[Path, dict[str, 
     subprocess.run(["tmux", "new-session", "-d", "-s", SESSION, "-x", "100", "-y", "30", command], check=True, env=env)
     try:
         deadline, screen = time.monotonic() + 30, ""
-        while time.monotonic() < deadline and not ("Winter Weekend Open" in screen and "· Round ·" in screen):
+        while time.monotonic() < deadline and not ("Winter Weekend Open" in screen and "Round · round " in screen):
             time.sleep(0.2)
             screen = subprocess.run(["tmux", "capture-pane", "-t", SESSION, "-p"], capture_output=True,
                                     text=True).stdout
-        assert "Winter Weekend Open" in screen and "· Round ·" in screen, screen
+        assert "Winter Weekend Open" in screen and "Round · round " in screen, screen
         assert "Traceback" not in screen and "scenario missing" not in screen
     finally:
         subprocess.run(["tmux", "kill-session", "-t", SESSION], capture_output=True)
