@@ -156,7 +156,7 @@ def _(e: ev.BreachAccepted) -> str:
 
 @_line.register
 def _(e: ev.NoShowKept) -> str:
-    return f"player {e.player} kept in the event after the double forfeit of round {e.round}"
+    return f"{_who(e.player)} kept in the event after the double forfeit of round {e.round}"
 
 
 @_line.register

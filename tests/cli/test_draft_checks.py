@@ -106,7 +106,7 @@ def test_a_double_forfeit_asks_before_the_next_draft(tmp_path: Path, cli) -> Non
     assert cli("player", "withdraw", event, "Dee Marsh").code == 0
     ran = cli("pair", event, "--keep", "Ada")
     assert ran.code == 0 and ran.out.startswith("Ada Quince stays in after the double forfeit of round 1\n"), ran
-    assert "kept in the event after the double forfeit of round 1" in cli("log", event).out
+    assert "Ada Quince (p1) kept in the event after the double forfeit of round 1" in cli("log", event).out
     assert cli("pair", event).code == 0  # asked once: the decision is recorded
     with EventStore.open(event) as store:
         rnd = store.state.rounds[1]
