@@ -69,3 +69,13 @@ def test_unpublish_says_how_to_clear_the_results(event: Path, cli) -> None:  # t
     for board in ("1", "2", "3"):
         assert cli("result", event, board, "clear", "--correct").code == 0
     assert cli("unpublish", event, "--reason", "wrong roster").code == 0
+
+
+def test_swapping_two_players_of_one_board_names_them(event: Path, cli) -> None:  # type: ignore[no-untyped-def]
+    from pairings.store import EventStore
+
+    assert cli("pair", event).code == 0
+    with EventStore.open(event) as store:
+        game = store.state.rounds[-1].games[0]
+        a, b = store.state.players[game.first].name, store.state.players[game.second].name
+    refused(cli, event, "swap", event, a, b, "--reason", "x", says=f"{a} and {b} already play each other")
