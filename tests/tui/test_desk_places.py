@@ -268,3 +268,22 @@ def test_print_dialog_shows_every_kind_at_80_columns(tmp_path: Path) -> None:
             assert kind.region.height * kind.region.width >= len(shown) and kind.region.height >= 2, kind.region
 
     asyncio.run(run())
+
+
+def test_a_long_dialog_intro_wraps_at_80_columns(tmp_path: Path) -> None:
+    """The swap dialog's "Against the optimum: +1 rematch, +1 floater, +1 side preference missed, ..." was cut."""
+    from pairings.tui.dialogs import Field, open_dialog
+
+    store = roster_event(tmp_path / "e.pairings")
+    cost = ("Against the optimum: +1 rematch, +1 floater, +1 side preference missed, +3 steps from rank order, "
+            "+2 score gap")
+
+    async def run() -> None:
+        app = DeskApp(store, poll_seconds=3600, start="round")
+        async with app.run_test(size=(80, 24)) as pilot:
+            open_dialog(app, FormDialog("Override", [Field("reason", "Reason")], intro=["swap A and B", cost]))
+            await pilot.pause()
+            intro = app.screen.query_one("#intro-1", Label)
+            assert intro.region.height >= 2 and intro.region.height * intro.region.width >= len(cost), intro.region
+
+    asyncio.run(run())
