@@ -513,7 +513,8 @@ def unpublish(state: EventState, reason: str) -> list[ev.Event]:
     if last is None or last.state is RoundState.DRAFT:
         raise RoundStateError("no published round to take back")
     if any(g.result is not None for g in last.games):
-        raise RoundStateError(f"round {last.number} already has results; clear them first")
+        raise RoundStateError(f"round {last.number} already has results; clear them first "
+                              "(result EVENT BOARD clear --correct; c in the desk's Results place)")
     return [ev.RoundUnpublished(round=last.number, reason=why)]
 
 

@@ -14,7 +14,7 @@ from typing import Any, Callable, Sequence
 from pairings.errors import InputError
 from pairings.state import EventState
 from pairings.store import EventStore
-from pairings.text import plain
+from pairings.text import counted, plain
 
 
 def _run(path: str, action: Callable[[EventState], Sequence[Any]]) -> EventState:
@@ -36,8 +36,10 @@ def cmd_category_add(a: argparse.Namespace) -> None:
     if a.by_hand and any(v not in (None, False) for v in (a.under, a.age_from, a.on, a.sex, a.rating_from,
                                                           a.rating_below, a.rating_list, a.unrated, a.label, a.club)):
         raise InputError("category add: --by-hand takes no rule options")
+    with EventStore.open(Path(a.event)) as store:
+        known = {c.casefold() for c in store.state.categories}
     _run(a.event, lambda s: define_category(s, a.name, rule))
-    _say(f"category {plain(a.name)} defined")
+    _say(f"category {plain(a.name)} {'redefined' if a.name.strip().casefold() in known else 'defined'}")
 
 
 def cmd_category_remove(a: argparse.Namespace) -> None:
@@ -51,8 +53,12 @@ def _member_command(member: bool) -> Callable[[argparse.Namespace], None]:
     def command(a: argparse.Namespace) -> None:
         from pairings.categories import set_member
 
-        _run(a.event, lambda s: set_member(s, a.name, a.player, member))
-        _say("put in the category" if member else "left out of the category")
+        from pairings.actions import find_player
+        from pairings.categories import find_category
+
+        s = _run(a.event, lambda s: set_member(s, a.name, a.player, member))
+        who, where = s.players[find_player(s, a.player)].name, find_category(s, a.name).name
+        _say(f"{plain(who)} {'put in' if member else 'left out of'} {plain(where)} by hand")
 
     return command
 
@@ -66,7 +72,7 @@ def cmd_category_list(a: argparse.Namespace) -> None:
         _say("no categories defined")
     for c in s.categories.values():
         inside = members(s, c)
-        _say(f"{plain(c.name)}: {plain(describe_rule(c.rule))}; {len(inside)} players")
+        _say(f"{plain(c.name)}: {plain(describe_rule(c.rule))}; {counted(len(inside), 'player')}")
         if a.members:
             for pid in sorted(inside, key=lambda p: s.players[p].order):
                 _say(f"    {plain(pid):>6}  {plain(s.players[pid].name)}")

@@ -158,7 +158,7 @@ def _(e: ev.BreachAccepted) -> str:
 
 @_line.register
 def _(e: ev.NoShowKept) -> str:
-    return f"player {e.player} kept in the event after the double forfeit of round {e.round}"
+    return f"{_who(e.player)} kept in the event after the double forfeit of round {e.round}"
 
 
 @_line.register
@@ -171,7 +171,8 @@ def _(e: ev.CategoryDefined) -> str:
     if e.rule is None:
         return f"category {e.name!r} defined (members by hand)"
     rule = {k: v for k, v in e.rule.model_dump().items() if v not in (None, False)}
-    return f"category {e.name!r} defined: " + ", ".join(f"{k.replace('_', ' ')} {v}" for k, v in rule.items())
+    return f"category {e.name!r} defined: " + ", ".join(
+        k.replace('_', ' ') if v is True else f"{k.replace('_', ' ')} {v}" for k, v in rule.items())
 
 
 @_line.register
@@ -181,7 +182,7 @@ def _(e: ev.CategoryRemoved) -> str:
 
 @_line.register
 def _(e: ev.CategoryMember) -> str:
-    return f"player {e.player} {'put in' if e.member else 'left out of'} category {e.category!r} by hand"
+    return f"{_who(e.player)} {'put in' if e.member else 'left out of'} category {e.category!r} by hand"
 
 
 @_line.register

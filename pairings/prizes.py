@@ -128,10 +128,15 @@ def prize_list(state: EventState, after_round: int | None = None) -> PrizeList:
         for p in prizes:
             pid = winner[name, p.place]
             if pid is None:
-                awards.append(Award(name, str(p.place), None, None, p.amount, "no eligible player"))
+                awards.append(Award(name, str(p.place), None, None, p.amount, _left_over(eligible[name])))
             else:
                 awards.append(Award(name, str(p.place), pid, points[pid], p.amount))
     return PrizeList(tuple(awards), policy, table)
+
+
+def _left_over(eligible: list[PlayerId]) -> str:
+    """Why a prize goes to no one: nobody is in its list, or all of them hold a prize already."""
+    return "every eligible player already has a prize (one prize per player)" if eligible else "no eligible player"
 
 
 def _shared(name: str | None, prizes: list[Prize], winner: dict[tuple[str | None, int], PlayerId | None],
@@ -143,7 +148,7 @@ def _shared(name: str | None, prizes: list[Prize], winner: dict[tuple[str | None
     for prize in prizes:
         pid = winner[name, prize.place]
         if pid is None:
-            out.append(Award(name, str(prize.place), None, None, prize.amount, "no eligible player"))
+            out.append(Award(name, str(prize.place), None, None, prize.amount, _left_over(eligible)))
             continue
         if pid in done:
             continue

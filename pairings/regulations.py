@@ -291,7 +291,7 @@ def changed_after_notes(s: Settings) -> tuple[str, ...]:
     return tuple(
         f"{BY_KEY[key].label if key in BY_KEY else key} changed after round {number}"
         + ("; standings recomputed." if key in RECOUNT else ".")
-        for number, key in s.changed_after
+        for number, key in dict.fromkeys(s.changed_after)  # each (round, setting) once, in order
         if key != "double_round"
     )
 

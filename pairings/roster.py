@@ -85,8 +85,8 @@ class RosterImport:
     """Columns not read, one line each."""
 
 
-def _rows(text: str) -> list[tuple[int, list[str]]]:
-    """(first line, cells) of each row; an unclosed quote or a cell over several lines is refused."""
+def _rows(text: str) -> tuple[list[tuple[int, list[str]]], list[str]]:
+    """(first line, cells) of each row read, and the problems: an unclosed quote, a cell over several lines."""
     reader = csv.reader(io.StringIO(text, newline=""), delimiter=_delimiter(text), strict=True)
     rows: list[tuple[int, list[str]]] = []
     problems: list[str] = []
@@ -101,16 +101,16 @@ def _rows(text: str) -> list[tuple[int, list[str]]]:
     except csv.Error as exc:
         why = "a quote is opened and never closed" if "end of data" in str(exc) or "EOF" in str(exc) else str(exc)
         problems.append(f"line {start}: {why}")
-    if problems:
-        raise RosterError(problems)
-    return rows
+    return rows, problems
 
 
 def read_roster(state: EventState, text: str) -> RosterImport:
     """The registrations for every row of ``text``, and warnings; raises RosterError listing all bad rows."""
     if "\x00" in text:
         raise InputError("roster holds NUL bytes: not a CSV text file")
-    rows = _rows(text)
+    rows, quoting = _rows(text)
+    if quoting and len(rows) < 2:
+        raise RosterError(quoting)  # the header itself, or everything after it, is inside the open quote
     if not rows or not any(cell.strip() for cell in rows[0][1]):
         raise InputError("roster is empty: it needs a header row with a 'name' column")
     header = [cell.strip() for cell in rows[0][1]]
@@ -124,7 +124,7 @@ def read_roster(state: EventState, text: str) -> RosterImport:
     warnings = [f"column {i + 1} ({h!r}) is not read: its values are not imported"
                 for i, (h, c) in enumerate(zip(header, columns)) if c is None and h]
 
-    problems: list[str] = []
+    problems: list[str] = quoting
     out: list[ev.PlayerRegistered] = []
     ids_seen: dict[str, int] = {}
     taken: set[str] = set()
@@ -179,7 +179,7 @@ def read_roster(state: EventState, text: str) -> RosterImport:
         out.append(ev.PlayerRegistered(id=pid or "", name=name, rating=rating, club=club or None, entry_round=start,
                                        details=details_model(details)))
     if problems:
-        raise RosterError(problems)
+        raise RosterError(sorted(problems, key=lambda p: int(p.split(":")[0].removeprefix("line "))))
     if not out:
         raise InputError("roster has a header but no players")
     # Rows without an id get the next free one, skipping every id given in the file.

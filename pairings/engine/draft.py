@@ -211,6 +211,12 @@ def rebuild(state: EventState, round: int, pairs: Sequence[Pair], bye: PlayerId 
     return assemble(state, fld, sided, bye, pinned=list(kept.values()), changed=changed, absent=absent)
 
 
+def _named(state: EventState, pid: PlayerId) -> str:
+    """A player's name for a message (the id when the player is unknown)."""
+    player = state.players.get(pid)
+    return player.name if player is not None else repr(pid)
+
+
 def swap(state: EventState, draft: Draft, a: PlayerId, b: PlayerId) -> Draft:
     """Exchange ``a`` and ``b`` between their boards (or with the pairing bye) and rebuild."""
     bye = draft.pairing_bye
@@ -218,10 +224,11 @@ def swap(state: EventState, draft: Draft, a: PlayerId, b: PlayerId) -> Draft:
     for pid in (a, b):
         board = draft.board_of(pid)
         if board is None and pid != bye:
-            raise NoPairingError(f"{pid!r} is neither on a board nor on the pairing bye of round {draft.round}")
+            raise NoPairingError(f"{_named(state, pid)} is neither on a board nor on the pairing bye of "
+                                 f"round {draft.round}")
         where[pid] = board
     if where[a] is not None and where[a] is where[b]:
-        raise NoPairingError(f"{a!r} and {b!r} already play each other: nothing to swap")
+        raise NoPairingError(f"{_named(state, a)} and {_named(state, b)} already play each other: nothing to swap")
 
     def moved(pid: PlayerId) -> PlayerId:
         return b if pid == a else a if pid == b else pid

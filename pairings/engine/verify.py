@@ -58,7 +58,8 @@ class RoundCheck:
         return not self.breaches and self.optimal is not False
 
     def lines(self) -> list[str]:
-        head = f"round {self.round}: " + ("ok" if self.ok else f"{len(self.breaches)} breach(es)")
+        n = len(self.breaches)
+        head = f"round {self.round}: " + ("ok" if self.ok else f"{n} breach{'es' if n != 1 else ''}")
         return [head, *(f"  breach: {b}" for b in self.breaches), *(f"  {n}" for n in self.notes)]
 
 
@@ -81,7 +82,7 @@ def verify_round(state: EventState, round_number: int, deep: bool = False) -> Ro
     if stored is None:
         raise InputError(f"there is no round {round_number} to verify")
     before = state_before(state, round_number)
-    breaches, fld = _breaches(before, stored, str)
+    breaches, fld = _breaches(before, stored, lambda pid: state.players[pid].name if pid in state.players else pid)
     if fld is None:
         return RoundCheck(round_number, breaches, (), None, False)
     if before.settings.system is System.DUTCH:

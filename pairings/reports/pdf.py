@@ -13,6 +13,7 @@ from __future__ import annotations
 
 import unicodedata
 from datetime import datetime
+from collections.abc import Sequence
 from functools import cache
 from pathlib import Path
 
@@ -94,6 +95,8 @@ def _table(pdf: _Document, table: Table, size: float) -> None:
               for k, blank in zip(kinds, empty)]
     pdf.set_font(_FAMILY, "B", size + 1)
     pdf.cell(0, 6, table.caption, new_x=XPos.LMARGIN, new_y=YPos.NEXT)
+    pdf.set_font(_FAMILY, "B", size)
+    widths = _fit_headings(pdf, widths, kinds, [printable(table.columns[i].label) for i in shown])
     pdf.set_font(_FAMILY, "", size)
     # The text width of each column: its share of the page less the padding and a margin for the rules.
     room = [pdf.epw * w / sum(widths) - 2 * _PADDING - 1.0 for w in widths]
@@ -109,6 +112,20 @@ def _table(pdf: _Document, table: Table, size: float) -> None:
                 text = printable(show(values[i], table.columns[i].kind))
                 row.cell("\n".join(wrap(text, room[n], pdf.get_string_width)) if kinds[n] == "name" else text)
     pdf.ln(4)
+
+
+def _fit_headings(pdf: _Document, widths: list[float], kinds: Sequence[str], labels: list[str]) -> list[float]:
+    """Column widths in mm, each at least as wide as the longest word of its heading (in the current
+    font), so that "Board" is never broken into "Boa" / "rd"; the name columns give up the room."""
+    share = [pdf.epw * w / sum(widths) for w in widths]
+    need = [max((pdf.get_string_width(word) for word in label.split()), default=0.0) + 2 * _PADDING + 1.5
+            for label in labels]
+    grown = [max(s, n) if k != "name" else s for s, n, k in zip(share, need, kinds)]
+    extra = sum(grown) - pdf.epw
+    names = sum(s for s, k in zip(grown, kinds) if k == "name")
+    if extra <= 0 or names <= extra:
+        return grown if extra <= 0 else share
+    return [s - extra * s / names if k == "name" else s for s, k in zip(grown, kinds)]
 
 
 def _slip_name(name: object) -> str:

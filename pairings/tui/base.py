@@ -23,8 +23,8 @@ from textual.timer import Timer
 from textual.widgets import Label
 
 from pairings.events import Event
-from pairings.state import EventState
-from pairings.tui.text import cell, round_status
+from pairings.state import EventState, Result
+from pairings.tui.text import RESULT_WORDS, cell, round_status, short_result
 
 if TYPE_CHECKING:
     from pairings.tui.app import DeskApp
@@ -37,8 +37,7 @@ SHORT_LABELS = {
     "Discard draft": "Discard", "Earlier round": "Earlier", "Later round": "Later",
     "Add player": "Add", "Request bye": "Bye", "Mark absent": "Absent", "Cancel bye": "No bye",
     "Import CSV": "Import", "Clear result": "Clear", "Undo last action": "Undo", "Read whole": "Read", "Why panel": "Why", "palette": "",
-    "first side wins": "1-0", "draw": "½-½", "second side wins": "0-1", "first side wins by forfeit": "+-",
-    "second side wins by forfeit": "-+", "double forfeit": "--",
+    **{RESULT_WORDS[r]: short_result(r) for r in Result},
 }
 """What a key is called on the bottom line when the full words do not fit (F1 lists them in full)."""
 

@@ -50,7 +50,7 @@ class Choice(Widget, can_focus=True):
     """
 
     DEFAULT_CSS = """
-    Choice { height: 1; width: 100%; }
+    Choice { height: auto; width: 100%; }
     Choice:focus { background: $accent 25%; }
     """
     BINDINGS = [Binding("left", "step(-1)", "Previous", show=False), Binding("right", "step(1)", "Next", show=False)]
@@ -173,34 +173,45 @@ def open_dialog(app: App[Any], dialog: Dialog[T], callback: Callable[[T | None],
     app.push_screen(name, callback)
 
 
-class ConfirmDialog(Dialog[bool]):
-    """A yes/no question with the facts to decide on listed under it."""
+class ConfirmDialog(Dialog[bool | None]):
+    """A yes/no question with the facts to decide on listed under it.
+
+    With ``cancel``, where both answers write something (keep or withdraw a
+    player), Esc answers None (nothing done) instead of no.
+    """
 
     BINDINGS = [
         Binding("y,enter", "answer(True)", "Yes"),
-        Binding("n,escape", "answer(False)", "No"),
+        Binding("n", "answer(False)", "No"),
+        Binding("escape", "escape", "No"),
     ]
 
-    def __init__(self, question: str, lines: Sequence[str] = ()) -> None:
+    def __init__(self, question: str, lines: Sequence[str] = (), cancel: bool = False) -> None:
         super().__init__()
         self._c_question = question
         self._c_lines = list(lines)
+        self._c_cancel = cancel
 
     def compose(self) -> ComposeResult:
         with Vertical(classes="dialog"):
             yield Label("", id="question", classes="dialog-title")
             with VerticalScroll(classes="dialog-lines"):
                 yield Label("", id="facts")
-            yield Label("y / Enter: yes    n / Esc: no", classes="dialog-keys")
+            yield Label("", id="confirm-keys", classes="dialog-keys")
 
     def fill(self) -> None:
         self.query_one("#question", Label).update(cell(self._c_question))
         facts = self.query_one("#facts", Label)
         facts.update(Content("\n".join(safe(line) for line in self._c_lines)))
         facts.display = bool(self._c_lines)
+        self.query_one("#confirm-keys", Label).update(
+            "y / Enter: yes    n: no    Esc: cancel" if self._c_cancel else "y / Enter: yes    n / Esc: no")
 
     def action_answer(self, value: bool) -> None:
         self.close(value)
+
+    def action_escape(self) -> None:
+        self.close(None if self._c_cancel else False)
 
 
 class FormDialog(Dialog[dict[str, str] | None]):

@@ -309,8 +309,9 @@ class RoundPlace(Place):
 
         lines = [f"{who} lost round {number - 1} by double forfeit (no-show).",
                  "A no-show counts as a withdrawal unless the regulations say otherwise.",
-                 "y: keep in the event and pair    n: withdraw from this round on"]
-        open_dialog(self.app, ConfirmDialog(f"Keep {who} in the event?", lines), answered)
+                 f"y: keep in the event and pair    n: withdraw from round {number} on",
+                 "Esc: neither for now (nothing recorded, no draft)"]
+        open_dialog(self.app, ConfirmDialog(f"Keep {who} in the event?", lines, cancel=True), answered)
 
     @work(thread=True, exclusive=True, group="engine", description="engine work")
     def engine(self, state: EventState, job: Job, done: str, title: str = "") -> None:

@@ -35,7 +35,7 @@ class SettingsPlace(Place):
     SettingsPlace .setting { height: 1; }
     SettingsPlace .setting-label { width: 34; }
     SettingsPlace .setting > Input, SettingsPlace .setting > Select { width: 1fr; }
-    SettingsPlace #settings-note { height: auto; padding: 0 1; color: $warning; }
+    SettingsPlace #settings-note { width: 100%; height: auto; padding: 0 1; color: $warning; }
     """
 
     def body(self) -> ComposeResult:
@@ -77,7 +77,8 @@ class SettingsPlace(Place):
             change_settings(self.state, {key: text})
         except InputError as exc:
             self.show(self.state)
-            self.query_one("#settings-note", Label).update(cell(f"{label} not changed: {exc}"))
+            said = str(exc) if "not changed:" in str(exc) else f"{label} not changed: {exc}"
+            self.query_one("#settings-note", Label).update(cell(said))
             self.notify(str(exc), severity="error")
             return
         if not self.apply(lambda s: change_settings(s, {key: text}), f"{label}: {safe(text)}"):

@@ -76,6 +76,8 @@ def test_swap_says_its_cost_and_publish_wants_an_accepted_reason(event: Path, cl
     assert cli("result", event, "1", "1-0").code == 0
     ran = cli("verify", event)
     assert "breach: H1" in ran.out and "accepted the breaches when publishing: the players agreed" in ran.out
+    # In the players' names, as the swap and publish lines say it (not "p6 and p3"), and "1 breach".
+    assert "round 2: 1 breach\n  breach: H1: board 2: Fay Orrin and Cy Rill have met before" in ran.out
     assert ran.code == 0
 
 
@@ -104,7 +106,7 @@ def test_a_double_forfeit_asks_before_the_next_draft(tmp_path: Path, cli) -> Non
     assert cli("player", "withdraw", event, "Dee Marsh").code == 0
     ran = cli("pair", event, "--keep", "Ada")
     assert ran.code == 0 and ran.out.startswith("Ada Quince stays in after the double forfeit of round 1\n"), ran
-    assert "kept in the event after the double forfeit of round 1" in cli("log", event).out
+    assert "Ada Quince (p1) kept in the event after the double forfeit of round 1" in cli("log", event).out
     assert cli("pair", event).code == 0  # asked once: the decision is recorded
     with EventStore.open(event) as store:
         rnd = store.state.rounds[1]

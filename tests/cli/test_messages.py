@@ -60,3 +60,22 @@ def test_verify_counts_boards_and_the_bye_apart_and_says_why_it_skips_the_optimu
     assert "3 legal boards and a legal pairing bye pair every player" in out, out
     assert "optimum not checked: the organiser changed this round (swap Ada Quince and Bo Rill: club rule)" in out
     assert file_bytes(event) == before
+
+
+def test_unpublish_says_how_to_clear_the_results(event: Path, cli) -> None:  # type: ignore[no-untyped-def]
+    play_round(cli, event, "1-0", "1-0", "1-0")
+    refused(cli, event, "unpublish", event, "--reason", "wrong roster",
+            says="round 1 already has results; clear them first (result EVENT BOARD clear --correct;")
+    for board in ("1", "2", "3"):
+        assert cli("result", event, board, "clear", "--correct").code == 0
+    assert cli("unpublish", event, "--reason", "wrong roster").code == 0
+
+
+def test_swapping_two_players_of_one_board_names_them(event: Path, cli) -> None:  # type: ignore[no-untyped-def]
+    from pairings.store import EventStore
+
+    assert cli("pair", event).code == 0
+    with EventStore.open(event) as store:
+        game = store.state.rounds[-1].games[0]
+        a, b = store.state.players[game.first].name, store.state.players[game.second].name
+    refused(cli, event, "swap", event, a, b, "--reason", "x", says=f"{a} and {b} already play each other")

@@ -44,9 +44,14 @@ def test_start_list_before_round_one(event: Path, cli) -> None:  # type: ignore[
 def test_categories_prizes_and_the_prize_list(event: Path, cli) -> None:  # type: ignore[no-untyped-def]
     assert cli("category", "add", event, "Under 1700", "--rating-below", "1700").code == 0
     assert cli("category", "add", event, "Marsh family", "--by-hand").code == 0
-    assert cli("category", "include", event, "marsh family", "Cy").code == 0
+    assert cli("category", "include", event, "marsh family", "Cy").out == "Cy Marsh put in Marsh family by hand\n"
     listed = cli("category", "list", event, "--members").out
-    assert "Under 1700: rated below 1700; 2 players" in listed and "Marsh family: members given by hand; 1 players" in listed
+    assert "Under 1700: rated below 1700; 2 players" in listed and "Marsh family: members given by hand; 1 player\n" in listed
+    assert cli("category", "add", event, "under 1700", "--unrated").out == "category under 1700 redefined\n"
+    log = cli("log", event).out
+    assert "Cy Marsh (p3) put in category 'Marsh family' by hand" in log, log
+    assert "category 'Under 1700' defined: unrated\n" in log, log
+    assert cli("category", "add", event, "Under 1700", "--rating-below", "1700").code == 0
     assert cli("prize", "rules", event, "--currency", "EUR").code == 0
     for args in (("overall", "1", "100"), ("overall", "2", "60"), ("Under 1700", "1", "25.50")):
         assert cli("prize", "add", event, *args).code == 0

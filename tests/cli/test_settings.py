@@ -167,6 +167,10 @@ def test_allowed_after_publication_and_the_standings_say_so(cli, tmp_path: Path)
     assert "Tiebreaks changed after round 1; standings recomputed." in standings
     assert "Tiebreaks changed after round 1" in cli("standings", event, "--format", "html").out
     assert "settings changed after round 1" in cli("log", event).out
+    # The same setting changed again after the same round is said once (three renames printed three lines).
+    for name in ("Heath Open", "Heath Winter Open"):
+        assert cli("settings", event, "--name", name).code == 0
+    assert cli("standings", event).out.count("Name changed after round 1.") == 1
 
 
 def test_requested_bye_limits_are_enforced(cli, tmp_path: Path) -> None:  # type: ignore[no-untyped-def]

@@ -95,3 +95,19 @@ def test_a_name_of_hyphenated_parts_breaks_after_a_hyphen(hostile: EventState, n
         text = out if isinstance(out, str) else "\n".join(p.extract_text() for p in PdfReader(io.BytesIO(out)).pages)
         fragments = re.findall(r"[A-Za-z]*ube[A-Za-z]*|Aub[A-Za-z]*", text)
         assert fragments and set(fragments) == {"Auberon"}, (fmt, sorted(set(fragments)))
+
+
+def test_pdf_column_headings_are_never_broken(state: EventState) -> None:
+    """A heading narrower than its column's share ("Board" in a 5-character number column) stays whole."""
+    from pairings.reports import sheet
+
+    moment = datetime(2026, 3, 1, 10, 0)
+    for kind in ("pairings", "names", "standings", "crosstable", "start-list"):
+        data = render(state, kind, "pdf", now=moment)
+        assert isinstance(data, bytes)
+        lines = {line.strip() for p in PdfReader(io.BytesIO(data)).pages for line in p.extract_text().splitlines()}
+        words = " ".join(lines).split()
+        for table in sheet(state, kind, now=moment).tables:
+            for i in table.printed_columns():
+                for word in table.columns[i].label.split():
+                    assert word in words, (kind, word)

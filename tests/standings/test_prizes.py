@@ -165,3 +165,19 @@ def test_restore_refuses_bad_awards(awards: dict[str, Any], message: str) -> Non
     doc = export_event(event(prizes=[], categories=False)) | {"awards": awards}
     with pytest.raises(InputError, match=message):
         restore_events(doc)
+
+
+def test_a_prize_left_over_says_whether_anyone_was_eligible() -> None:
+    """Women 1st after five overall prizes: the women P3 and P6 (2nd and 5th) hold better overall prizes,
+    so "no eligible player" would mislead; a category nobody is in says it."""
+    overall = [(None, n, 10000 - 1000 * n) for n in range(1, 6)]
+    for ties in (PrizeTies.TIEBREAKS, PrizeTies.SHARED):
+        notes = {(a.category, a.place): a.note for a in prize_list(event(
+            ev.PrizePolicySet(ties=ties), prizes=[*overall, ("Women", 1, 3000)])).awards}
+        assert notes["Women", "1"] == "every eligible player already has a prize (one prize per player)", notes
+    log = [ev.EventCreated(name="Empty", rounds=1), ev.PlayerRegistered(id="P1", name="Ann Bo", rating=1500),
+           ev.PlayerRegistered(id="P2", name="Cy Do", rating=1400), ev.CategoryDefined(name="Guests"),
+           ev.PrizeSet(category="Guests", place=1, amount=500),
+           ev.RoundDrafted(round=1, boards=(ev.BoardModel(board=1, first="P1", second="P2", result="1-0"),)),
+           ev.RoundPublished(round=1)]
+    assert [a.note for a in prize_list(fold(enumerate(log, 1))).awards] == ["no eligible player"]

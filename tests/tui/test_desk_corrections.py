@@ -42,6 +42,15 @@ def test_arbiter_results_by_key_and_the_no_show_question(tmp_path: Path) -> None
                 Result.DOUBLE_FORFEIT, Result.FIRST_HALF_SECOND_LOSES, Result.FIRST_LOSES_SECOND_HALF], notes.messages
             await pilot.press("f3", "n")
             assert isinstance(app.screen, ConfirmDialog)  # board 1's first player
+            # Esc is no answer: nothing recorded, no draft (it used to withdraw the player and draft).
+            head = app.state.head
+            await pilot.press("escape")
+            await settle(app, pilot)
+            assert not isinstance(app.screen, ConfirmDialog) and app.state.head == head, notes.messages
+            assert app.state.players[rnd.games[0].first].withdrawn_from is None and len(app.state.rounds) == 1
+            await pilot.press("n")
+            assert isinstance(app.screen, ConfirmDialog)
+            assert "Esc: cancel" in str(app.screen.query_one("#confirm-keys", Label).content)
             await pilot.press("y")
             assert isinstance(app.screen, ConfirmDialog)  # board 1's second player
             await pilot.press("n")

@@ -234,3 +234,56 @@ def test_80_by_24_names_take_the_free_width_and_the_why_panel_is_one_key_away(tm
             assert state.region.width >= len(str(state.content)), str(state.content)
 
     asyncio.run(run())
+
+
+def test_results_key_line_shows_every_result_key_at_80_and_120_columns(tmp_path: Path) -> None:
+    """The arbiter's results (z, h, j) had no short words, so the line dropped h and j even at 120 columns."""
+    from pairings.tui.base import KeyList
+
+    store = roster_event(tmp_path / "e.pairings")
+
+    async def run(size: tuple[int, int]) -> None:
+        app = DeskApp(store, poll_seconds=3600, start="results")
+        async with app.run_test(size=size) as pilot:
+            await settle(app, pilot)
+            keys = str(app.screen.query_one(KeyLine).query_one(".keys", KeyList).render())
+            for entry in (" f 1-0", " d ½-½", " x --", " z 0-0", " h ½-0", " j 0-½", " f1 Help"):
+                assert entry in keys, (size, keys)
+
+    for size in ((80, 24), (120, 40)):
+        asyncio.run(run(size))
+
+
+def test_print_dialog_shows_every_kind_at_80_columns(tmp_path: Path) -> None:
+    """The kinds were one line, so "prizes" fell off the dialog's edge at 80 columns, even when chosen."""
+    store = roster_event(tmp_path / "e.pairings")
+
+    async def run() -> None:
+        app = DeskApp(store, poll_seconds=3600, start="round")
+        async with app.run_test(size=(80, 24)) as pilot:
+            await pilot.press("f7")
+            await pilot.pause()
+            kind = app.screen.query_one("#field-0", Choice)
+            shown = " ".join(f" {k} " for k in KINDS)
+            assert kind.region.height * kind.region.width >= len(shown) and kind.region.height >= 2, kind.region
+
+    asyncio.run(run())
+
+
+def test_a_long_dialog_intro_wraps_at_80_columns(tmp_path: Path) -> None:
+    """The swap dialog's "Against the optimum: +1 rematch, +1 floater, +1 side preference missed, ..." was cut."""
+    from pairings.tui.dialogs import Field, open_dialog
+
+    store = roster_event(tmp_path / "e.pairings")
+    cost = ("Against the optimum: +1 rematch, +1 floater, +1 side preference missed, +3 steps from rank order, "
+            "+2 score gap")
+
+    async def run() -> None:
+        app = DeskApp(store, poll_seconds=3600, start="round")
+        async with app.run_test(size=(80, 24)) as pilot:
+            open_dialog(app, FormDialog("Override", [Field("reason", "Reason")], intro=["swap A and B", cost]))
+            await pilot.pause()
+            intro = app.screen.query_one("#intro-1", Label)
+            assert intro.region.height >= 2 and intro.region.height * intro.region.width >= len(cost), intro.region
+
+    asyncio.run(run())

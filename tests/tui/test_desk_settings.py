@@ -84,6 +84,11 @@ def test_settings_place_refuses_what_would_change_a_published_round(tmp_path: Pa
             await _set_input(app, pilot, "bye_points", "0.5")
             assert app.state.head == head and "round 1 is published" in notes.last()
             assert store.path.read_bytes() == before
+            # The note says it once ("bye-points not changed: bye-points not changed: ..." before) and whole.
+            note = app.screen.query_one("#settings-note", Label)
+            said = str(note.content)
+            assert said.count("not changed") == 1 and "would change published rounds" in said, said
+            assert note.region.height * (note.region.width - 2) >= len(said), (note.region, said)
             # Allowed after publication: the tiebreaks; the standings note says so.
             await _set_input(app, pilot, "tiebreaks", "SB")
             assert app.state.settings.tiebreaks == ("SB",)

@@ -47,3 +47,24 @@ def test_category_selector_and_prize_list(tmp_path: Path) -> None:
 
     asyncio.run(drive())
     store.close()
+
+
+def test_the_legend_wraps_whole_at_80_columns(tmp_path: Path) -> None:
+    """One line cut it at "WIN = Number" at 80 columns (and before the edition even at 120)."""
+    store = new_event(tmp_path / "e.pairings", players=5)
+    store.apply(actions.pair)
+    store.apply(actions.publish)
+
+    async def drive() -> None:
+        app = DeskApp(store, poll_seconds=3600)
+        async with app.run_test(size=(80, 24)) as pilot:
+            await pilot.press("f5")
+            await settle(app, pilot)
+            legend = app.screen.query_one("#standings-legend")
+            text = str(legend.content)
+            assert "2023 edition as remembered" in text
+            room = legend.region.height * (legend.region.width - 2)
+            assert room >= len(text), (legend.region, len(text))
+            assert app.screen.query_one("#standings", Grid).region.height >= 8
+
+    asyncio.run(drive())
