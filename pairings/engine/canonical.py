@@ -95,6 +95,7 @@ solves differs.
 
 from __future__ import annotations
 
+from bisect import bisect_left
 from typing import Callable, Sequence
 
 import numpy as np
@@ -189,8 +190,9 @@ class _Settler:
         self.edge = np.concatenate([np.arange(len(u)), np.arange(len(u))])[order]
         self.fixed = np.zeros(n, dtype=bool)
         self.label = _labels(n, u, v)
-        self.where = {(a, b): k for k, (a, b) in enumerate(zip(u.tolist(), v.tolist()))}
-        self.near_l, self.edge_l, self.start_l = self.neighbour.tolist(), self.edge.tolist(), self.start.tolist()
+        self.near_l: list[int] = self.neighbour.tolist()
+        self.edge_l: list[int] = self.edge.tolist()
+        self.start_l: list[int] = self.start.tolist()
         self.mirror()
 
     def mirror(self) -> None:
@@ -222,8 +224,8 @@ class _Settler:
         return [(a, int(mate[a])) for a in range(self.n) if a < mate[a]]
 
     def key(self, a: int, b: int) -> int:
-        """The index of the tight edge ``ab``."""
-        return self.where[(a, b) if a < b else (b, a)]
+        """The index of the tight edge ``ab`` (``a``'s neighbours are in rank order)."""
+        return self.edge_l[bisect_left(self.near_l, b, self.start_l[a], self.start_l[a + 1])]
 
     def swap_in(self, x: int, c: int) -> bool:
         """Give ``x`` the partner ``c`` by an alternating cycle that keeps the optimum (Notes); False if none found.
