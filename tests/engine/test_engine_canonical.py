@@ -107,6 +107,40 @@ def test_the_graphs_above_have_ties_and_positive_blossoms() -> None:
     assert ties >= 40 and blossoms >= 10, (ties, blossoms)  # the kernel's duals: 14 of 150 with blossoms
 
 
+@pytest.mark.parametrize("seed", range(150))
+def test_solves_alone_give_the_same_optimum(seed: int, monkeypatch: pytest.MonkeyPatch) -> None:
+    # The first-choice swap (canonical.py Notes) only saves solves: with it switched off every
+    # step is decided by the batch solve, and the answer is still the brute-force one.
+    rng = random.Random(seed)
+    n = rng.choice([2, 4, 6, 8, 10])
+    edges = random_graph(rng, n)
+    monkeypatch.setattr(canonical._Settler, "swap_in", lambda self, x, c: False)
+    assert canonical_of(n, edges) == brute_canonical(n, edges)
+
+
+def test_an_alternating_cycle_settles_the_first_choice_without_a_solve(monkeypatch: pytest.MonkeyPatch) -> None:
+    # Two 4-cycles of equal weights (no blossom), each matched the other way round: player 0's
+    # first choice 1 and player 4's first choice 5 come by swapping a cycle, never by a solve.
+    def no_solve(self: object, x: int) -> None:
+        raise AssertionError(f"solved for player {x}")
+    monkeypatch.setattr(canonical._Settler, "solve_batch", no_solve)
+    u = np.array([0, 1, 2, 0, 4, 5, 6, 4], dtype=np.int64)
+    v = np.array([1, 2, 3, 3, 5, 6, 7, 7], dtype=np.int64)
+    got = canonical.canonical(8, u, v, np.zeros(8, dtype=np.int64), [(0, 3), (1, 2), (4, 7), (5, 6)])
+    assert got == [(0, 1), (2, 3), (4, 5), (6, 7)]
+
+
+def test_a_cycle_that_would_empty_a_blossom_is_not_swapped() -> None:
+    # Blossom {1, 2, 3} (d = 1 on its edges, so an optimum holds one pair inside it) and 4 tied to 3.
+    # The alternating cycle 0-1=2-6=7-5=0 would give 0 its first choice 1 but leave the blossom
+    # without a pair (balance -1): no optimum pairs 0 with 1, so 0 keeps 5.
+    u = np.array([0, 0, 1, 1, 2, 2, 3, 5, 6], dtype=np.int64)
+    v = np.array([1, 5, 2, 3, 3, 6, 4, 7, 7], dtype=np.int64)
+    depth = np.array([0, 0, 1, 1, 1, 0, 0, 0, 0], dtype=np.int64)
+    got = canonical.canonical(8, u, v, depth, [(0, 5), (1, 2), (3, 4), (6, 7)])
+    assert got == [(0, 5), (1, 2), (3, 4), (6, 7)]
+
+
 def _key(fld: Field, players: Sequence[PlayerId], pairs: Sequence[tuple[int, int]]) -> tuple[object, ...]:
     """A pairing's cost key as Draft.key (rules.md: criteria in order, S2 as the sorted gap list)."""
     n = len(players)
