@@ -1,0 +1,99 @@
+"""Random small Dutch-system events, played round by round along the product's drafts.
+
+Each event (seeded): 4-14 players (ratings with ties, a few unrated and titled,
+late entries), every round to the last, with draws, forfeits (``+-``, ``-+``,
+``--``), requested byes, absences and withdrawals. Before each round the
+``compare`` callback gets the folded state; the event continues with the
+product's draft (its public entry point ``draft_round``).
+"""
+
+from __future__ import annotations
+
+import random
+from dataclasses import dataclass
+from typing import Callable
+
+from pairings import events as ev
+from pairings.engine import Draft, draft_round
+from pairings.errors import NoPairingError
+from pairings.fold import fold
+from pairings.state import ByeKind, EventState, Result, System
+
+_SYLLABLES = ("ka", "ro", "mel", "tin", "sa", "bor", "li", "vek", "du", "nar", "ose", "pim")
+_TITLES = ("GM", "IM", "FM", "WGM", "CM", "WIM")
+
+
+@dataclass
+class RoundCheck:
+    seed: int
+    round: int
+    state: EventState
+    draft: Draft | None
+    """None when the product refused to pair."""
+
+
+def _name(rng: random.Random, i: int) -> str:
+    return "".join(rng.choice(_SYLLABLES) for _ in range(3)).capitalize() + f" {chr(65 + i % 26)}"
+
+
+def _result(rng: random.Random) -> Result:
+    u = rng.random()
+    if u < 0.06:
+        return rng.choice((Result.FIRST_WINS_BY_FORFEIT, Result.SECOND_WINS_BY_FORFEIT, Result.DOUBLE_FORFEIT))
+    if u < 0.36:
+        return Result.DRAW
+    return Result.FIRST_WINS if u < 0.68 else Result.SECOND_WINS
+
+
+def play_event(seed: int, check: Callable[[RoundCheck], None]) -> int:
+    """Play event ``seed`` to its last round (or until the product refuses a round); returns rounds checked."""
+    rng = random.Random(seed)
+    n = rng.randint(4, 14)
+    rounds = rng.randint(3, max(3, min(n - 1, 8)))
+    log: list[ev.Event] = [ev.EventCreated(name=f"Reference check {seed}", rounds=rounds,
+                                           system=System.DUTCH, seed=seed)]
+    for i in range(n):
+        rating = None if rng.random() < 0.08 else rng.choice((1500, 1600, 1700)) if rng.random() < 0.2 \
+            else rng.randint(1200, 2400)
+        title = rng.choice(_TITLES) if rng.random() < 0.1 else None
+        late = rng.random() < 0.1
+        log.append(ev.PlayerRegistered(
+            id=f"p{i + 1}", name=_name(rng, i), rating=rating,
+            entry_round=rng.randint(2, min(3, rounds)) if late else 1,
+            details=ev.PlayerDetailsModel(title=title) if title else None,
+        ))
+    withdrawn: set[str] = set()
+    checked = 0
+    for rnd in range(1, rounds + 1):
+        for i in range(n):
+            pid = f"p{i + 1}"
+            if pid in withdrawn:
+                continue
+            if rnd > 1 and rng.random() < 0.03:
+                withdrawn.add(pid)
+                log.append(ev.PlayerWithdrawn(player=pid, from_round=rnd))
+            elif rng.random() < 0.05:
+                kind = ByeKind.ABSENCE if rng.random() < 0.3 else ByeKind.REQUESTED
+                log.append(ev.ByeRequested(player=pid, round=rnd, kind=kind))  # type: ignore[arg-type]
+        state = fold(enumerate(log, 1))
+        if len(state.available(rnd)) < 2:
+            return checked
+        try:
+            draft: Draft | None = draft_round(state)
+        except NoPairingError:
+            draft = None
+        check(RoundCheck(seed, rnd, state, draft))
+        checked += 1
+        if draft is None:
+            return checked
+        log.append(ev.RoundDrafted(
+            round=rnd,
+            boards=tuple(ev.BoardModel(board=b.board, first=b.first, second=b.second, cost={})
+                         for b in draft.boards),
+            byes=tuple(ev.ByeModel(player=b.player, kind=b.kind, points=b.points) for b in draft.byes),
+            engine_version=draft.engine_version, source="engine",
+        ))
+        log.append(ev.RoundPublished(round=rnd))
+        for b in draft.boards:
+            log.append(ev.ResultRecorded(round=rnd, board=b.board, result=_result(rng)))
+    return checked

@@ -1,0 +1,127 @@
+"""One round: brackets from the top, the PPB/CLB route, the PAB, colours and board order.
+
+C.04.3 as the spec states it (2017 A.9 mechanics, from memory): brackets are
+paired from the highest score group down; each bracket's floaters join the
+next one as MDPs. When the floaters of the bracket just paired, with all the
+players below, cannot complete the round, that bracket is the penultimate
+pairing bracket (PPB): every player below collapses into one last bracket
+(CLB) and the PPB is paired again choosing its floaters so that the CLB can be
+completed (C.4). Our reading where the spec is silent: if even that fails,
+the PPB joins the CLB and the bracket above becomes the PPB, up to the whole
+field as one bracket. A last bracket whose MDPs could only be paired with
+each other is paired as one group (the product's documented decision).
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+from functools import lru_cache
+
+from pairings.state import EventState, PlayerId
+from tests.dutch_reference.bracket import Bracket, Outcome
+from tests.dutch_reference.colours import allocate
+from tests.dutch_reference.facts import Facts, read_facts
+
+
+@dataclass(frozen=True)
+class ReferenceRound:
+    boards: tuple[tuple[PlayerId, PlayerId], ...]
+    """(white, black) in board order."""
+    pab: PlayerId | None
+
+
+class Unpairable(Exception):
+    """No pairing of the round keeps the absolute criteria."""
+
+
+def _completer(facts: Facts) -> "lru_cache[bool]":  # type: ignore[type-arg]
+    """Can these players all be paired (C.1, C.3), leaving at most one, PAB-eligible (C.2)?"""
+
+    @lru_cache(maxsize=None)
+    def complete(players: frozenset[PlayerId]) -> bool:
+        if len(players) <= 1:
+            return all(facts.entrants[p].pab_ok for p in players)
+        first = min(players, key=facts.rank)
+        rest = players - {first}
+        if len(players) % 2 and facts.entrants[first].pab_ok and _even_complete(rest):
+            return True
+        return any(facts.compatible(first, x) and complete(rest - {x}) for x in rest)
+
+    @lru_cache(maxsize=None)
+    def _even_complete(players: frozenset[PlayerId]) -> bool:
+        if not players:
+            return True
+        first = min(players, key=facts.rank)
+        rest = players - {first}
+        return any(facts.compatible(first, x) and _even_complete(rest - {x}) for x in rest)
+
+    return complete  # type: ignore[return-value]
+
+
+def _last(facts: Facts, mdps: list[PlayerId], residents: list[PlayerId]) -> Outcome | None:
+    out = Bracket(facts, mdps, residents, "last").solve()
+    if out is None and mdps:
+        out = Bracket(facts, [], mdps + residents, "last").solve()
+    return out
+
+
+def pair_brackets(facts: Facts) -> list[Outcome]:
+    """The outcome of every bracket, top down (the last one's leftover is the PAB)."""
+    ents = facts.entrants
+    scores = sorted({e.score for e in ents.values()}, reverse=True)
+    groups = [sorted((p for p in ents if ents[p].score == s), key=facts.rank) for s in scores]
+    complete = _completer(facts)
+    if not complete(frozenset(ents)):
+        raise Unpairable("no pairing keeps C.1-C.3")
+    results: list[Outcome] = []
+    mdps: list[PlayerId] = []
+    k = 0
+    while True:
+        below = [p for g in groups[k + 1:] for p in g]
+        if k == len(groups) - 1:
+            out = _last(facts, mdps, groups[k])
+            if out is not None:
+                return results + [out]
+            j = k - 1
+            break
+        out = Bracket(facts, mdps, groups[k], "normal", next_residents=groups[k + 1]).solve()
+        assert out is not None  # everyone may float from a bracket that is not the last
+        if complete(frozenset(out.floaters) | frozenset(below)):
+            results.append(out)
+            mdps = list(out.floaters)
+            k += 1
+            continue
+        j = k
+        break
+    while j >= 0:
+        rest = [p for g in groups[j + 1:] for p in g]
+        incoming = list(results[j - 1].floaters) if j > 0 else []
+        ppb = Bracket(facts, incoming, groups[j], "ppb",
+                      complete=lambda f, rest=frozenset(rest): complete(f | rest)).solve()  # type: ignore[misc]
+        if ppb is not None:
+            clb = _last(facts, list(ppb.floaters), rest)
+            if clb is not None:
+                return results[:j] + [ppb, clb]
+        j -= 1
+    whole = Bracket(facts, [], sorted(ents, key=facts.rank), "last").solve()
+    if whole is None:
+        raise Unpairable("no pairing keeps C.1-C.3")
+    return [whole]
+
+
+def reference_round(state: EventState) -> ReferenceRound:
+    """The reference's pairing of round ``state.next_round_number`` by the Dutch rules."""
+    facts = read_facts(state)
+    if len(facts.entrants) < 2:
+        raise Unpairable("fewer than two players")
+    outcomes = pair_brackets(facts)
+    pairs = [pair for o in outcomes for pair in o.pairs]
+    leftover = outcomes[-1].floaters
+    s = facts.entrants
+
+    def board_key(pair: tuple[PlayerId, PlayerId]) -> tuple[float, float, tuple[float, int]]:
+        a, b = pair
+        return (-max(s[a].score, s[b].score), -(s[a].score + s[b].score), min(facts.rank(a), facts.rank(b)))
+
+    boards = tuple(allocate(facts, a, b) for a, b in sorted(pairs, key=board_key))
+    return ReferenceRound(boards, leftover[0] if leftover else None)
