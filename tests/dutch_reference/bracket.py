@@ -42,17 +42,21 @@ class Outcome:
 class Bracket:
     """A bracket to pair: its MDPs, its residents and how its choice is judged.
 
-    ``mode`` is ``"normal"`` (C.7 looks at ``next_residents``), ``"ppb"``
-    (C.4: ``complete`` must accept the floaters) or ``"last"`` (at most the
-    parity left over, and that one PAB-eligible, C.2).
+    ``last``: the last bracket (at most the parity left over, and that one
+    PAB-eligible, C.2). ``complete``: C.4, the floaters must let the rest be
+    completed (the PPB). ``next_residents``: C.7 looks at the next bracket,
+    judged as the last one if ``next_is_last``, and under ``next_complete``
+    if given.
     """
 
     facts: Facts
     mdps: Sequence[PlayerId]
     residents: Sequence[PlayerId]
-    mode: str
-    next_residents: Sequence[PlayerId] | None = None
+    last: bool = False
     complete: Callable[[frozenset[PlayerId]], bool] | None = None
+    next_residents: Sequence[PlayerId] | None = None
+    next_is_last: bool = False
+    next_complete: Callable[[frozenset[PlayerId]], bool] | None = None
 
     def __post_init__(self) -> None:
         ordered = sorted([*self.mdps, *self.residents], key=self.facts.rank)
@@ -70,10 +74,9 @@ class Bracket:
         return self.facts.compatible(a, b)
 
     def mode_ok(self, floaters: Sequence[PlayerId]) -> bool:
-        if self.mode == "last":
+        if self.last:
             return len(floaters) <= 1 and all(self.facts.entrants[f].pab_ok for f in floaters)
-        if self.mode == "ppb":
-            assert self.complete is not None
+        if self.complete is not None:
             return self.complete(frozenset(floaters))
         return True
 
@@ -96,7 +99,7 @@ class Bracket:
     def outcomes(self) -> list[Outcome]:
         """The legal outcomes with the most pairs (C.5) and, among them, the most MDPs paired (M1)."""
         n = len(self.players)
-        counts = [n % 2] if self.mode == "last" else range(n % 2, n + 1, 2)
+        counts = [n % 2] if self.last else range(n % 2, n + 1, 2)
         for u in counts:
             found = [Outcome(tuple(p), tuple(f)) for p, f in self._matchings(list(self.players), u)
                      if self.mode_ok(f)]
@@ -120,12 +123,18 @@ class Bracket:
 
     def next_bracket(self, floaters: frozenset[PlayerId]) -> tuple[object, ...]:
         """C.7: (players left unpaired, PSD) of the next bracket at its best, given these floaters."""
-        if self.mode != "normal" or self.next_residents is None:
+        if self.next_residents is None:
             return ()
         if floaters not in self._next:
-            nxt = Bracket(self.facts, sorted(floaters, key=self.facts.rank), self.next_residents, "plain")
+            # the next bracket keeps the absolute criteria: C.2 too when it is the last one
+            mdps = sorted(floaters, key=self.facts.rank)
+            nxt = Bracket(self.facts, mdps, self.next_residents, self.next_is_last, self.next_complete)
             found = nxt.outcomes()
-            self._next[floaters] = min((len(o.floaters), nxt.psd(o)) for o in found)
+            if not found and mdps and self.next_is_last:  # paired as one group, as the last bracket would be
+                nxt = Bracket(self.facts, [], [*mdps, *self.next_residents], True)
+                found = nxt.outcomes()
+            worst = (len(nxt.players) + 1, ())
+            self._next[floaters] = min(((len(o.floaters), nxt.psd(o)) for o in found), default=worst)
         return self._next[floaters]
 
     def measure(self, o: Outcome) -> tuple[object, ...]:
@@ -195,7 +204,7 @@ class Bracket:
             return None
         n = len(self.players)
         u = n % 2
-        if u and self.mode == "normal":
+        if u and self.next_residents is not None:
             return None  # C.7 depends on who floats
         ideal = (u, (self.facts.win,) * u + (0.0,) * ((n - u) // 2),
                  self.next_bracket(frozenset()) if u == 0 else (), 0, 0, 0, 0, 0, 0, 0, 0, (), (), (), ())

@@ -16,11 +16,16 @@ from __future__ import annotations
 
 from dataclasses import dataclass
 from functools import lru_cache
+from typing import Callable
 
 from pairings.state import EventState, PlayerId
 from tests.dutch_reference.bracket import Bracket, Outcome
 from tests.dutch_reference.colours import allocate
 from tests.dutch_reference.facts import Facts, read_facts
+
+
+HANDBOOK, EVERYWHERE = "handbook", "everywhere"
+"""The completion routes of :func:`pair_brackets`."""
 
 
 @dataclass(frozen=True)
@@ -59,34 +64,50 @@ def _completer(facts: Facts) -> "lru_cache[bool]":  # type: ignore[type-arg]
 
 
 def _last(facts: Facts, mdps: list[PlayerId], residents: list[PlayerId]) -> Outcome | None:
-    out = Bracket(facts, mdps, residents, "last").solve()
+    out = Bracket(facts, mdps, residents, last=True).solve()
     if out is None and mdps:
-        out = Bracket(facts, [], mdps + residents, "last").solve()
+        out = Bracket(facts, [], mdps + residents, last=True).solve()
     return out
 
 
-def pair_brackets(facts: Facts) -> list[Outcome]:
-    """The outcome of every bracket, top down (the last one's leftover is the PAB)."""
+def pair_brackets(facts: Facts, route: str = HANDBOOK) -> list[Outcome]:
+    """The outcome of every bracket, top down (the last one's leftover is the PAB).
+
+    ``route`` is :data:`HANDBOOK` (the PPB/CLB route) or :data:`EVERYWHERE`, a
+    variant used only to sort disagreements into classes: every bracket keeps
+    the rest pairable (C.4 everywhere, C.7's look at the next bracket too) and
+    nothing collapses.
+    """
     ents = facts.entrants
     scores = sorted({e.score for e in ents.values()}, reverse=True)
     groups = [sorted((p for p in ents if ents[p].score == s), key=facts.rank) for s in scores]
     complete = _completer(facts)
     if not complete(frozenset(ents)):
         raise Unpairable("no pairing keeps C.1-C.3")
+
+    def rest_of(k: int) -> frozenset[PlayerId]:
+        return frozenset(p for g in groups[k + 1:] for p in g)
+
+    def keeps(k: int) -> Callable[[frozenset[PlayerId]], bool]:
+        return lambda f: complete(f | rest_of(k))
+
     results: list[Outcome] = []
     mdps: list[PlayerId] = []
     k = 0
     while True:
-        below = [p for g in groups[k + 1:] for p in g]
         if k == len(groups) - 1:
             out = _last(facts, mdps, groups[k])
             if out is not None:
                 return results + [out]
             j = k - 1
             break
-        out = Bracket(facts, mdps, groups[k], "normal", next_residents=groups[k + 1]).solve()
+        everywhere = route == EVERYWHERE
+        nxt_last = k + 1 == len(groups) - 1
+        out = Bracket(facts, mdps, groups[k], complete=keeps(k) if everywhere else None,
+                      next_residents=groups[k + 1], next_is_last=nxt_last,
+                      next_complete=keeps(k + 1) if everywhere and not nxt_last else None).solve()
         assert out is not None  # everyone may float from a bracket that is not the last
-        if complete(frozenset(out.floaters) | frozenset(below)):
+        if complete(frozenset(out.floaters) | rest_of(k)):
             results.append(out)
             mdps = list(out.floaters)
             k += 1
@@ -96,25 +117,24 @@ def pair_brackets(facts: Facts) -> list[Outcome]:
     while j >= 0:
         rest = [p for g in groups[j + 1:] for p in g]
         incoming = list(results[j - 1].floaters) if j > 0 else []
-        ppb = Bracket(facts, incoming, groups[j], "ppb",
-                      complete=lambda f, rest=frozenset(rest): complete(f | rest)).solve()  # type: ignore[misc]
+        ppb = Bracket(facts, incoming, groups[j], complete=keeps(j)).solve()
         if ppb is not None:
             clb = _last(facts, list(ppb.floaters), rest)
             if clb is not None:
                 return results[:j] + [ppb, clb]
         j -= 1
-    whole = Bracket(facts, [], sorted(ents, key=facts.rank), "last").solve()
+    whole = Bracket(facts, [], sorted(ents, key=facts.rank), last=True).solve()
     if whole is None:
         raise Unpairable("no pairing keeps C.1-C.3")
     return [whole]
 
 
-def reference_round(state: EventState) -> ReferenceRound:
+def reference_round(state: EventState, route: str = HANDBOOK) -> ReferenceRound:
     """The reference's pairing of round ``state.next_round_number`` by the Dutch rules."""
     facts = read_facts(state)
     if len(facts.entrants) < 2:
         raise Unpairable("fewer than two players")
-    outcomes = pair_brackets(facts)
+    outcomes = pair_brackets(facts, route)
     pairs = [pair for o in outcomes for pair in o.pairs]
     leftover = outcomes[-1].floaters
     s = facts.entrants
