@@ -97,3 +97,22 @@ def play_event(seed: int, check: Callable[[RoundCheck], None]) -> int:
         for b in draft.boards:
             log.append(ev.ResultRecorded(round=rnd, board=b.board, result=_result(rng)))
     return checked
+
+
+def hand_event(rounds: int, n: int, history: list[list[tuple[int, int, str]]], seed: int = 0,
+               pab: dict[int, int] | None = None) -> EventState:
+    """A hand-written Dutch event: players p1..pn numbered by rating (p1 highest), then
+    ``history[r]`` = round r+1's boards as (white, black, result code), ``pab`` round -> player."""
+    log: list[ev.Event] = [ev.EventCreated(name="Hand case", rounds=rounds, system=System.DUTCH, seed=seed)]
+    for i in range(1, n + 1):
+        log.append(ev.PlayerRegistered(id=f"p{i}", name=f"Player {i:02d}", rating=2500 - 10 * i))
+    for r, boards in enumerate(history, 1):
+        byes = (ev.ByeModel(player=f"p{pab[r]}", kind=ByeKind.PAIRING, points=1.0),) if pab and r in pab else ()
+        log.append(ev.RoundDrafted(
+            round=r, boards=tuple(ev.BoardModel(board=b, first=f"p{w}", second=f"p{k}", cost={})
+                                  for b, (w, k, _) in enumerate(boards, 1)),
+            byes=byes, engine_version="hand", source="engine"))
+        log.append(ev.RoundPublished(round=r))
+        for b, (_, _, res) in enumerate(boards, 1):
+            log.append(ev.ResultRecorded(round=r, board=b, result=Result.parse(res)))
+    return fold(enumerate(log, 1))
