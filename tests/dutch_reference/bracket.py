@@ -176,12 +176,16 @@ class Bracket:
         def repeated(floats: list[tuple[PlayerId, float]], attr: str, kind: str) -> list[float]:
             return sorted((sd for p, sd in floats if getattr(s[p], attr) == kind), reverse=True)
 
+        # C.16 / C.18 (the spec: "the SDs of MDPs who repeat the downfloat"): every MDP of the
+        # bracket, paired (his pair's SD) or floating on (his floater SD)
+        mdp_sd = [(p, self.floater_sd(p)) for p in o.floaters if p in self.mdp_set]
+        mdp_sd += [(p, abs(s[a].score - s[b].score)) for a, b in o.pairs for p in (a, b) if p in self.mdp_set]
         d1, u1 = repeated(down, "float1", "D"), repeated(up, "float1", "U")
         d2, u2 = repeated(down, "float2", "D"), repeated(up, "float2", "U")
         return (
             len(o.floaters), self.psd(o), self.next_bracket(frozenset(o.floaters)),
             c8, c9, c10, c11, len(d1), len(u1), len(d2), len(u2),
-            tuple(d1), tuple(u1), tuple(d2), tuple(u2),
+            tuple(repeated(mdp_sd, "float1", "D")), tuple(u1), tuple(repeated(mdp_sd, "float2", "D")), tuple(u2),
         )
 
     # --- the Handbook's order -------------------------------------------------

@@ -2,7 +2,9 @@
 
 Each event (seeded): 4-14 players (ratings with ties, a few unrated and titled,
 late entries), every round to the last, with draws, forfeits (``+-``, ``-+``,
-``--``), requested byes, absences and withdrawals. Before each round the
+``--``), requested byes, absences and withdrawals; one in ten events scores
+3-1-0, one in seven does not count a forfeited pairing as a meeting, one in ten
+gives a win's points for a requested bye. Before each round the
 ``compare`` callback gets the folded state; the event continues with the
 product's draft (its public entry point ``draft_round``).
 """
@@ -50,8 +52,13 @@ def play_event(seed: int, check: Callable[[RoundCheck], None]) -> int:
     rng = random.Random(seed)
     n = rng.randint(4, 14)
     rounds = rng.randint(3, max(3, min(n - 1, 8)))
-    log: list[ev.Event] = [ev.EventCreated(name=f"Reference check {seed}", rounds=rounds,
-                                           system=System.DUTCH, seed=seed)]
+    # now and then: 3-1-0 scoring, forfeits that are no meeting, full-point requested byes
+    scoring = ev.ScoringModel(win=3.0, draw=1.0, loss=0.0) if rng.random() < 0.1 else ev.ScoringModel()
+    forfeit_is_meeting = rng.random() >= 0.15
+    requested = scoring.win if rng.random() < 0.1 else scoring.draw
+    log: list[ev.Event] = [ev.EventCreated(
+        name=f"Reference check {seed}", rounds=rounds, system=System.DUTCH, seed=seed, scoring=scoring,
+        bye_points=scoring.win, requested_bye_points=requested, forfeit_is_meeting=forfeit_is_meeting)]
     for i in range(n):
         rating = None if rng.random() < 0.08 else rng.choice((1500, 1600, 1700)) if rng.random() < 0.2 \
             else rng.randint(1200, 2400)
