@@ -14,7 +14,9 @@ or ``implicit``: whether the pruned edges were held in arrays or walked by
 the compiled scan;
 ``fallback``: the compiled solver on every pruned edge), and asserts that the
 two cost vectors are equal. ``--fold N`` also times folding a whole
-``--rounds``-round log of ``N`` players (:func:`pairings.fold.fold`).
+``--rounds``-round log of ``N`` players (:func:`pairings.fold.fold`). ``--dutch
+1000,10000`` also drafts the same states by the FIDE (Dutch) System and prints
+its time against the whole-round system's in the same run.
 """
 
 from __future__ import annotations

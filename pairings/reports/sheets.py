@@ -13,7 +13,7 @@ from typing import Callable, Literal
 from pairings.errors import InputError
 from pairings.reports.clean import stamp
 from pairings.standings import TIEBREAKS, UNPLAYED_LABELS, Standings, standings
-from pairings.state import ByeKind, EventState, PlayerId, Round, RoundEntry, RoundState, Side
+from pairings.state import Acceleration, ByeKind, EventState, PlayerId, Round, RoundEntry, RoundState, Side, System
 
 Cell = str | int | float | None
 ColumnKind = Literal["text", "name", "points", "number", "rank", "result", "id"]
@@ -112,7 +112,19 @@ def pairing_sheet(state: EventState, round_number: int | None, now: datetime) ->
     )
     tables = (Table("Boards", columns, rows),) + ((_byes_table(state, rnd),) if rnd.byes else ())
     return _sheet(state, "pairings", "Pairings", rnd.number, f"Round {rnd.number}", now,
-                  _round_notes(rnd), tables)
+                  _round_notes(rnd) + _system_notes(state), tables)
+
+
+def _system_notes(state: EventState) -> tuple[str, ...]:
+    """The pairing system and acceleration a pairing sheet was made under, when they need saying."""
+    out = []
+    if state.settings.system is System.DUTCH:
+        out.append("Paired by the FIDE (Dutch) System, Handbook C.04.3, as implemented by this program; "
+                   "the implementation is not endorsed by FIDE.")
+    if state.settings.acceleration is Acceleration.BAKU:
+        out.append("Baku acceleration (C.04.5.1): virtual points decide the pairing only; scores shown are "
+                   "real points.")
+    return tuple(out)
 
 
 def name_sheet(state: EventState, round_number: int | None, now: datetime) -> Sheet:

@@ -47,9 +47,10 @@ Method (ours; the criteria are C.04.3's):
 from __future__ import annotations
 
 from collections import Counter
-from typing import Callable, Iterable, Sequence
+from typing import Any, Callable, Iterable, Sequence
 
 import numpy as np
+from numpy.typing import NDArray
 
 from pairings.engine import blossom
 from pairings.engine.certificate import reduced_costs
@@ -222,7 +223,6 @@ class _Graph:
             n *= 2
         self.n = n
         self.edges = edges
-        self.alive = set(range(n))
         self.mate: dict[int, int] = {}
 
     def optimise(self) -> bool:
@@ -244,55 +244,49 @@ class _Graph:
                 inside[list(group)] = True
                 crossings += inside[u] != inside[v]
         # An optimal matching uses tight edges only: the others can go.
-        self.edges = [(a, b, c, pair, int(x)) for (a, b, c, pair, _), x, t
-                      in zip(self.edges, crossings.tolist(), tight.tolist()) if t]
+        kept = [(a, b, pair, x) for (a, b, _, pair, _), x, t in zip(self.edges, crossings.tolist(), tight.tolist()) if t]
+        self.eu = np.array([e[0] for e in kept], dtype=np.int64)
+        self.ev = np.array([e[1] for e in kept], dtype=np.int64)
+        self.pen = np.array([e[3] for e in kept], dtype=np.int64)
+        self.pu = np.array([self.index[e[2][0]] if e[2] else -1 for e in kept], dtype=np.int64)
+        self.pv = np.array([self.index[e[2][1]] if e[2] else -1 for e in kept], dtype=np.int64)
+        self.cu = self.eu % self.real if self.copies == 2 else self.eu
+        self.cv = self.ev % self.real if self.copies == 2 else self.ev
+        self.keep = np.ones(len(kept), dtype=bool)
+        self.live = np.ones(self.n, dtype=bool)
         return True
 
     def _read(self, pairs: Iterable[tuple[int, int]]) -> None:
         for a, b in pairs:
             self.mate[a], self.mate[b] = b, a
 
-    def tiebreak(self, digits: Callable[[Pair], int], limit: int, only: Iterable[PlayerId] | None = None) -> None:
-        """Among the quality-optimal matchings left, one with the least ``digits`` summed over its pairs.
+    def tiebreak(self, digits: NDArray[Any], limit: int) -> None:
+        """Among the quality-optimal matchings left, one with the least ``digits`` (one value per edge).
 
         ``limit`` exceeds the digits' sum over any matching, so one more
-        penalty always outweighs them; ``only``: the players whose pairs can
-        carry digits (the others' pairs carry none).
+        penalty always outweighs them.
         """
-        alive = self.alive
-        order = sorted(alive)
-        local = {x: i for i, x in enumerate(order)}
-        near = None if only is None else {self.index[p] for p in only}
-        costs: list[tuple[int, int, int]] = []
-        for a, b, _, pair, pen in self.edges:
-            if a in alive and b in alive:
-                extra = 0
-                if pair is not None and (near is None or a % self.base in near or b % self.base in near):
-                    extra = digits(pair)
-                costs.append((local[a], local[b], pen * limit + extra))
-        ceiling = max((c for _, _, c in costs), default=0) + 1
-        found = blossom.perfect_matching(len(order), [(a, b, ceiling - c) for a, b, c in costs])
+        use = self.keep & self.live[self.eu] & self.live[self.ev]
+        local = np.cumsum(self.live) - 1
+        cost = self.pen[use].astype(object) * limit + np.asarray(digits, dtype=object)[use]
+        ceiling = (max(cost.tolist()) if len(cost) else 0) + 1
+        found = blossom.perfect_matching_arrays(int(self.live.sum()), local[self.eu[use]], local[self.ev[use]],
+                                                ceiling - cost)
         assert found is not None, "a quality-optimal matching survives every restriction"
-        self._read((order[a], order[b]) for a, b in found[0])
+        order = np.flatnonzero(self.live)
+        self._read((int(order[a]), int(order[b])) for a, b in found[0])
 
-    def drop(self, test: Callable[[int, Pair | None], bool]) -> None:
-        """Remove every edge at a vertex ``u`` for which ``test(u, pair)`` holds (both copies)."""
-        def bad(a: int, b: int, pair: Pair | None) -> bool:
-            return test(a % self.base, pair) or test(b % self.base, pair)
-
-        self.edges = [e for e in self.edges if not bad(e[0], e[1], e[3])]
-
-    @property
-    def base(self) -> int:
-        return self.real if self.copies == 2 else self.n + 1
+    def drop(self, bad: NDArray[np.bool_]) -> None:
+        """Remove the edges ``bad`` marks (the current matching uses none of them)."""
+        self.keep &= ~bad
 
     def remove(self, players: Iterable[PlayerId]) -> None:
         """Take the players (a decided pair) out of every copy."""
         for p in players:
             i = self.index[p]
-            self.alive.discard(i)
+            self.live[i] = False
             if self.copies == 2:
-                self.alive.discard(i + self.real)
+                self.live[i + self.real] = False
 
     def partner(self, p: PlayerId) -> PlayerId | None:
         """``p``'s partner inside the bracket in the current matching (None: floats)."""
@@ -301,23 +295,40 @@ class _Graph:
 
     def beyond(self) -> list[PlayerId]:
         """Players the current matching leaves unpaired in the graph (fast form: floating below it)."""
-        return [p for i, p in enumerate(self.vertices) if i in self.alive and self.mate[i] >= self.real]
+        return [p for i, p in enumerate(self.vertices) if self.live[i] and self.mate[i] >= self.real]
 
 
 class BracketSolver:
     """Pairs one bracket: :meth:`run` returns its pairs and its floaters (C.04.3 via matching)."""
 
-    def __init__(self, ent: Entrants, br: Bracket, cache: dict[frozenset[PlayerId], Costs]) -> None:
+    def __init__(self, ent: Entrants, br: Bracket, cache: dict[object, Costs]) -> None:
         self.ent, self.br, self.cache = ent, br, cache
         self.members = set(br.members)
         self.next = set(br.next)
         self.memo: dict[tuple[object, ...], Costs] = {}
 
     def pair_cost(self, u: PlayerId, v: PlayerId) -> Costs:
-        key = frozenset((u, v))
+        """The pair's costs, shared by every pair of the same two player profiles.
+
+        Outside topscorers' pairs the costs depend only on the two scores,
+        colour preferences (side and strength) and float histories: when both
+        want one colour exactly one misses it, the weaker (rule 2) or one of
+        equal strength, so who gets it changes no count.
+        """
+        ent = self.ent
+        if u in ent.topscorers or v in ent.topscorers:
+            key: object = frozenset((u, v))
+        else:
+            hi, lo = (u, v) if ent.score[u] >= ent.score[v] else (v, u)
+            a, b = self.profile(hi), self.profile(lo)
+            key = (a, b) if ent.score[hi] != ent.score[lo] else frozenset((a, b))
         if key not in self.cache:
-            self.cache[key] = pair_costs(self.ent, self.br, u, v)[0]
+            self.cache[key] = pair_costs(ent, self.br, u, v)[0]
         return self.cache[key]
+
+    def profile(self, p: PlayerId) -> tuple[object, ...]:
+        pref = self.ent.pref[p]
+        return (self.ent.score[p], pref.side, pref.strength, self.ent.floats[p])
 
     def shared(self, key: tuple[object, ...], make: Callable[[], Costs]) -> Costs:
         """One cost object per key (edges share them; :func:`encode` packs each once). Never mutated."""
@@ -426,117 +437,136 @@ class BracketSolver:
         """Fix the bracket's pairs in the Handbook's generation order (MDP part first, then the remainder)."""
         br = self.br
         fixed: list[Pair] = []
+        is_pair = g.pu >= 0
+        pu, pv = np.maximum(g.pu, 0), np.maximum(g.pv, 0)
         if br.heterogeneous:
             mdps = [p for p in br.members if p in br.mdps]
             residents = [p for p in br.members if p not in br.mdps]
             made = sum(1 for m in mdps if g.partner(m) is not None)
-            fixed += self._choose(g, mdps, residents, made, lambda a, b: a if a in br.mdps else b,
-                                  lambda a, b: (a in br.mdps) != (b in br.mdps))
-            limbo = {g.index[m] for m in mdps if all(m not in pair for pair in fixed)}
-            g.drop(lambda u, pair: pair is not None and u in limbo)
+            mdp = np.zeros(g.n, dtype=bool)
+            mdp[[g.index[m] for m in mdps]] = True
+            relevant = is_pair & (mdp[pu] != mdp[pv])
+            fixed += self._choose(g, mdps, residents, made, relevant, np.where(mdp[pu], pu, pv),
+                                  np.where(mdp[pu], pv, pu), lambda p, q: q not in br.mdps)
+            limbo = np.zeros(g.n, dtype=bool)
+            limbo[[g.index[m] for m in mdps if all(m not in pair for pair in fixed)]] = True
+            g.drop(is_pair & (limbo[pu] | limbo[pv]))
         rest = [p for p in br.members if all(p not in pair for pair in fixed)
                 and not (br.heterogeneous and p in br.mdps)]
         inside = set(rest)
         made = sum(1 for p in rest if (q := g.partner(p)) is not None and q in inside) // 2
-        rank = {p: i for i, p in enumerate(rest)}
-        fixed += self._choose(g, rest, rest, made, lambda a, b: a if rank[a] < rank[b] else b,
-                              lambda a, b: a in inside and b in inside)
+        rank = np.zeros(g.n, dtype=np.int64)
+        rank[[g.index[p] for p in rest]] = np.arange(1, len(rest) + 1)
+        relevant = is_pair & (rank[pu] > 0) & (rank[pv] > 0)
+        low = rank[pu] < rank[pv]
+        order = {p: i for i, p in enumerate(rest)}
+        fixed += self._choose(g, rest, rest, made, relevant, np.where(low, pu, pv), np.where(low, pv, pu),
+                              lambda p, q: q in order and order[p] < order[q])
         return fixed
 
     def _choose(self, g: _Graph, leads: list[PlayerId], follows: list[PlayerId], count: int,
-                lead_of: Callable[[PlayerId, PlayerId], PlayerId], relevant: Callable[[PlayerId, PlayerId], bool]
-                ) -> list[Pair]:
+                relevant: NDArray[np.bool_], lead: NDArray[np.int64], follow: NDArray[np.int64],
+                heads: Callable[[PlayerId, PlayerId], bool]) -> list[Pair]:
         """One phase of the generation order: exchanges (which ``leads`` are S1), then transpositions.
 
         ``count`` pairs are made between S1 (``count`` of ``leads``) and
-        ``follows``; a pair's S1 side is ``lead_of(pair)``. Returns the pairs,
-        fixed in the graph.
+        ``follows``; on each ``relevant`` edge ``lead`` is the vertex on S1's
+        side and ``follow`` its partner. Returns the pairs, fixed in the graph.
         """
-        rank = {p: i + 1 for i, p in enumerate(leads)}
-        frank = {p: i + 1 for i, p in enumerate(follows)}
         if count == 0:
             return []
-
-        def lead(pair: Pair) -> PlayerId | None:
-            return lead_of(*pair) if relevant(*pair) else None
-
-        copies = g.copies
-        spread = copies * len(leads) ** 2 + 1
-        swap_limit = (copies * len(leads) + 1) * spread
-
-        def swaps(pair: Pair) -> int:  # tests 1 and 2: players swapped, then the BSN sum
-            x = lead(pair)
-            return 0 if x is None else int(rank[x] > count) * spread + rank[x]
-
+        lrank = np.zeros(g.n, dtype=np.int64)
+        lrank[[g.index[p] for p in leads]] = np.arange(1, len(leads) + 1)
+        frank = np.zeros(g.n, dtype=np.int64)
+        frank[[g.index[p] for p in follows]] = np.arange(1, len(follows) + 1)
+        spread = g.copies * len(leads) ** 2 + 1
+        swap_limit = (g.copies * len(leads) + 1) * spread
+        # tests 1 and 2: players swapped into S1, then the BSN sum of S1
+        swaps = np.where(relevant, (lrank[lead] > count) * spread + lrank[lead], 0)
         g.tiebreak(swaps, swap_limit)
-        chosen = self._leads(g, leads, lead)
+        chosen = self._leads(g, leads, heads)
         if chosen != set(leads[:count]):
-            chosen = self._membership(g, leads, count, lead, swaps, swap_limit)
-        members = {g.index[p] for p in chosen}
-        others = {g.index[p] for p in leads if p not in chosen}
-        g.drop(lambda u, pair: (u in members and (pair is None or lead(pair) != g.vertices[u]))
-               or (u in others and pair is not None and lead(pair) == g.vertices[u]))
-        order = sorted(chosen, key=rank.__getitem__)
-        width = max(1, (100 - g.n.bit_length()) // (len(follows) + 1).bit_length())
+            chosen = self._membership(g, leads, count, relevant, lead, swaps, swap_limit, heads)
+        self._settle(g, leads, chosen, relevant, lead)
+        order = sorted(chosen, key=leads.index)
+        budget = 2 ** max(8, 100 - g.n.bit_length())
         out: list[Pair] = []
-        for start in range(0, len(order), width):
-            block = {p: k for k, p in enumerate(order[start:start + width])}
-            size = len(block)
-
-            base = len(follows) + 1
-
-            def places(pair: Pair, block: dict[PlayerId, int] = block, size: int = size, base: int = base) -> int:
-                x = lead(pair)
-                if x is None or x not in block:
-                    return 0
-                y = pair[1] if pair[0] == x else pair[0]
-                return frank[y] * int(base ** (size - 1 - block[x]))
-
-            g.tiebreak(places, copies * base ** size, block)
-            for x in block:
+        k = 0
+        while k < len(order):
+            # Transpositions: each S1 player's partner digit is its rank among the partners still
+            # possible for him (the BSN order kept), so a block holds as many places as the budget allows.
+            ids = np.flatnonzero(relevant & g.keep & g.live[g.eu] & g.live[g.ev])
+            ids = ids[np.argsort(lead[ids], kind="stable")]
+            heads_of = lead[ids]
+            block: list[tuple[PlayerId, NDArray[np.int64], NDArray[np.int64]]] = []
+            product = 1
+            for x in order[k:]:
+                lo, hi = np.searchsorted(heads_of, g.index[x], "left"), np.searchsorted(heads_of, g.index[x], "right")
+                mine = ids[lo:hi]
+                options = np.unique(frank[follow[mine]])
+                if block and product * len(options) > budget:
+                    break
+                block.append((x, mine, options))
+                product *= max(1, len(options))
+            digits = np.zeros(len(g.eu), dtype=object)
+            weight = product
+            for x, mine, options in block:
+                weight //= max(1, len(options))
+                digits[mine] = np.searchsorted(options, frank[follow[mine]]).astype(object) * weight
+            g.tiebreak(digits, g.copies * product)
+            for x, _, _ in block:
                 y = g.partner(x)
                 assert y is not None
                 out.append((x, y))
                 g.remove((x, y))
+            k += len(block)
         return out
 
-    def _leads(self, g: _Graph, leads: list[PlayerId], lead: Callable[[Pair], PlayerId | None]) -> set[PlayerId]:
+    def _leads(self, g: _Graph, leads: list[PlayerId], heads: Callable[[PlayerId, PlayerId], bool]
+               ) -> set[PlayerId]:
+        """The ``leads`` on S1's side of their pair in the current matching (``heads(p, q)``: p is)."""
         out = set()
         for p in leads:
             q = g.partner(p)
-            if q is not None and lead((p, q)) == p:
+            if q is not None and heads(p, q):
                 out.add(p)
         return out
 
-    def _membership(self, g: _Graph, leads: list[PlayerId], count: int, lead: Callable[[Pair], PlayerId | None],
-                    swaps: Callable[[Pair], int], swap_limit: int) -> set[PlayerId]:
+    def _settle(self, g: _Graph, leads: list[PlayerId], chosen: Iterable[PlayerId], relevant: NDArray[np.bool_],
+                lead: NDArray[np.int64]) -> None:
+        """Keep S1 players on S1's side of a pair, and the others off it."""
+        inside = np.zeros(g.n, dtype=bool)
+        inside[[g.index[p] for p in chosen]] = True
+        candidate = np.zeros(g.n, dtype=bool)
+        candidate[[g.index[p] for p in leads]] = True
+        outside = candidate & ~inside
+        bad = np.zeros(len(g.eu), dtype=bool)
+        for end in (g.cu, g.cv):
+            own = relevant & (lead == end)
+            bad |= (inside[end] & ~own) | (outside[end] & own)
+        g.drop(bad)
+
+    def _membership(self, g: _Graph, leads: list[PlayerId], count: int, relevant: NDArray[np.bool_],
+                    lead: NDArray[np.int64], swaps: NDArray[Any], swap_limit: int,
+                    heads: Callable[[PlayerId, PlayerId], bool]) -> set[PlayerId]:
         """Tests 3 and 4 of the exchange order, a block of players at a time, highest S1 BSN first."""
         width = max(1, 100 - 5 * g.n.bit_length())
         s1 = leads[:count][::-1]
         s2 = leads[count:]
         for group, keep in ((s1, False), (s2, True)):
             for start in range(0, len(group), width):
-                block = {p: k for k, p in enumerate(group[start:start + width])}
+                block = group[start:start + width]
                 size = len(block)
                 spread = g.copies * len(leads) * 2 ** size + 1
-
-                def bits(pair: Pair, block: dict[PlayerId, int] = block, size: int = size, keep: bool = keep,
-                         spread: int = spread) -> int:
-                    x = lead(pair)
-                    if x is None:
-                        return 0
-                    # test 3: an S1 player leaving S1 is preferred, the higher BSN first (cost to stay);
-                    # test 4: an S2 player entering S1 is preferred, the lower BSN first (reward to enter)
-                    if keep:
-                        extra = 2 ** size - (2 ** (size - 1 - block[x]) if x in block else 0)
-                    else:
-                        extra = 2 ** (size - 1 - block[x]) if x in block else 0
-                    return swaps(pair) * spread + int(extra)
-
-                g.tiebreak(bits, swap_limit * spread)
-                now = self._leads(g, leads, lead)
-                inside = {g.index[p] for p in block if p in now}
-                outside = {g.index[p] for p in block if p not in now}
-                g.drop(lambda u, pair: (u in inside and (pair is None or lead(pair) != g.vertices[u]))
-                       or (u in outside and pair is not None and lead(pair) == g.vertices[u]))
-        return self._leads(g, leads, lead)
+                place = np.full(g.n, -1, dtype=np.int64)
+                place[[g.index[p] for p in block]] = np.arange(size)
+                power = np.array([2 ** (size - 1 - k) for k in range(size)] + [0], dtype=object)
+                at = np.where(relevant, place[lead], -1)
+                bit = np.where(at >= 0, power[at], 0)
+                # test 3: an S1 player leaving S1 is preferred, the higher BSN first (a cost to stay);
+                # test 4: an S2 player entering S1 is preferred, the lower BSN first (a reward to enter)
+                extra = np.where(relevant, 2 ** size - bit, 0) if keep else bit
+                g.tiebreak(swaps.astype(object) * spread + extra, swap_limit * spread)
+                now = self._leads(g, leads, heads)
+                self._settle(g, block, [p for p in block if p in now], relevant, lead)
+        return self._leads(g, leads, heads)

@@ -39,9 +39,9 @@ from collections import Counter
 from dataclasses import dataclass
 from typing import Iterable, Mapping
 
-from pairings.engine.dutch.colours import Colours, allocate, breaks, missed
+from pairings.engine.dutch.colours import Colours, allocate, breaks
 from pairings.engine.dutch.entrants import Entrants
-from pairings.state import Float, PlayerId
+from pairings.state import Float, PlayerId, Side
 
 Layer = tuple[int, int]
 Costs = Counter[Layer]
@@ -103,10 +103,12 @@ def pair_costs(ent: Entrants, br: Bracket, u: PlayerId, v: PlayerId) -> tuple[Co
         wide, third = breaks(ent, colours)
         c[80, 0] = len(wide)
         c[90, 0] = len(third)
-    lost = missed(ent, colours)
-    if lost:
-        c[100, 0] = len(lost)
-        c[110, 0] = sum(1 for p in lost if ent.pref[p].strength >= 2)
+    if ent.colours:
+        first, second = ent.pref[colours.first], ent.pref[colours.second]
+        lost = [p for p, side in ((first, Side.FIRST), (second, Side.SECOND)) if p.side not in (None, side)]
+        if lost:
+            c[100, 0] = len(lost)
+            c[110, 0] = sum(1 for p in lost if p.strength >= 2)
     if sd:
         for back, part in ((1, 0), (2, 20)):
             if _repeat(ent, lo, Float.UP, back):

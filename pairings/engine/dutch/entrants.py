@@ -104,6 +104,7 @@ class Entrants:
         self.forbidden.update(frozenset(x) for x in extra_forbidden)
         refused = set(no_bye)
         self.pab_eligible = frozenset(p for p in self.order if p not in refused and self._may_get_bye(p))
+        self.must: dict[PlayerId, Side | None] = {p: self.absolute(p) for p in self.order}
         self.floats: dict[PlayerId, tuple[Float | None, Float | None]] = {
             p: (self.float_in(p, round_number - 1), self.float_in(p, round_number - 2)) for p in self.order
         }
@@ -146,10 +147,10 @@ class Entrants:
 
     def compatible(self, p: PlayerId, q: PlayerId) -> bool:
         """C.1 (no rematch, no do-not-pair entry) and C.3 (two non-topscorers with one absolute colour)."""
-        if q in self.met[p] or frozenset((p, q)) in self.forbidden:
+        if q in self.met[p] or (self.forbidden and frozenset((p, q)) in self.forbidden):
             return False
-        side = self.absolute(p)
-        if side is not None and side is self.absolute(q):
+        side = self.must[p]
+        if side is not None and side is self.must[q]:
             return p in self.topscorers or q in self.topscorers
         return True
 

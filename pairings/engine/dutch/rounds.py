@@ -78,7 +78,7 @@ def plan(state: EventState, ov: Overrides = Overrides()) -> Plan:
             "no two players with the same absolute colour, one PAB to an eligible player)"
         )
     groups = ent.groups()
-    cache: dict[frozenset[PlayerId], Costs] = {}
+    cache: dict[object, Costs] = {}
     done: list[Paired] = []
     carried: list[PlayerId] = []
     for top in range(len(groups)):

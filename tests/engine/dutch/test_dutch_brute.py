@@ -7,7 +7,8 @@ criterion or the completion criterion (the rest of the round must stay
 pairable: every pairing of the rest is enumerated), evaluates C.5-C.19 one
 candidate at a time (C.7: the best next bracket over every pairing of the
 rest) and keeps the first best. The engine must choose the same pairs,
-floaters and PAB in every bracket of every round.
+floaters and PAB in every bracket of every round (events with draws,
+forfeits, requested byes, withdrawals and late entries).
 """
 
 from __future__ import annotations
@@ -30,7 +31,7 @@ from pairings.engine.dutch.generation import heterogeneous
 from pairings.engine.dutch.rounds import bracket_of, players_of
 from pairings.engine.types import Overrides
 from pairings.errors import NoPairingError
-from pairings.state import EventState, PlayerId, System
+from pairings.state import Acceleration, EventState, PlayerId, System
 
 Pair = tuple[PlayerId, PlayerId]
 
@@ -121,17 +122,23 @@ def brute_plan(state: EventState) -> list[tuple[set[frozenset[PlayerId]], set[Pl
     return out
 
 
-def _events(seed: int) -> Iterator[EventState]:
+def _events(seed: int, **settings: object) -> Iterator[EventState]:
     rng = random.Random(seed)
     n = rng.randint(4, 9)
     rounds = rng.randint(3, 6)
     log = new_event([rng.choice([None, rng.randint(1200, 2400)]) for _ in range(n)], rounds=rounds,
-                    system=System.DUTCH, seed=seed)
+                    system=System.DUTCH, seed=seed, **settings)
     for r in range(1, rounds + 1):
         state = state_of(log)
+        if r > 1 and rng.random() < 0.15:  # a late entry
+            log.append(ev.PlayerRegistered(id=f"late{r}", name=f"Late Entrant {r}", rating=rng.randint(1200, 2400),
+                                           entry_round=r))
         for pid in state.available(r):
-            if rng.random() < 0.06:
+            x = rng.random()
+            if x < 0.06:
                 log.append(ev.ByeRequested(player=pid, round=r, kind="requested"))  # type: ignore[arg-type]
+            elif x < 0.09 and r > 1:
+                log.append(ev.PlayerWithdrawn(player=pid, from_round=r))
         state = state_of(log)
         if len(state.available(r)) < 2:
             return
@@ -146,6 +153,15 @@ def _events(seed: int) -> Iterator[EventState]:
 @pytest.mark.parametrize("seed", range(60))
 def test_blossom_matches_brute_force(seed: int) -> None:
     for state in _events(seed):
+        mine = plan(state)
+        got = [({frozenset(p) for p in b.pairs}, set(b.floaters)) for b in mine.brackets]
+        assert got == brute_plan(state), f"round {state.next_round_number}"
+
+
+@pytest.mark.parametrize("seed", range(100, 115))
+def test_blossom_matches_brute_force_without_sides_and_accelerated(seed: int) -> None:
+    settings: dict[str, object] = {"sides": None} if seed % 2 else {"acceleration": Acceleration.BAKU}
+    for state in _events(seed, **settings):
         mine = plan(state)
         got = [({frozenset(p) for p in b.pairs}, set(b.floaters)) for b in mine.brackets]
         assert got == brute_plan(state), f"round {state.next_round_number}"

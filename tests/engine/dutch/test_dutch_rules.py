@@ -235,3 +235,40 @@ def test_why_panel_names_virtual_points_whole_round() -> None:
                                system=System.DUTCH, seed=3))
     text = "\n".join(explain(dutch, draft_round(dutch), 1).lines())
     assert "pairing score 1, of which 1 virtual (Baku)" in text
+
+
+def test_pairing_sheet_says_not_endorsed() -> None:
+    from datetime import datetime, timezone
+
+    from pairings.reports.sheets import pairing_sheet
+
+    log = _event(8, seed=3, acceleration=Acceleration.BAKU)
+    _record(log, 1, [Result.DRAW] * 4)
+    notes = pairing_sheet(state_of(log), 1, datetime(2026, 1, 1, tzinfo=timezone.utc)).notes
+    assert any("not endorsed by FIDE" in n for n in notes)
+    assert any("virtual points decide the pairing only" in n for n in notes)
+    plain = new_event([2000, 1900], rounds=3, seed=1)
+    _record(plain, 1, [Result.DRAW])
+    assert not any("FIDE" in n for n in pairing_sheet(state_of(plain), 1, datetime(2026, 1, 1)).notes)
+
+
+def test_same_draft_with_and_without_the_compiled_kernel() -> None:
+    # Every accepted form is exact and the generation order is a total order: the route cannot matter.
+    import random
+
+    from pairings.engine import blossom
+    from tests.engine.engine_support import play
+
+    rng = random.Random(8)
+    log = new_event([rng.randint(1200, 2400) for _ in range(23)], rounds=6, system=System.DUTCH, seed=8)
+    for _ in range(4):
+        st = state_of(log)
+        fast = draft_round(st)
+        blossom.USE_COMPILED = False
+        try:
+            slow = draft_round(st)
+        finally:
+            blossom.USE_COMPILED = True
+        assert [(b.first, b.second) for b in fast.boards] == [(b.first, b.second) for b in slow.boards]
+        assert fast.pairing_bye == slow.pairing_bye
+        play(log, fast, rng)
