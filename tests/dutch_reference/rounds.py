@@ -39,7 +39,7 @@ class Unpairable(Exception):
     """No pairing of the round keeps the absolute criteria."""
 
 
-def _completer(facts: Facts) -> "lru_cache[bool]":  # type: ignore[type-arg]
+def _completer(facts: Facts) -> Callable[[frozenset[PlayerId]], bool]:
     """Can these players all be paired (C.1, C.3), leaving at most one, PAB-eligible (C.2)?"""
 
     @lru_cache(maxsize=None)
@@ -60,7 +60,7 @@ def _completer(facts: Facts) -> "lru_cache[bool]":  # type: ignore[type-arg]
         rest = players - {first}
         return any(facts.compatible(first, x) and _even_complete(rest - {x}) for x in rest)
 
-    return complete  # type: ignore[return-value]
+    return complete
 
 
 def _last(facts: Facts, mdps: list[PlayerId], residents: list[PlayerId]) -> Outcome | None:

@@ -23,6 +23,7 @@ from dataclasses import dataclass, field
 import pytest
 
 from pairings.engine import draft_round
+from pairings.state import EventState
 from tests.dutch_reference.events import RoundCheck, hand_event, play_event
 from tests.dutch_reference.generation import exchanges
 from tests.dutch_reference.rounds import EVERYWHERE, Unpairable, reference_round
@@ -136,7 +137,7 @@ def test_generation_order_worked_sequences() -> None:
 
 # --- the known class, minimal case ----------------------------------------------------------------
 
-def _completion_case():
+def _completion_case() -> EventState:
     # Six players p1..p6 (pairing numbers 1..6), round 4 of 5 after:
     # R1 p1-p4 0-1, p5-p2 0-1, p3-p6 1-0; R2 p2-p3 0-1, p4-p5 1-0, p6-p1 1-0; R3 p3-p4 1-0,
     # p6-p2 1/2, p1-p5 1-0 (white first).
