@@ -19,7 +19,7 @@ from pairings import events as ev
 from pairings.engine import Draft, draft_round
 from pairings.errors import NoPairingError
 from pairings.fold import fold
-from pairings.state import ByeKind, EventState, Result, System
+from pairings.state import Acceleration, ByeKind, EventState, Result, System
 
 _SYLLABLES = ("ka", "ro", "mel", "tin", "sa", "bor", "li", "vek", "du", "nar", "ose", "pim")
 _TITLES = ("GM", "IM", "FM", "WGM", "CM", "WIM")
@@ -56,14 +56,17 @@ def play_event(seed: int, check: Callable[[RoundCheck], None]) -> int:
     scoring = ev.ScoringModel(win=3.0, draw=1.0, loss=0.0) if rng.random() < 0.1 else ev.ScoringModel()
     forfeit_is_meeting = rng.random() >= 0.15
     requested = scoring.win if rng.random() < 0.1 else scoring.draw
+    # one in seven standard-scored events is accelerated (Baku); its field is whole in round 1
+    baku = scoring.win == 1.0 and rng.random() < 0.15
     log: list[ev.Event] = [ev.EventCreated(
         name=f"Reference check {seed}", rounds=rounds, system=System.DUTCH, seed=seed, scoring=scoring,
-        bye_points=scoring.win, requested_bye_points=requested, forfeit_is_meeting=forfeit_is_meeting)]
+        bye_points=scoring.win, requested_bye_points=requested, forfeit_is_meeting=forfeit_is_meeting,
+        acceleration=Acceleration.BAKU if baku else Acceleration.NONE)]
     for i in range(n):
         rating = None if rng.random() < 0.08 else rng.choice((1500, 1600, 1700)) if rng.random() < 0.2 \
             else rng.randint(1200, 2400)
         title = rng.choice(_TITLES) if rng.random() < 0.1 else None
-        late = rng.random() < 0.1
+        late = rng.random() < 0.1 and not baku
         log.append(ev.PlayerRegistered(
             id=f"p{i + 1}", name=_name(rng, i), rating=rating,
             entry_round=rng.randint(2, min(3, rounds)) if late else 1,
@@ -79,7 +82,7 @@ def play_event(seed: int, check: Callable[[RoundCheck], None]) -> int:
             if rnd > 1 and rng.random() < 0.03:
                 withdrawn.add(pid)
                 log.append(ev.PlayerWithdrawn(player=pid, from_round=rnd))
-            elif rng.random() < 0.05:
+            elif rng.random() < 0.05 and not (baku and rnd == 1):
                 kind = ByeKind.ABSENCE if rng.random() < 0.3 else ByeKind.REQUESTED
                 log.append(ev.ByeRequested(player=pid, round=rnd, kind=kind))  # type: ignore[arg-type]
         state = fold(enumerate(log, 1))
@@ -107,18 +110,27 @@ def play_event(seed: int, check: Callable[[RoundCheck], None]) -> int:
 
 
 def hand_event(rounds: int, n: int, history: list[list[tuple[int, int, str]]], seed: int = 0,
-               pab: dict[int, int] | None = None) -> EventState:
+               pab: dict[int, int] | None = None, requested: dict[int, list[int]] | None = None,
+               absent: dict[int, list[int]] | None = None) -> EventState:
     """A hand-written Dutch event: players p1..pn numbered by rating (p1 highest), then
-    ``history[r]`` = round r+1's boards as (white, black, result code), ``pab`` round -> player."""
+    ``history[r]`` = round r+1's boards as (white, black, result code); ``pab`` round -> player,
+    ``requested`` (half-point byes) and ``absent`` round -> players (also for the round to draft)."""
     log: list[ev.Event] = [ev.EventCreated(name="Hand case", rounds=rounds, system=System.DUTCH, seed=seed)]
     for i in range(1, n + 1):
         log.append(ev.PlayerRegistered(id=f"p{i}", name=f"Player {i:02d}", rating=2500 - 10 * i))
+    asked: dict[int, list[tuple[int, ByeKind, float]]] = {}
+    for kind, points, table in ((ByeKind.REQUESTED, 0.5, requested), (ByeKind.ABSENCE, 0.0, absent)):
+        for r, players in (table or {}).items():
+            for p in players:
+                log.append(ev.ByeRequested(player=f"p{p}", round=r, kind=kind))  # type: ignore[arg-type]
+                asked.setdefault(r, []).append((p, kind, points))
     for r, boards in enumerate(history, 1):
-        byes = (ev.ByeModel(player=f"p{pab[r]}", kind=ByeKind.PAIRING, points=1.0),) if pab and r in pab else ()
+        byes = [(pab[r], ByeKind.PAIRING, 1.0)] if pab and r in pab else []
         log.append(ev.RoundDrafted(
             round=r, boards=tuple(ev.BoardModel(board=b, first=f"p{w}", second=f"p{k}", cost={})
                                   for b, (w, k, _) in enumerate(boards, 1)),
-            byes=byes, engine_version="hand", source="engine"))
+            byes=tuple(ev.ByeModel(player=f"p{p}", kind=kind, points=pts) for p, kind, pts in byes + asked.get(r, [])),
+            engine_version="hand", source="engine"))
         log.append(ev.RoundPublished(round=r))
         for b, (_, _, res) in enumerate(boards, 1):
             log.append(ev.ResultRecorded(round=r, board=b, result=Result.parse(res)))

@@ -9,10 +9,12 @@ the 1 February 2026 float rule; much of it from memory, as the spec marks).
 
 from __future__ import annotations
 
+import math
 import random
 from dataclasses import dataclass
+from typing import Callable
 
-from pairings.state import ByeKind, EventState, Player, PlayerId, Side
+from pairings.state import Acceleration, ByeKind, EventState, Player, PlayerId, Side
 
 WHITE, BLACK = "W", "B"
 NONE, MILD, STRONG, ABSOLUTE = 0, 1, 2, 3
@@ -30,6 +32,7 @@ class Entrant:
     pn: int
     """Pairing number: position in the initial order, 1-based."""
     score: float
+    """The pairing score: points plus Baku virtual points."""
     colours: tuple[str, ...]
     """Colours of the games played over the board, oldest first (unplayed rounds removed)."""
     met: frozenset[PlayerId]
@@ -105,7 +108,30 @@ def initial_colour(state: EventState) -> str:
     return WHITE if random.Random(state.settings.seed).random() < 0.5 else BLACK
 
 
-def _float_in(state: EventState, pid: PlayerId, rnd: int) -> str | None:
+def virtual_points(state: EventState, pns: dict[PlayerId, int]) -> Callable[[PlayerId, int], float]:
+    """C.04.5.1 Baku acceleration (pre-2025 text, as the spec reads it): group A = the top
+    2 * ceil(N / 4) of the field before round 1 by pairing number (a late entrant joins A when ranked
+    at or above A's last player); A carries 1 point in rounds 1..ceil(ceil(R/2)/2), 1/2 up to
+    round ceil(R/2), nothing later."""
+    s = state.settings
+    if s.acceleration is not Acceleration.BAKU:
+        return lambda pid, rnd: 0.0
+    start = sorted((p for p in state.players.values() if p.entry_round == 1), key=lambda p: pns[p.id])
+    size = 2 * math.ceil(len(start) / 4)
+    boundary = pns[start[size - 1].id] if size else 0
+    accelerated = math.ceil(s.rounds / 2)
+    full = math.ceil(accelerated / 2)
+
+    def vp(pid: PlayerId, rnd: int) -> float:
+        if pns[pid] > boundary or rnd > accelerated:
+            return 0.0
+        return 1.0 if rnd <= full else 0.5
+
+    return vp
+
+
+def _float_in(state: EventState, pid: PlayerId, rnd: int,
+              vp: Callable[[PlayerId, int], float]) -> str | None:
     """The float received in round ``rnd``: a PAB, or a pairing against a different score (2026 rule)."""
     if rnd < 1:
         return None
@@ -117,8 +143,8 @@ def _float_in(state: EventState, pid: PlayerId, rnd: int) -> str | None:
         return "D"
     if entry.opponent is None:
         return None
-    mine = record.score_before(rnd)
-    theirs = state.records[entry.opponent].score_before(rnd)
+    mine = record.score_before(rnd) + vp(pid, rnd)
+    theirs = state.records[entry.opponent].score_before(rnd) + vp(entry.opponent, rnd)
     if mine > theirs:
         return "D"
     if mine < theirs:
@@ -132,6 +158,7 @@ def read_facts(state: EventState, players: tuple[PlayerId, ...] | None = None) -
     s = state.settings
     win = s.scoring.win
     pns = pairing_numbers(state)
+    vp = virtual_points(state, pns)
     final = rnd == s.rounds
     to_pair = players if players is not None else state.available(rnd)
     entrants: dict[PlayerId, Entrant] = {}
@@ -145,10 +172,10 @@ def read_facts(state: EventState, players: tuple[PlayerId, ...] | None = None) -
                 if pid in (f.a, f.b) and f.applies(rnd)}
         pab_ok = not any(e.bye is ByeKind.PAIRING for e in entries) and not any(
             not e.played and (e.points or 0.0) >= win for e in entries)
-        score = record.score_before(rnd)
+        score = record.score_before(rnd) + vp(pid, rnd)  # the pairing score
         entrants[pid] = Entrant(
             id=pid, pn=pns[pid], score=score, colours=colours, met=frozenset(met), pab_ok=pab_ok,
-            float1=_float_in(state, pid, rnd - 1), float2=_float_in(state, pid, rnd - 2),
+            float1=_float_in(state, pid, rnd - 1, vp), float2=_float_in(state, pid, rnd - 2, vp),
             topscorer=final and score > 0.5 * (rnd - 1) * win,
         )
     return Facts(rnd, entrants, win, initial_colour(state))

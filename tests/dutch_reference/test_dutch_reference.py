@@ -182,35 +182,38 @@ def test_product_follows_the_handbook_route_on_the_minimal_case() -> None:
     assert [(b.first, b.second) for b in draft.boards] == HANDBOOK_ANSWER
 
 
-def _state_of(seed: int, rnd: int) -> RoundCheck:
-    found: list[RoundCheck] = []
-    play_event(seed, lambda rc: found.append(rc) if rc.round == rnd else None)
-    return found[0]
+def _ppb_case() -> EventState:
+    # Eight players p1..p8 (pairing numbers 1..8), round 4 of 7, p5 and p7 absent. White first:
+    # R1 p4-p1 0-1, p2-p5 0-1, p6-p3 +- (forfeit), PAB p7; R2 p1-p6 1-0, p5-p7 0-1, p3-p4 0-1,
+    # PAB p8, p2 half-point bye; R3 p7-p1 1-0, p4-p8 1/2, p6-p5 1/2, p3-p2 1/2.
+    return hand_event(7, 8, [
+        [(4, 1, "0-1"), (2, 5, "0-1"), (6, 3, "+-")],
+        [(1, 6, "1-0"), (5, 7, "0-1"), (3, 4, "0-1")],
+        [(7, 1, "1-0"), (4, 8, "1/2-1/2"), (6, 5, "1/2-1/2"), (3, 2, "1/2-1/2")],
+    ], pab={1: 7, 2: 8}, requested={2: [2]}, absent={4: [5, 7]})
 
 
-# Generated event 1200, round 4 of 7 (p4, p6 absent). Facts before the round (white first):
-#   p3 (no. 1) 2   BWB  met p2 p6 p7        p7 (no. 4) 1.5 WBW met p1 p3 p5
-#   p2 (no. 6) 1.5 BW   met p3 p4 p5, had a forfeit win (no PAB)
-#   p1 (no. 8) 1.5 B    met p7, had the PAB  p8 (no. 2) 1 WB met p4 p5    p5 (no. 3) 0.5 WW met p2 p7 p8
-# Handbook route: {p3} floats. Bracket 1.5 {MDP p3; p7, p2, p1}: p3-p1 and p7-p2 pair everyone,
-# but p8-p5 have met: the round cannot be completed, so this is the PPB, re-paired by C.4 with
-# its floaters chosen to complete the CLB {floaters, p8, p5}: p3-p1 fails (p7 and p2 would both
-# need p8); p7-p2 (p3, p1 float) and p2-p1 (p3, p7 float) both complete; same pairs and PSD;
-# C.7 does not apply to the PPB; C.10: p7-p2 both want Black (p2 misses, mild), p2-p1 none: p2-p1
-# (p1 White). CLB {MDPs p3, p7; p8, p5}: p3-p5 (p5 absolute Black), p7-p8 (p8 White).
-# The product applies C.7 in the PPB too (docs/engine.md "C.7 in every bracket"): p7-p2 gives the
-# next bracket p3-p8 with PSD [1.5, 1] against [2, 0.5]; it pairs p3-p8, p2-p7, p1-p5.
-PPB_ANSWER = [("p3", "p5"), ("p1", "p2"), ("p8", "p7")]
+# Facts before round 4 (pairing score, colours of played games, opponents met; forfeits count):
+#   p1 2   BWB met p4 p6 p7        p4 1.5 WBW met p1 p3 p8       p6 1.5 BW met p1 p3 p5 (forfeit win)
+#   p8 1.5 B   met p4 (had the PAB) p2 1 WB met p3 p5             p3 0.5 WW met p2 p4 p6
+# Handbook route: {p1} floats. Bracket 1.5 {MDP p1; p4, p6, p8}: p1-p8 and p4-p6 pair everyone,
+# but p2-p3 have met: the round cannot be completed, so this is the PPB, re-paired by C.4 with
+# its floaters chosen to complete the CLB {floaters, p2, p3}: p1-p8 fails (p4 and p6 would both
+# need p2); p4-p6 (p1, p8 float) and p6-p8 (p1, p4 float) both complete; same pairs and PSD;
+# C.7 does not apply to the PPB; C.10: p4-p6 both want Black (p6 misses, mild), p6-p8 none:
+# p8-p6 (p8 White, strong). CLB {MDPs p1, p4; p2, p3}: p1-p3 (p3 absolute Black), p2-p4.
+# The product applies C.7 in the PPB too (docs/engine.md "C.7 in every bracket"): p4-p6 gives the
+# next bracket p1-p2 with PSD [1.5, 1] against [2, 0.5]; it pairs p1-p2, p6-p4, p8-p3.
+PPB_ANSWER = [("p1", "p3"), ("p8", "p6"), ("p2", "p4")]
 
 
 def test_reference_exempts_the_ppb_from_c7() -> None:
-    rc = _state_of(1200, 4)
-    assert list(reference_round(rc.state).boards) == PPB_ANSWER
+    assert list(reference_round(_ppb_case()).boards) == PPB_ANSWER
+    assert list(reference_round(_ppb_case(), EVERYWHERE).boards) != PPB_ANSWER
 
 
 @pytest.mark.xfail(strict=True, reason="the product applies C.7 in the PPB as in every bracket (docs/engine.md "
                    "'C.7 in every bracket'); the spec exempts the PPB and pairs the CLB as one bracket")
 def test_product_exempts_the_ppb_from_c7() -> None:
-    rc = _state_of(1200, 4)
-    assert rc.draft is not None
-    assert [(b.first, b.second) for b in rc.draft.boards] == PPB_ANSWER
+    draft = draft_round(_ppb_case())
+    assert [(b.first, b.second) for b in draft.boards] == PPB_ANSWER
