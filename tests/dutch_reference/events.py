@@ -4,7 +4,8 @@ Each event (seeded): 4-14 players (ratings with ties, a few unrated and titled,
 late entries), every round to the last, with draws, forfeits (``+-``, ``-+``,
 ``--``), requested byes, absences and withdrawals; one in ten events scores
 3-1-0, one in seven does not count a forfeited pairing as a meeting, one in ten
-gives a win's points for a requested bye. Before each round the
+gives a win's points for a requested bye, one in ten has a do-not-pair entry, and
+about one in seven standard-scored events is accelerated (Baku). Before each round the
 ``compare`` callback gets the folded state; the event continues with the
 product's draft (its public entry point ``draft_round``).
 """
@@ -72,6 +73,9 @@ def play_event(seed: int, check: Callable[[RoundCheck], None]) -> int:
             entry_round=rng.randint(2, min(3, rounds)) if late else 1,
             details=ev.PlayerDetailsModel(title=title) if title else None,
         ))
+    if rng.random() < 0.1:  # a do-not-pair entry, kept as absolutely as a meeting
+        a, b = rng.sample(range(1, n + 1), 2)
+        log.append(ev.PairForbidden(a=f"p{a}", b=f"p{b}", reason="same family"))
     withdrawn: set[str] = set()
     checked = 0
     for rnd in range(1, rounds + 1):
