@@ -203,6 +203,10 @@ def rebuild(state: EventState, round: int, pairs: Sequence[Pair], bye: PlayerId 
     sided = [(kept.get(frozenset(p)) or fld.allocate(*p), p) for p in pairs]
     changed = [p for p in pairs if base_pairs is not None and frozenset(p) not in base_pairs]
     absent = [p for p in state.available(round) if p not in set(paired)]
+    if state.settings.system is System.DUTCH:
+        from pairings.engine.dutch.rounds import rebuild_dutch  # Dutch colours and board order
+
+        return rebuild_dutch(state, round, pairs, bye, kept, changed, absent)
     return assemble(state, fld, sided, bye, pinned=list(kept.values()), changed=changed, absent=absent)
 
 

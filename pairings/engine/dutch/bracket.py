@@ -55,7 +55,7 @@ from numpy.typing import NDArray
 from pairings.engine import blossom
 from pairings.engine.certificate import reduced_costs
 from pairings.engine.dutch.criteria import (
-    Bracket, Costs, Layer, float_costs, next_float_costs, next_pair_costs, pair_costs,
+    Bracket, Costs, float_costs, next_float_costs, next_pair_costs, pair_costs,
 )
 from pairings.engine.dutch.entrants import Entrants
 from pairings.state import PlayerId
@@ -112,12 +112,6 @@ def encode(edges: Sequence[CostEdge]) -> list[tuple[int, int, int]]:
     return [(a, b, ceiling - cost) for (a, b, _), cost in zip(edges, costs)]
 
 
-def solve(n: int, edges: Sequence[CostEdge]) -> list[tuple[int, int]] | None:
-    """The lexicographically cheapest perfect matching of ``n`` vertices, or None if none exists."""
-    found = blossom.perfect_matching(n, encode(edges))
-    return None if found is None else found[0]
-
-
 def completable(ent: Entrants, players: Sequence[PlayerId]) -> bool:
     """C.4: ``players`` can all be paired (C.1, C.3) but one, who must be PAB-eligible if the count is odd."""
     rest = list(players)
@@ -153,8 +147,8 @@ def _dirac(ent: Entrants, players: Sequence[PlayerId]) -> bool:
     return True
 
 
-Edge = tuple[int, int, Costs, "Pair | None", int]
-"""``(u, v, quality costs, the bracket pair it stands for or None, penalty)``."""
+Edge = tuple[int, int, Costs, "Pair | None"]
+"""``(u, v, quality costs, the bracket pair it stands for or None)``."""
 
 
 class _Graph:
@@ -203,23 +197,23 @@ class _Graph:
                                       lambda: next_float_costs(ent, br, u if u in solver.next else v))
                 else:
                     c = solver.shared(("nothing",), Counter)
-                edges.append((idx[u], idx[v], c, pair, 0))
+                edges.append((idx[u], idx[v], c, pair))
         alone = [solver.alone(u, exact) for u in self.vertices]
         n = self.real
         self.copies = 2 if form == "fast" else 1
         if form == "compact":  # ``slots`` places to float to, each open to every member
             for k in range(slots):
-                edges += [(i, n + k, solver.floats(u), None, 0) for i, u in enumerate(self.vertices)
+                edges += [(i, n + k, solver.floats(u), None) for i, u in enumerate(self.vertices)
                           if not br.last or u in ent.pab_eligible]
-                edges += [(n + k, n + j, solver.shared(("nothing",), Counter), None, 0) for j in range(k + 1, slots)]
+                edges += [(n + k, n + j, solver.shared(("nothing",), Counter), None) for j in range(k + 1, slots)]
             n += slots
         elif exact:
             if n % 2:
-                edges += [(i, n, c, None, 0) for i, c in enumerate(alone) if c is not None]
+                edges += [(i, n, c, None) for i, c in enumerate(alone) if c is not None]
                 n += 1
         else:
-            edges += [(u + n, v + n, c, pair, 0) for u, v, c, pair, _ in edges]
-            edges += [(i, i + n, c + c, None, 0) for i, c in enumerate(alone) if c is not None]
+            edges += [(u + n, v + n, c, pair) for u, v, c, pair in edges]
+            edges += [(i, i + n, c + c, None) for i, c in enumerate(alone) if c is not None]
             n *= 2
         self.n = n
         self.edges = edges
@@ -227,7 +221,7 @@ class _Graph:
 
     def optimise(self) -> bool:
         """Solve the quality layers; False when no perfect matching exists."""
-        weights = encode([(u, v, c) for u, v, c, _, _ in self.edges])
+        weights = encode([(u, v, c) for u, v, c, _ in self.edges])
         found = blossom.perfect_matching(self.n, weights)
         if found is None:
             return False
@@ -244,7 +238,7 @@ class _Graph:
                 inside[list(group)] = True
                 crossings += inside[u] != inside[v]
         # An optimal matching uses tight edges only: the others can go.
-        kept = [(a, b, pair, x) for (a, b, _, pair, _), x, t in zip(self.edges, crossings.tolist(), tight.tolist()) if t]
+        kept = [(a, b, pair, x) for (a, b, _, pair), x, t in zip(self.edges, crossings.tolist(), tight.tolist()) if t]
         self.eu = np.array([e[0] for e in kept], dtype=np.int64)
         self.ev = np.array([e[1] for e in kept], dtype=np.int64)
         self.pen = np.array([e[3] for e in kept], dtype=np.int64)

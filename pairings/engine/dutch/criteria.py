@@ -3,7 +3,7 @@
 A bracket's candidate is judged by a vector of counts, compared
 lexicographically, smaller first. Every entry is a sum over the candidate's
 pairs, its floaters and, for C.7, the next bracket's pairs and floaters, so
-the same numbers serve the brute force (:func:`quality`) and the weights of
+the same numbers serve the tests' brute force and the weights of
 the bracket matching (:mod:`pairings.engine.dutch.bracket`).
 
 Layers, in priority order (a :data:`Layer` is ``(criterion * 10 + part, level)``;
@@ -37,7 +37,6 @@ from __future__ import annotations
 
 from collections import Counter
 from dataclasses import dataclass
-from typing import Iterable, Mapping
 
 from pairings.engine.dutch.colours import Colours, allocate, breaks
 from pairings.engine.dutch.entrants import Entrants
@@ -45,17 +44,6 @@ from pairings.state import Float, PlayerId, Side
 
 Layer = tuple[int, int]
 Costs = Counter[Layer]
-
-NAMES: Mapping[int, str] = {
-    50: "C.5 pairs", 60: "C.6 score differences", 70: "C.7 next bracket's pairs",
-    71: "C.7 next bracket's score differences", 80: "C.8 topscorers' colour difference",
-    90: "C.9 topscorers' third colour", 100: "C.10 colour preferences", 110: "C.11 strong colour preferences",
-    120: "C.12 downfloats as last round", 130: "C.13 upfloats as last round",
-    140: "C.14 downfloats as two rounds before", 150: "C.15 upfloats as two rounds before",
-    160: "C.16 score differences of repeated downfloats", 170: "C.17 score differences of repeated upfloats",
-    180: "C.18 ... two rounds before", 190: "C.19 ... two rounds before",
-}
-"""Readable names of the quality layers (by ``layer[0]``)."""
 
 
 @dataclass(frozen=True)
@@ -140,39 +128,3 @@ def next_float_costs(ent: Entrants, br: Bracket, u: PlayerId) -> Costs:
     """C.7: a player of the next bracket left unpaired there."""
     low = ent.score[br.next[0]] if br.next else br.score
     return Counter({(70, 0): 1, (71, -(ent.score[u] - (low - ent.win))): 1})
-
-
-def quality(ent: Entrants, br: Bracket, pairs: Iterable[tuple[PlayerId, PlayerId]], floaters: Iterable[PlayerId],
-            next_pairs: Iterable[tuple[PlayerId, PlayerId]] = (), next_floaters: Iterable[PlayerId] = ()) -> Costs:
-    """The quality vector of a candidate (and of the next bracket's best answer to it, for C.7)."""
-    total: Costs = Counter()
-    for u, v in pairs:
-        total += pair_costs(ent, br, u, v)[0]
-    for u in floaters:
-        total += float_costs(ent, br, u)
-    if br.next:
-        for u, v in next_pairs:
-            total += next_pair_costs(ent, br, u, v)
-        for u in next_floaters:
-            total += next_float_costs(ent, br, u)
-    return total
-
-
-def key(costs: Mapping[Layer, int], upto: int = 200) -> tuple[tuple[Layer, int], ...]:
-    """A quality vector as a comparable key (layers below ``upto`` only, zeros dropped).
-
-    Smaller is better; two keys compare like the vectors they stand for
-    because every layer absent from one is zero there.
-    """
-    return tuple(sorted((layer, n) for layer, n in costs.items() if n and layer[0] < upto))
-
-
-def better(a: Mapping[Layer, int], b: Mapping[Layer, int]) -> int:
-    """-1 if ``a`` is the better quality vector, 1 if ``b`` is, 0 if equal."""
-    for layer in sorted(set(a) | set(b)):
-        if layer[0] >= 200:
-            break
-        x, y = a.get(layer, 0), b.get(layer, 0)
-        if x != y:
-            return -1 if x < y else 1
-    return 0

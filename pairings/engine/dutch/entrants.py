@@ -32,7 +32,7 @@ from __future__ import annotations
 
 from fractions import Fraction
 from math import gcd, lcm
-from typing import Iterable, Mapping, Sequence
+from typing import Iterable, Mapping
 
 from pairings.engine.acceleration import virtual_points
 from pairings.engine.criteria import ABSOLUTE, Preference, preference, score_unit
@@ -77,6 +77,7 @@ class Entrants:
         self.numbers = pairing_numbers(state)
         self.tpn: dict[PlayerId, int] = {p: i + 1 for i, p in enumerate(self.numbers)}
         self.virtual: Mapping[PlayerId, Fraction] = virtual_points(state, round_number, self.numbers)
+        self._vp: dict[int, Mapping[PlayerId, Fraction]] = {round_number: self.virtual}
         self.unit = _unit(state, [Fraction(1, 2)] if self.virtual else [])
         self.win = int(Fraction(s.scoring.win).limit_denominator(1000) / self.unit)
         recs = state.records
@@ -134,7 +135,9 @@ class Entrants:
             return Float.DOWN
         if e.opponent is None or e.opponent not in self.state.records:
             return None
-        vp = virtual_points(self.state, rnd, self.numbers)
+        if rnd not in self._vp:
+            self._vp[rnd] = virtual_points(self.state, rnd, self.numbers)
+        vp = self._vp[rnd]
         mine = Fraction(rec.score_before(rnd)).limit_denominator(1000) + vp.get(p, 0)
         theirs = Fraction(self.state.records[e.opponent].score_before(rnd)).limit_denominator(1000) \
             + vp.get(e.opponent, 0)
@@ -169,7 +172,3 @@ class Entrants:
                 out.append([p])
         return out
 
-
-def in_order(ent: Entrants, players: Sequence[PlayerId]) -> list[PlayerId]:
-    """``players`` sorted by Art. 1.2 (the bracket sequence numbers' order)."""
-    return sorted(players, key=ent.rank.__getitem__)

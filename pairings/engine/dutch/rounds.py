@@ -18,6 +18,7 @@ absolute (C.1-like).
 from __future__ import annotations
 
 from dataclasses import dataclass
+from typing import Iterable, Mapping, Sequence
 
 from pairings.engine.criteria import Field
 from pairings.engine.draft import assemble
@@ -98,36 +99,55 @@ def plan(state: EventState, ov: Overrides = Overrides()) -> Plan:
 
 def draft_dutch(state: EventState, ov: Overrides = Overrides()) -> Draft:
     """Draft the next round by the FIDE (Dutch) System (C.04.3; editions in docs/engine.md)."""
-    rnd = state.next_round_number
     result = plan(state, ov)
-    ent = result.entrants
-    sided = [(c.first, c.second) for c in result.colours()]
+    sided = list(ov.pinned) + [(c.first, c.second) for c in result.colours()]
     bye = ov.bye if ov.bye is not None else result.bye
-    everyone = list(ent.order) + [x for pair in ov.pinned for x in pair] + ([ov.bye] if ov.bye else [])
+    ent = result.entrants if not ov.pinned and ov.bye is None else None
+    return boards(state, state.next_round_number, sided, bye, ent, pinned=ov.pinned, absent=ov.absent)
+
+
+def rebuild_dutch(state: EventState, rnd: int, pairs: Sequence[Pair], bye: PlayerId | None,
+                  kept: Mapping[frozenset[PlayerId], Pair], changed: Iterable[Pair], absent: Iterable[PlayerId]
+                  ) -> Draft:
+    """An organiser-made pairing of a Dutch round: the Dutch colour rules and board order (``kept``: pinned sides)."""
+    everyone = [p for pair in pairs for p in pair] + ([bye] if bye is not None else [])
+    ent = Entrants(state, rnd, everyone)
+    sided = []
+    for a, b in pairs:
+        c = allocate(ent, a, b)
+        sided.append(kept.get(frozenset((a, b)), (c.first, c.second)))
+    return boards(state, rnd, sided, bye, ent, pinned=list(kept.values()), changed=changed, absent=absent)
+
+
+def boards(state: EventState, rnd: int, sided: Sequence[Pair], bye: PlayerId | None, ent: Entrants | None,
+           *, pinned: Iterable[Pair] = (), changed: Iterable[Pair] = (), absent: Iterable[PlayerId] = ()) -> Draft:
+    """Number the boards (C.04.2 order, see the module notes) and flag them in the Dutch system's terms."""
+    everyone = [p for pair in sided for p in pair] + ([bye] if bye is not None else [])
+    if ent is None:
+        ent = Entrants(state, rnd, everyone)
     fld = Field(state, rnd, everyone)
-    base = assemble(state, fld, [(p, p) for p in list(ov.pinned) + sided], bye,
-                    pinned=ov.pinned, absent=ov.absent)
-    pinned = set(ov.pinned)
-    score = {p: ent.score.get(p, fld.units[p]) for p in everyone}
-    rank = {p: i for i, p in enumerate(sorted(everyone, key=lambda p: (-score[p], ent.tpn[p])))}
+    base = assemble(state, fld, [(p, p) for p in sided], bye, pinned=pinned, changed=changed, absent=absent)
+    rank = {p: i for i, p in enumerate(ent.order)}
 
     def order(b: DraftBoard) -> tuple[int, int, int]:
-        hi = max(score[b.first], score[b.second])
-        return (-hi, -(score[b.first] + score[b.second]), min(rank[b.first], rank[b.second]))
+        hi = max(ent.score[b.first], ent.score[b.second])
+        return (-hi, -(ent.score[b.first] + ent.score[b.second]), min(rank[b.first], rank[b.second]))
 
-    boards = tuple(
-        DraftBoard(number, b.first, b.second, b.cost, _flags(ent, b, (b.first, b.second) in pinned))
+    numbered = tuple(
+        DraftBoard(number, b.first, b.second, b.cost,
+                   ("pinned",) if "pinned" in b.flags else _flags(ent, b) + (("changed",) if "changed" in b.flags
+                                                                            else ()))
         for number, b in enumerate(sorted(base.boards, key=order), 1)
     )
-    return Draft(base.round, boards, base.byes, base.cost, base.engine_version, base.gaps, base.bye_cost,
+    return Draft(base.round, numbered, base.byes, base.cost, base.engine_version, base.gaps, base.bye_cost,
                  base.unit)
 
 
-def _flags(ent: Entrants, b: DraftBoard, pinned: bool) -> tuple[str, ...]:
+def _flags(ent: Entrants, b: DraftBoard) -> tuple[str, ...]:
     """Board flags (naming.md's words) as the Dutch criteria see the board."""
     out: list[str] = []
-    if pinned:
-        return ("pinned",)
+    if b.second in ent.met[b.first]:
+        out.append("rematch")  # only an organiser's change can make one (C.1)
     hi, lo = (b.first, b.second) if ent.score[b.first] >= ent.score[b.second] else (b.second, b.first)
     gap = ent.score[hi] - ent.score[lo]
     if gap:

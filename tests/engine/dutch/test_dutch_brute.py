@@ -24,7 +24,7 @@ from pairings import events as ev
 from pairings.engine import draft_round
 from pairings.engine.dutch import plan
 from pairings.engine.dutch.criteria import (
-    Bracket, Costs, better, float_costs, next_float_costs, next_pair_costs, pair_costs,
+    Bracket, Costs, float_costs, next_float_costs, next_pair_costs, pair_costs,
 )
 from pairings.engine.dutch.entrants import Entrants
 from pairings.engine.dutch.generation import heterogeneous
@@ -34,6 +34,15 @@ from pairings.errors import NoPairingError
 from pairings.state import Acceleration, EventState, PlayerId, System
 
 Pair = tuple[PlayerId, PlayerId]
+
+
+def better(a: Costs, b: Costs) -> int:
+    """-1 if ``a`` is the better quality vector (criteria compared one by one, C.5 first), 1 if ``b``, 0 if equal."""
+    for layer in sorted(set(a) | set(b)):
+        x, y = a.get(layer, 0), b.get(layer, 0)
+        if x != y:
+            return -1 if x < y else 1
+    return 0
 
 
 def complete_pairings(ent: Entrants, players: Sequence[PlayerId]) -> Iterator[tuple[list[Pair], PlayerId | None]]:

@@ -272,3 +272,52 @@ def test_same_draft_with_and_without_the_compiled_kernel() -> None:
         assert [(b.first, b.second) for b in fast.boards] == [(b.first, b.second) for b in slow.boards]
         assert fast.pairing_bye == slow.pairing_bye
         play(log, fast, rng)
+
+
+def test_swap_keeps_the_dutch_colours_and_board_order() -> None:
+    # The hand-derived round 2 (2-1, 4-3, 6-5); swapping 3 and 5 re-pairs by hand 3-6 (a rematch of round 1,
+    # flagged) and 4-5. Dutch colours: 3 had White, 6 Black: 6 gets White (rule 1); 4 had Black, 5 White:
+    # 4 gets White. Board order: 6-3 (0.5 points each) before 4-5.
+    from pairings.engine import swap
+
+    log = _event(6, seed=_seed_with_white())
+    _record(log, 1, [Result.FIRST_WINS, Result.SECOND_WINS, Result.DRAW])
+    st = state_of(log)
+    swapped = swap(st, draft_round(st), P[2], P[4])
+    assert [(b.first, b.second) for b in swapped.boards] == [(P[1], P[0]), (P[5], P[2]), (P[3], P[4])]
+    assert all("changed" in b.flags for b in swapped.boards[1:])
+    assert "rematch" in swapped.boards[1].flags and "rematch" not in swapped.boards[2].flags
+
+
+def test_baku_late_entrant_joins_by_rank() -> None:
+    # C.04.5.1 (read): the last GA player stays last of GA; a late entrant ranked above him joins GA
+    # (our reading: membership by rank), one ranked below joins GB. N = 8 -> GA = 1-4, boundary player 4.
+    log = new_event([2400 - 10 * i for i in range(8)], rounds=9, acceleration=Acceleration.BAKU)
+    log.append(ev.PlayerRegistered(id="hi", name="High Late", rating=2395, entry_round=2))
+    log.append(ev.PlayerRegistered(id="lo", name="Low Late", rating=2355, entry_round=2))
+    st = state_of(log)
+    ga = group_a(st, st.initial_rank())
+    assert ga == frozenset(P[:4]) | {PlayerId("hi")}
+
+
+def test_a_dutch_event_from_the_command_line(tmp_path: Path, capsys: pytest.CaptureFixture[str]) -> None:
+    import json
+
+    def ok(*args: object) -> str:
+        code = main([str(a) for a in args])
+        out = capsys.readouterr()
+        assert code == 0, out.err
+        return out.out
+
+    path = tmp_path / "d.pairings"
+    ok("new", path, "--name", "Dutch Club", "--rounds", "3", "--system", "dutch", "--seed", "5")
+    for i, name in enumerate(["Ada Quince", "Bo Rill", "Cy Marsh", "Dee Fenn", "Eli Stowe"]):
+        ok("player", "add", path, "--name", name, "--rating", 2000 - 100 * i)
+    for rnd in (1, 2):
+        doc = json.loads(ok("pair", path, "--json"))
+        assert len(doc["games"]) == 2 and all("flags" in g for g in doc["games"])
+        ok("publish", path)
+        for board in (1, 2):
+            ok("result", path, board, "1-0")
+    report = ok("verify", path)
+    assert "Dutch system run again: same pairs and PAB" in report
