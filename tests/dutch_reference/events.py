@@ -74,8 +74,8 @@ def play_event(seed: int, check: Callable[[RoundCheck], None]) -> int:
             details=ev.PlayerDetailsModel(title=title) if title else None,
         ))
     if rng.random() < 0.1:  # a do-not-pair entry, kept as absolutely as a meeting
-        a, b = rng.sample(range(1, n + 1), 2)
-        log.append(ev.PairForbidden(a=f"p{a}", b=f"p{b}", reason="same family"))
+        x, y = rng.sample(range(1, n + 1), 2)
+        log.append(ev.PairForbidden(a=f"p{x}", b=f"p{y}", reason="same family"))
     withdrawn: set[str] = set()
     checked = 0
     for rnd in range(1, rounds + 1):
