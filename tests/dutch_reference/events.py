@@ -48,11 +48,12 @@ def _result(rng: random.Random) -> Result:
     return Result.FIRST_WINS if u < 0.68 else Result.SECOND_WINS
 
 
-def play_event(seed: int, check: Callable[[RoundCheck], None]) -> int:
+def play_event(seed: int, check: Callable[[RoundCheck], None], players: tuple[int, int] = (4, 14),
+               most_rounds: int = 8) -> int:
     """Play event ``seed`` to its last round (or until the product refuses a round); returns rounds checked."""
     rng = random.Random(seed)
-    n = rng.randint(4, 14)
-    rounds = rng.randint(3, max(3, min(n - 1, 8)))
+    n = rng.randint(*players)
+    rounds = rng.randint(3, max(3, min(n - 1, most_rounds)))
     # now and then: 3-1-0 scoring, forfeits that are no meeting, full-point requested byes
     scoring = ev.ScoringModel(win=3.0, draw=1.0, loss=0.0) if rng.random() < 0.1 else ev.ScoringModel()
     forfeit_is_meeting = rng.random() >= 0.15

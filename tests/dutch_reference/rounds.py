@@ -6,10 +6,11 @@ next one as MDPs. When the floaters of the bracket just paired, with all the
 players below, cannot complete the round, that bracket is the penultimate
 pairing bracket (PPB): every player below collapses into one last bracket
 (CLB) and the PPB is paired again choosing its floaters so that the CLB can be
-completed (C.4). Our reading where the spec is silent: if even that fails,
-the PPB joins the CLB and the bracket above becomes the PPB, up to the whole
-field as one bracket. A last bracket whose MDPs could only be paired with
-each other is paired as one group (the product's documented decision).
+completed (C.4). That re-pairing always succeeds: the bracket above let
+the rest be completed, and that completion, restricted to this bracket, is one
+of its candidates (its MDP-MDP pairs, if any, floating into the CLB). A last
+bracket whose MDPs could only be paired with each other is paired as one group
+(the product's documented decision).
 """
 
 from __future__ import annotations
@@ -93,40 +94,25 @@ def pair_brackets(facts: Facts, route: str = HANDBOOK) -> list[Outcome]:
 
     results: list[Outcome] = []
     mdps: list[PlayerId] = []
-    k = 0
-    while True:
-        if k == len(groups) - 1:
-            out = _last(facts, mdps, groups[k])
-            if out is not None:
-                return results + [out]
-            j = k - 1
-            break
+    for k in range(len(groups) - 1):
         everywhere = route == EVERYWHERE
         nxt_last = k + 1 == len(groups) - 1
         out = Bracket(facts, mdps, groups[k], complete=keeps(k) if everywhere else None,
                       next_residents=groups[k + 1], next_is_last=nxt_last,
                       next_complete=keeps(k + 1) if everywhere and not nxt_last else None).solve()
         assert out is not None  # everyone may float from a bracket that is not the last
-        if complete(frozenset(out.floaters) | rest_of(k)):
-            results.append(out)
-            mdps = list(out.floaters)
-            k += 1
-            continue
-        j = k
-        break
-    while j >= 0:
-        rest = [p for g in groups[j + 1:] for p in g]
-        incoming = list(results[j - 1].floaters) if j > 0 else []
-        ppb = Bracket(facts, incoming, groups[j], complete=keeps(j)).solve()
-        if ppb is not None:
-            clb = _last(facts, list(ppb.floaters), rest)
-            if clb is not None:
-                return results[:j] + [ppb, clb]
-        j -= 1
-    whole = Bracket(facts, [], sorted(ents, key=facts.rank), last=True).solve()
-    if whole is None:
-        raise Unpairable("no pairing keeps C.1-C.3")
-    return [whole]
+        if not complete(frozenset(out.floaters) | rest_of(k)):
+            # this bracket is the PPB: paired again by C.4, the rest collapses into the CLB
+            ppb = Bracket(facts, mdps, groups[k], complete=keeps(k)).solve()
+            assert ppb is not None  # the completion found above restricted to this bracket is a candidate
+            clb = _last(facts, list(ppb.floaters), list(rest_of(k)))
+            assert clb is not None  # the PPB's floaters with the rest can be completed (C.4)
+            return results + [ppb, clb]
+        results.append(out)
+        mdps = list(out.floaters)
+    last = _last(facts, mdps, groups[-1])
+    assert last is not None  # the bracket above left a rest that can be completed
+    return results + [last]
 
 
 def reference_round(state: EventState, route: str = HANDBOOK) -> ReferenceRound:
