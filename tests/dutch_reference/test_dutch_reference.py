@@ -50,7 +50,7 @@ def _reference(rc: RoundCheck, route: str | None = None) -> Answer:
     return ref.boards, ref.pab
 
 
-def compare(seeds: range) -> Tally:
+def compare(seeds: range, players: tuple[int, int] = (4, 14), most_rounds: int = 8) -> Tally:
     """Play every event of ``seeds`` along the product's drafts, comparing each round with the reference."""
     tally = Tally()
     for seed in seeds:
@@ -71,7 +71,7 @@ def compare(seeds: range) -> Tally:
             else:
                 tally.unexplained.append((rc.seed, rc.round, product, mine))
 
-        play_event(seed, check)
+        play_event(seed, check, players, most_rounds)
         tally.events += 1
         if tally.rounds - tally.agree - tally.refused_by_both == before:
             tally.events_all_agree += 1
@@ -88,6 +88,11 @@ def _check(tally: Tally, events: int) -> None:
 
 def test_product_agrees_with_reference_on_300_events() -> None:
     _check(compare(range(300)), 300)
+
+
+def test_product_agrees_with_reference_on_small_long_events() -> None:
+    # 5-9 players over up to 8 rounds: late rounds often need the PPB/CLB route
+    _check(compare(range(10_000, 10_150), (5, 9), 8), 150)
 
 
 @pytest.mark.full
