@@ -1,7 +1,7 @@
 """The pairing engine: optimal, explainable Swiss pairings by maximum-weight matching.
 
 Pure: no I/O, no UI, no SQLite. Criteria and weights are explained for
-arbiters in ``docs/engine.md``; the rules are ``shared/rules.md``.
+arbiters in ``docs/engine.md``; the rules (H1-H5, S1-S6) are stated there too.
 """
 
 from pairings.engine.draft import draft_round, rebuild, swap

@@ -1,4 +1,4 @@
-"""The rules of ``shared/rules.md`` as costs of one pair (or of the pairing bye).
+"""The pairing rules (docs/engine.md) as costs of one pair (or of the pairing bye).
 
 A :class:`Field` holds everything the rules need about the players to pair in
 one round: scores in integer scoring units, score groups, ranks, side
@@ -11,7 +11,7 @@ the field; H5 (do-not-pair) is :meth:`Field.forbidden`, never relaxed.
 References
 ----------
 FIDE Handbook C.04.1 "Basic rules for Swiss systems" (b, c, d, f, g), restated
-in ``shared/rules.md`` (H1-H5, S1-S6).
+in docs/engine.md (H1-H5, S1-S6).
 """
 
 from __future__ import annotations
