@@ -12,7 +12,7 @@ from __future__ import annotations
 from dataclasses import dataclass, field
 from enum import StrEnum
 from types import MappingProxyType
-from typing import Mapping, NewType
+from typing import Iterable, Mapping, NewType
 
 from pairings.errors import ResultCodeError
 
@@ -188,6 +188,22 @@ class Settings:
     """The last round a requested bye may be asked for (None: any round)."""
     changed_after: tuple[tuple[int, str], ...] = ()
     """(round, setting) for each setting changed once that round was published (the sheets say so)."""
+
+
+TITLES: tuple[str, ...] = ("GM", "IM", "WGM", "FM", "WIM", "CM", "WFM", "WCM")
+"""The FIDE titles, in the precedence of the initial order (C.04.2 initial order; FIDE Handbook B.01 for the
+titles; both from memory)."""
+
+
+def initial_order(players: Iterable[Player], default_rating: int, by_title: bool) -> tuple[PlayerId, ...]:
+    """Players by rating descending (``default_rating`` for the unrated), then (``by_title``) title in
+    :data:`TITLES` precedence, untitled last, then name casefolded, then registration order."""
+    def key(p: Player) -> tuple[int, int, str, int]:
+        title = (p.details.title or "").upper() if by_title else ""
+        rank = TITLES.index(title) if title in TITLES else len(TITLES)
+        return (-(p.rating if p.rating is not None else default_rating), rank, p.name.casefold(), p.order)
+
+    return tuple(p.id for p in sorted(players, key=key))
 
 
 SYSTEM_NAMES: Mapping[str, tuple[System, bool]] = MappingProxyType({
@@ -502,15 +518,15 @@ class EventState:
         return self.records[player].score
 
     def initial_rank(self) -> tuple[PlayerId, ...]:
-        """Rating descending, then name casefolded, then registration (rules.md)."""
-        default = self.settings.default_rating
-        return tuple(
-            p.id
-            for p in sorted(
-                self.players.values(),
-                key=lambda p: (-(p.rating if p.rating is not None else default), p.name.casefold(), p.order),
-            )
-        )
+        """Every registered player in initial order; start (pairing) number ``k`` is position ``k - 1``.
+
+        Rating descending (unrated players take the event's default rating), then name casefolded, then
+        registration (docs/engine.md). The FIDE (Dutch) System puts the title between rating and name
+        (C.04.2 initial order, from memory; :data:`TITLES` gives the precedence), so that the sheets' start
+        numbers are the Dutch pairing numbers.
+        """
+        return initial_order(self.players.values(), self.settings.default_rating,
+                             by_title=self.settings.system is System.DUTCH)
 
     def available(self, round_number: int) -> tuple[PlayerId, ...]:
         """Players to pair in ``round_number`` (H4), in initial-rank order."""

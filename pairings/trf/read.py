@@ -18,14 +18,12 @@ from pairings.actions import clean_text
 from pairings.errors import InputError, ReportFileError
 from pairings.eventinfo import InfoChange, check_date, checked_info
 from pairings.standings import check_tiebreaks, default_tiebreaks
-from pairings.state import ByeKind, Result, Side, System, Unplayed
+from pairings.state import TITLES, ByeKind, Result, Side, System, Unplayed
 from pairings.trf.layout import (
     BLACK, BYE_CODES, FORFEIT_CODES, HEADER, NO_COLOUR, PLAYED_CODES, PLAYER, PLAYER_TAG, ROUNDS_TAG,
     SCORING_TAG, TIEBREAK_TAG, UNRATED_CODES, WHITE, Span, slot_spans, slot_start,
 )
 from pairings.trf.write import DEFAULT_POINTS, TYPES, Points
-
-TITLES = ("GM", "IM", "WGM", "FM", "WIM", "CM", "WFM", "WCM")
 
 RESULTS = {
     ("1", "0"): Result.FIRST_WINS, ("0", "1"): Result.SECOND_WINS, ("=", "="): Result.DRAW,
