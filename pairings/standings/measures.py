@@ -33,10 +33,11 @@ def trim(items: Iterable[tuple[tuple[Points | int, ...], Amount]], modifier: Mod
 
     Items sort by significance, least significant first; cut drops from the low
     end, median from both ends. Fewer items than the modifier drops leave nothing.
+    Without a modifier every amount is left, in the order given (nothing to sort).
     """
-    ordered = [amount for _, amount in sorted(items, key=lambda item: item[0])]
     if modifier is None:
-        return ordered
+        return [amount for _, amount in items]
+    ordered = [amount for _, amount in sorted(items, key=lambda item: item[0])]
     kind, n = modifier
     if kind == "C":
         return ordered[n:]
@@ -70,8 +71,9 @@ def sonneborn_berger(ctx: Context, modifier: Modifier) -> Values:
     scores): our reading of "least significant", from memory.
     """
     return {
-        pid: total(trim((((_cut_first(ctx, slot), value, slot.fraction * value), slot.fraction * value)
-                         for slot, value in ctx.opponent_values(pid)), modifier))
+        pid: total(trim((((_cut_first(ctx, slot), value, product), product)
+                         for slot, value, product in ((s, v, s.fraction * v) for s, v in ctx.opponent_values(pid))),
+                        modifier))
         for pid in ctx.slots
     }
 

@@ -121,7 +121,6 @@ def standings(
     last = _after_round(state, after_round)
     ctx = build_context(state, last, treatment)
     order = state.initial_rank()
-    seed = {pid: i for i, pid in enumerate(order)}
 
     keys: dict[PlayerId, list[Points]] = {pid: [ctx.points[pid]] for pid in order}
     shown: dict[PlayerId, list[Points]] = {pid: [] for pid in order}
@@ -134,7 +133,7 @@ def standings(
             keys[pid].append(sort_keys[pid])
             shown[pid].append(values[pid])
 
-    ranked = sorted(order, key=lambda pid: ([-k for k in keys[pid]], seed[pid]))
+    ranked = sorted(order, key=lambda pid: keys[pid], reverse=True)   # stable: equal keys stay in initial rank
     ranks = _shared_ranks([tuple(keys[pid]) for pid in ranked])
     rows = tuple(
         StandingsRow(
