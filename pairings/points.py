@@ -57,10 +57,12 @@ def exact(value: Fraction | Decimal | int | float | str) -> Fraction:
     """``value`` as exact points; a float counts as the shortest decimal that prints it
     (``0.1`` is one tenth), which is how a JSON number was written; ``½`` reads as a half.
 
-    Raises :class:`PointsError` for text that is no number, and for infinities or NaN.
+    Raises :class:`PointsError` for text that is no number, infinities, NaN and anything not a number.
     """
     if isinstance(value, Fraction):
         return value
+    if isinstance(value, bool) or not isinstance(value, (Decimal, int, float, str)):
+        raise PointsError(f"{value!r} is not a number of points")
     try:
         if isinstance(value, float):
             return Fraction(repr(value))

@@ -46,8 +46,9 @@ def test_reading_is_exact() -> None:
     for bad in ("x", "", "1/3", "nan", "inf", "0.0000001"):
         with pytest.raises(PointsError):
             parse_points(bad)
-    with pytest.raises(PointsError):
-        exact(float("inf"))
+    for bad_value in (float("inf"), None, True, [1]):   # what a hostile JSON document may hold
+        with pytest.raises(PointsError):
+            exact(bad_value)  # type: ignore[arg-type]
 
 
 def test_sums_of_tenths_are_exact() -> None:
