@@ -99,7 +99,7 @@ class Entrants:
             p: (self.float_in(p, round_number - 1), self.float_in(p, round_number - 2)) for p in self.order
         }
 
-    def _units(self, score: float) -> int:
+    def _units(self, score: Fraction) -> int:
         return int(round(Fraction(score).limit_denominator(1000) / self.unit))
 
     def _may_get_bye(self, p: PlayerId) -> bool:
