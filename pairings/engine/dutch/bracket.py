@@ -355,57 +355,61 @@ class BracketSolver:
     def alone(self, u: PlayerId, exact: bool) -> Costs | None:
         """The cost of ``u`` staying unpaired in a graph; None where that is not allowed.
 
-        Exact form: only the PAB-eligible may take the bye vertex. Fast form: a
-        relaxation (anybody may float below the graph, except from the last
-        bracket and, when nothing lies below it, from the next score group).
+        Exact form: only the PAB-eligible may take the bye vertex. Fast form:
+        anybody may stay unpaired in the next bracket (where that is the last
+        one, :func:`.criteria.next_float_costs` makes it a C.7 breach).
         """
         ent, br = self.ent, self.br
         cost = self.lone(u) if u in self.members else \
             next_float_costs(ent, br, u) if u in self.next else Counter()
-        if exact or br.last or (u in self.next and len(br.lower) == len(br.next)):
+        if exact or br.last:
             return cost if u in ent.pab_eligible else None
         return cost
 
-    def run(self) -> tuple[list[Pair], list[PlayerId]]:
+    def run(self) -> tuple[list[Pair], list[PlayerId]] | None:
         """The bracket's pairs and floaters, by the cheapest form that is provably exact here.
 
-        1. Compact form: the bracket alone, with as few float places as let it
-           be paired (so C.5 is met). Exact when its floaters all hold the
-           bracket's lowest score (no candidate can float lower ones, and C.6
-           fixed their number) and the next bracket can then be paired at its
-           ideal for C.7 (every floater meets a next-group player, the rest of
-           that group pairs up, one left over at most) with the rest of the
-           round still pairable: then no candidate does better on C.7, and the
-           compact choice, best on every other criterion, is the first best.
-        2. Fast form (bracket and next group): a relaxation, exact when the
-           players it leaves below the next bracket, with everyone lower, can
-           still be paired.
-        3. Exact form: every lower player in the graph.
+        - Last bracket (and CLB): the compact form with the parity's one float
+          place, open to the PAB-eligible, which is the exact form there. None
+          when no candidate exists (the caller then pairs it as one group).
+        - PPB (C.4 absolute, no C.7): the compact form when its first best
+          candidate lets the rest be paired (the first best of all candidates
+          is then the first best of the completing ones), else the exact form,
+          every lower player in the graph.
+        - Any other bracket: the compact form, the bracket alone with as few
+          float places as let it be paired (so C.5 is met), when its floaters
+          all hold the bracket's lowest score (no candidate can float lower
+          ones, and C.6 fixed their number) and the next bracket can then be
+          paired at its ideal for C.7 (every floater meets a next-group
+          player, the rest of that group pairs up, one left over at most, the
+          PAB-eligible if the next bracket is the last): no candidate does
+          better on C.7, and the compact choice is best on every other
+          criterion. Else the fast form (bracket and next group), which is C.7
+          itself. Completion is not looked at here: the caller checks it and
+          re-pairs the bracket as the PPB when it fails (:mod:`.rounds`).
         """
         members = len(self.br.members)
-        for slots in range(members % 2, min(members, 4) + 1, 2):
+        most = members % 2 if self.br.last else min(members, 4)
+        for slots in range(members % 2, most + 1, 2):
             g = _Graph(self, "compact", slots)
             if g.optimise():
                 pairs = self._decide(g)
-                if self._ideal_rest(self._floaters(pairs)):
-                    return pairs, self._floaters(pairs)
+                floaters = self._floaters(pairs)
+                if self.br.last or (completable(self.ent, floaters + list(self.br.lower)) if self.br.ppb
+                                    else self._ideal_next(floaters)):
+                    return pairs, floaters
                 break
-        g = _Graph(self, "fast")
-        if g.optimise():
-            pairs = self._decide(g)
-            if completable(self.ent, g.beyond() + list(self.br.lower[len(self.br.next):])):
-                return pairs, self._floaters(pairs)
-        g = _Graph(self, "exact")
-        if not g.optimise():
-            raise ValueError("no completion exists: the caller checks the round first")
+        if self.br.last:
+            return None
+        g = _Graph(self, "exact" if self.br.ppb else "fast")
+        found = g.optimise()
+        assert found, "anybody may float from the fast form; the exact one: the bracket above left a pairable rest"
         pairs = self._decide(g)
         return pairs, self._floaters(pairs)
 
-    def _ideal_rest(self, floaters: list[PlayerId]) -> bool:
-        """The compact form's exactness test (see :meth:`run`); a concrete completion is built."""
+    def _ideal_next(self, floaters: list[PlayerId]) -> bool:
+        """The compact form's exactness test (see :meth:`run`); a concrete next bracket is built."""
         ent, br = self.ent, self.br
-        if br.last:
-            return True
         if any(ent.score[f] != br.score for f in floaters) or len(floaters) > len(br.next):
             return False
         free = list(br.next)
@@ -414,14 +418,10 @@ class BracketSolver:
             if mate is None:
                 return False
             free.remove(mate)
-        beyond = list(br.lower[len(br.next):])
         if len(free) % 2:
-            for x in reversed(free):
-                rest = [q for q in free if q != x]
-                if _dirac(ent, rest) and completable(ent, [x] + beyond):
-                    return True
-            return False
-        return _dirac(ent, free) and completable(ent, beyond)
+            return any(_dirac(ent, [q for q in free if q != x]) and (x in ent.pab_eligible or not br.next_is_last)
+                       for x in reversed(free))
+        return _dirac(ent, free)
 
     def _floaters(self, pairs: list[Pair]) -> list[PlayerId]:
         paired = {p for pair in pairs for p in pair}

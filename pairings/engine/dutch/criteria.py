@@ -15,9 +15,9 @@ the counts level by level compares the sorted lists of score differences):
   difference, a floater's SD is his score minus (the bracket's lowest score
   minus one point); "one point" is the event's win value (our decision);
 - C.7  the next bracket (this bracket's floaters and the next score group):
-  its players left unpaired, then its PSD (applied in every bracket that has
-  a next one: our completion check replaces the PPB/CLB route, see
-  :mod:`pairings.engine.dutch.bracket`);
+  its players left unpaired, then its PSD; not in the penultimate pairing
+  bracket (PPB) nor in the collapsed last bracket (CLB), whose
+  :attr:`Bracket.next` is empty (the route: :mod:`pairings.engine.dutch.rounds`);
 - C.8 / C.9  topscorers or their opponents ending with |CD| > 2 / getting one
   colour three times running (final round only);
 - C.10 players not getting their colour preference; C.11 players not getting
@@ -36,7 +36,7 @@ C.14 count this bracket's floaters only (the MDPs were counted where they floate
 from __future__ import annotations
 
 from collections import Counter
-from dataclasses import dataclass
+from dataclasses import dataclass, replace
 
 from pairings.engine.dutch.colours import Colours, allocate, breaks
 from pairings.engine.dutch.entrants import Entrants
@@ -55,15 +55,26 @@ class Bracket:
     score: int
     """The residents' score (the lowest in the bracket)."""
     next: tuple[PlayerId, ...]
-    """The next score group's players (empty for the last bracket)."""
+    """The next score group's players, the residents C.7 looks at (empty for the last bracket and the PPB)."""
     lower: tuple[PlayerId, ...]
     """Every player below the bracket, next score group first."""
     collapsed: bool = False
     """Last bracket paired as one group, MDPs with each other too (see bracket.py)."""
+    ppb: bool = False
+    """The penultimate pairing bracket: its floaters must let the rest be paired (C.4), no C.7."""
 
     @property
     def last(self) -> bool:
         return not self.lower
+
+    @property
+    def next_is_last(self) -> bool:
+        """The next bracket is the last one: its leftover, if any, is the PAB."""
+        return bool(self.next) and len(self.lower) == len(self.next)
+
+    def penultimate(self) -> "Bracket":
+        """This bracket as the PPB: paired again with completion as an absolute criterion, C.7 not applied."""
+        return replace(self, next=(), ppb=True)
 
     @property
     def heterogeneous(self) -> bool:
@@ -125,6 +136,17 @@ def next_pair_costs(ent: Entrants, br: Bracket, u: PlayerId, v: PlayerId) -> Cos
 
 
 def next_float_costs(ent: Entrants, br: Bracket, u: PlayerId) -> Costs:
-    """C.7: a player of the next bracket left unpaired there."""
+    """C.7: a player of the next bracket left unpaired there.
+
+    When the next bracket is the last one its leftover is the PAB: one at
+    most, PAB-eligible (C.2). Layer ``(69, 0)`` counts each player left there,
+    an ineligible one twice, so a candidate whose next bracket can be paired
+    legally (a count of at most one) beats every other on C.7, and those
+    others, all equally bad for the Handbook, are left to the PPB (any
+    completing candidate is one whose next bracket can be paired).
+    """
     low = ent.score[br.next[0]] if br.next else br.score
-    return Counter({(70, 0): 1, (71, -(ent.score[u] - (low - ent.win))): 1})
+    c = Counter({(70, 0): 1, (71, -(ent.score[u] - (low - ent.win))): 1})
+    if br.next_is_last:
+        c[69, 0] = 1 if u in ent.pab_eligible else 2
+    return c

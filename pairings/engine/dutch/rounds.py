@@ -17,7 +17,7 @@ absolute (C.1-like).
 
 from __future__ import annotations
 
-from dataclasses import dataclass
+from dataclasses import dataclass, replace
 from typing import Iterable, Mapping, Sequence
 
 from pairings.engine.criteria import Field
@@ -79,22 +79,44 @@ def plan(state: EventState, ov: Overrides = Overrides()) -> Plan:
             "no two players with the same absolute colour, one PAB to an eligible player)"
         )
     groups = ent.groups()
+    if not groups:
+        return Plan(ent, (), None)
     cache: dict[object, Costs] = {}
     done: list[Paired] = []
     carried: list[PlayerId] = []
-    for top in range(len(groups)):
+    for top in range(len(groups) - 1):
         br = bracket_of(ent, groups, top, carried)
-        try:
-            pairs, floaters = BracketSolver(ent, br, cache).run()
-        except ValueError:
-            if not br.last:
-                raise
-            br = Bracket(br.members, br.mdps, br.score, br.next, br.lower, collapsed=True)
-            pairs, floaters = BracketSolver(ent, br, cache).run()
-        done.append(Paired(br, tuple(pairs), tuple(floaters)))
-        carried = floaters
-    assert len(carried) <= 1
-    return Plan(ent, tuple(done), carried[0] if carried else None)
+        found = BracketSolver(ent, br, cache).run()
+        assert found is not None, "only the last bracket can lack a candidate"
+        if not completable(ent, found[1] + list(br.lower)):
+            # C.4: this bracket is the PPB; everyone below collapses into the CLB
+            ppb = br.penultimate()
+            again = BracketSolver(ent, ppb, cache).run()
+            assert again is not None, "the bracket above left a rest that can be paired"
+            done.append(Paired(ppb, tuple(again[0]), tuple(again[1])))
+            return _finish(ent, done, collapsed_last(ent, ppb, again[1]), cache)
+        done.append(Paired(br, tuple(found[0]), tuple(found[1])))
+        carried = found[1]
+    return _finish(ent, done, bracket_of(ent, groups, len(groups) - 1, carried), cache)
+
+
+def collapsed_last(ent: Entrants, ppb: Bracket, floaters: Sequence[PlayerId]) -> Bracket:
+    """The CLB: the PPB's floaters (its MDPs) and every player below the PPB, paired as one last bracket."""
+    members = tuple(sorted([*floaters, *ppb.lower], key=ent.rank.__getitem__))
+    return Bracket(members, frozenset(floaters), min(ent.score[p] for p in ppb.lower), (), ())
+
+
+def _finish(ent: Entrants, done: list[Paired], last: Bracket, cache: dict[object, Costs]) -> Plan:
+    """Pair the last bracket (as one group if its MDPs could only be paired with each other) and close the plan."""
+    found = BracketSolver(ent, last, cache).run()
+    if found is None and last.heterogeneous:
+        last = replace(last, collapsed=True)
+        found = BracketSolver(ent, last, cache).run()
+    assert found is not None, "the bracket above left a rest that can be paired"
+    pairs, floaters = found
+    assert len(floaters) <= 1
+    done.append(Paired(last, tuple(pairs), tuple(floaters)))
+    return Plan(ent, tuple(done), floaters[0] if floaters else None)
 
 
 def draft_dutch(state: EventState, ov: Overrides = Overrides()) -> Draft:
