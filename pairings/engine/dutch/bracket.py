@@ -1,4 +1,4 @@
-"""One bracket's choice by maximum-weight perfect matching (Edmonds' blossom), and the completion check.
+"""One bracket's choice by maximum-weight perfect matching (Edmonds' blossom), and the completion test.
 
 Method (ours; the criteria are C.04.3's):
 
@@ -12,16 +12,23 @@ Method (ours; the criteria are C.04.3's):
   *fast*, the bracket and the next score group, each vertex given a private
   way to stay unpaired by doubling the graph (two copies, each vertex joined
   to its own copy: a perfect matching of the doubled graph is two equally good
-  matchings of the original); *exact*, the bracket and every lower player (plus
-  one bye vertex, joined to the PAB-eligible, when the count is odd), where a
-  member matched below the bracket floats.
-- **Completion (C.4).** The players left for later must still be pairable
-  under the absolute criteria with at most one PAB to an eligible player
-  (:func:`completable`: Dirac's degree bound, else a matching). The compact
-  and fast forms are relaxations; each is accepted only with a completion at
-  hand. Checking completion in every bracket replaces the Handbook's PPB/CLB
-  re-pairing (a decision: it gives the same pairing whenever only the bracket
-  just above the unpairable rest has to change).
+  matchings of the original), which is C.7's own look at the next bracket;
+  *exact*, for the PPB only: the bracket and every lower player (plus one bye
+  vertex, joined to the PAB-eligible, when the count is odd), where a member
+  matched below the bracket floats, so that a perfect matching is a
+  completion of the round.
+- **The Handbook's route (C.04.3 C.4, C.7; the PPB and CLB, from memory).** A
+  bracket is paired by C.5-C.19, C.7 included, without looking further down;
+  :mod:`.rounds` then checks that its floaters and every lower player can
+  still be paired under the absolute criteria with at most one PAB to an
+  eligible player (:func:`completable`: Dirac's degree bound, else a
+  matching). When they cannot, the bracket is the penultimate pairing bracket
+  (PPB): paired again with that completion as an absolute requirement and
+  without C.7 (its :attr:`~.criteria.Bracket.next` is empty), and every
+  player below it, with its floaters as MDPs, forms the collapsed last bracket
+  (CLB), paired as one last bracket. Where the next bracket is the last one,
+  C.7 counts a leftover beyond one PAB-eligible player as a breach (see
+  :func:`.criteria.next_float_costs`).
 - **Generation order (the final tie-break).** After the quality solve, the
   optimal dual marks the quality-optimal face: an edge's penalty is 1 if its
   reduced cost is not zero, plus 1 per positive-dual blossom it crosses; by
@@ -39,9 +46,8 @@ Method (ours; the criteria are C.04.3's):
   places at a time (digit base ``len(S2) + 1``), each block's pairs fixed
   before the next. Digits that would pass the compiled kernel's integers are
   avoided by the block sizes; the pure-Python blossom takes any size.
-- A last bracket that cannot be paired without pairing MDPs with each other
-  is paired as one homogeneous group (the collapsed last bracket: our reading
-  of the Handbook's CLB).
+- A last bracket (the CLB included) that cannot be paired without pairing
+  MDPs with each other is paired as one homogeneous group (our decision).
 """
 
 from __future__ import annotations

@@ -4,6 +4,17 @@
 group's residents plus the players the bracket above left unpaired); the last
 bracket's floater, if any, is the pairing-allocated bye (C.04.1 rule 3,
 eligibility rule 4: it falls out of the lowest bracket's processing).
+Completion (C.4, the PPB/CLB route as remembered from the 2017 text, which
+the 2025 edition keeps in renumbered articles): each bracket is paired
+normally (C.7 included); when its floaters and every player below cannot be
+paired any more, that bracket is the penultimate pairing bracket (PPB), paired
+again with its floaters chosen so that the rest can be (C.4 absolute, C.7 not
+applied: it looks "just at the following bracket", which is now the last),
+and the rest, the PPB's floaters as its MDPs, is paired as the collapsed last
+bracket (CLB). Pairing the PPB again always succeeds: the bracket above left
+a rest that can be paired, and that pairing restricted to the PPB is one of
+its candidates (two of its MDPs paired together there float into the CLB,
+which then pairs as one group).
 :func:`draft_dutch` turns the plan into a :class:`~pairings.engine.types.Draft`:
 colours by :mod:`.colours`, boards in the order of C.04.2 (from memory): the
 higher pairing score of the pair, then the pair's sum, then the rank (Art.
