@@ -311,19 +311,22 @@ class BracketSolver:
         """The pair's costs, shared by every pair of the same two player profiles.
 
         Outside topscorers' pairs the costs depend only on the two scores,
-        colour preferences (side and strength) and float histories: when both
-        want one colour exactly one misses it, the weaker (rule 2) or one of
-        equal strength, so who gets it changes no count.
+        colour preferences (side and strength), float histories and whether
+        the higher is one of the bracket's MDPs (C.12 or C.16, see
+        :func:`.criteria.pair_costs`): when both want one colour exactly one
+        misses it, the weaker (rule 2) or one of equal strength, so who gets it
+        changes no count.
         """
-        ent = self.ent
+        ent, br = self.ent, self.br
+        hi, lo = (u, v) if ent.score[u] >= ent.score[v] else (v, u)
+        moved = ent.score[hi] != ent.score[lo] and br.heterogeneous and hi in br.mdps
         if u in ent.topscorers or v in ent.topscorers:
-            key: object = frozenset((u, v))
+            key: object = (frozenset((u, v)), moved)
         else:
-            hi, lo = (u, v) if ent.score[u] >= ent.score[v] else (v, u)
             a, b = self.profile(hi), self.profile(lo)
-            key = (a, b) if ent.score[hi] != ent.score[lo] else frozenset((a, b))
+            key = (a, b, moved) if ent.score[hi] != ent.score[lo] else frozenset((a, b))
         if key not in self.cache:
-            self.cache[key] = pair_costs(ent, self.br, u, v)[0]
+            self.cache[key] = pair_costs(ent, br, u, v)[0]
         return self.cache[key]
 
     def profile(self, p: PlayerId) -> tuple[object, ...]:

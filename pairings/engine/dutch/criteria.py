@@ -26,11 +26,14 @@ the counts level by level compares the sorted lists of score differences):
   who also downfloated one / two rounds before;
 - C.13 / C.15  residents paired with a higher-scored MDP who also upfloated
   one / two rounds before;
-- C.16 / C.18  the SDs of MDPs paired here who also downfloated one / two rounds
-  before; C.17 / C.19 the SDs of their opponents who also upfloated.
+- C.16 / C.18  the SDs of the bracket's MDPs who also downfloated one / two
+  rounds before: a paired MDP's pair SD, an MDP floating on with his floater
+  SD; C.17 / C.19 the SDs of the upfloaters among C.13 / C.15.
 
 MDPs paired in this bracket downfloat whatever candidate is chosen, so C.12 and
-C.14 count this bracket's floaters only (the MDPs were counted where they floated).
+C.14 count this bracket's floaters only (the MDPs were counted where they
+floated), and the residents of the CLB (or of a last bracket paired as one
+group) paired with a lower-scored player, whose downfloat this bracket decides.
 """
 
 from __future__ import annotations
@@ -109,24 +112,31 @@ def pair_costs(ent: Entrants, br: Bracket, u: PlayerId, v: PlayerId) -> tuple[Co
             c[100, 0] = len(lost)
             c[110, 0] = sum(1 for p in lost if p.strength >= 2)
     if sd:
+        moved = br.heterogeneous and hi in br.mdps
         for back, part in ((1, 0), (2, 20)):
             if _repeat(ent, lo, Float.UP, back):
                 c[130 + part, 0] += 1
                 c[170 + part, -sd] += 1
             if _repeat(ent, hi, Float.DOWN, back):
-                c[160 + part, -sd] += 1
+                if moved:
+                    c[160 + part, -sd] += 1
+                else:  # a resident of the CLB (or a one-group last bracket) downfloats in this bracket
+                    c[120 + part, 0] += 1
     return c, colours
 
 
 def float_costs(ent: Entrants, br: Bracket, u: PlayerId) -> Costs:
     """Costs of ``u`` leaving the bracket unpaired (a downfloater, or the PAB in the last bracket)."""
     c: Costs = Counter()
+    sd = ent.score[u] - (br.score - ent.win)
     c[50, 0] += 1
-    c[60, -(ent.score[u] - (br.score - ent.win))] += 1
-    if _repeat(ent, u, Float.DOWN, 1):
-        c[120, 0] += 1
-    if _repeat(ent, u, Float.DOWN, 2):
-        c[140, 0] += 1
+    c[60, -sd] += 1
+    moved = br.heterogeneous and u in br.mdps
+    for back, part in ((1, 0), (2, 20)):
+        if _repeat(ent, u, Float.DOWN, back):
+            c[120 + part, 0] += 1
+            if moved:  # an MDP floating on: C.16 / C.18 take his floater SD
+                c[160 + part, -sd] += 1
     return c
 
 
