@@ -293,10 +293,6 @@ class _Graph:
         m = self.mate[self.index[p]]
         return self.vertices[m] if m < self.real and self.vertices[m] in self.solver.members else None
 
-    def beyond(self) -> list[PlayerId]:
-        """Players the current matching leaves unpaired in the graph (fast form: floating below it)."""
-        return [p for i, p in enumerate(self.vertices) if self.live[i] and self.mate[i] >= self.real]
-
 
 class BracketSolver:
     """Pairs one bracket: :meth:`run` returns its pairs and its floaters (C.04.3 via matching)."""
@@ -378,8 +374,8 @@ class BracketSolver:
     def run(self) -> tuple[list[Pair], list[PlayerId]] | None:
         """The bracket's pairs and floaters, by the cheapest form that is provably exact here.
 
-        - Last bracket (and CLB): the compact form with the parity's one float
-          place, open to the PAB-eligible, which is the exact form there. None
+        - Last bracket (and CLB): the compact form with a float place only if
+          the count is odd, open to the PAB-eligible: the exact form there. None
           when no candidate exists (the caller then pairs it as one group).
         - PPB (C.4 absolute, no C.7): the compact form when its first best
           candidate lets the rest be paired (the first best of all candidates

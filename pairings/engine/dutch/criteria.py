@@ -151,9 +151,10 @@ def next_float_costs(ent: Entrants, br: Bracket, u: PlayerId) -> Costs:
     When the next bracket is the last one its leftover is the PAB: one at
     most, PAB-eligible (C.2). Layer ``(69, 0)`` counts each player left there,
     an ineligible one twice, so a candidate whose next bracket can be paired
-    legally (a count of at most one) beats every other on C.7, and those
-    others, all equally bad for the Handbook, are left to the PPB (any
-    completing candidate is one whose next bracket can be paired).
+    legally (a count of at most one) beats every other on C.7. Those others
+    are all equally bad for the Handbook; a choice among them cannot complete
+    the round (unless its last bracket pairs as one group, see docs/engine.md)
+    and the bracket is paired again as the PPB.
     """
     low = ent.score[br.next[0]] if br.next else br.score
     c = Counter({(70, 0): 1, (71, -(ent.score[u] - (low - ent.win))): 1})

@@ -13,8 +13,8 @@ applied: it looks "just at the following bracket", which is now the last),
 and the rest, the PPB's floaters as its MDPs, is paired as the collapsed last
 bracket (CLB). Pairing the PPB again always succeeds: the bracket above left
 a rest that can be paired, and that pairing restricted to the PPB is one of
-its candidates (two of its MDPs paired together there float into the CLB,
-which then pairs as one group).
+its candidates (two of its MDPs paired with each other there both float into
+the CLB, which is paired as one group if it must).
 :func:`draft_dutch` turns the plan into a :class:`~pairings.engine.types.Draft`:
 colours by :mod:`.colours`, boards in the order of C.04.2 (from memory): the
 higher pairing score of the pair, then the pair's sum, then the rank (Art.
