@@ -24,7 +24,8 @@ def _stored(value: Points, info: SerializationInfo) -> Points | float:
 
 StoredPoints = Annotated[Points, PlainValidator(exact), PlainSerializer(_stored, return_type=Any)]
 """Points in an event: exact (:mod:`pairings.points`), written as a JSON number. Configured points
-have at most six decimals, so the stored float reads back as the same decimal."""
+have at most three decimals (:data:`pairings.points.PLACES`), so the stored float reads back as the
+same decimal."""
 
 
 class _Event(BaseModel):

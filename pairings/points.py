@@ -12,7 +12,8 @@ drift, equal scores stay equal, and no rounding is needed to compare them.
 Stored files and the interchange document keep JSON numbers: configured points
 are decimals of at most :data:`PLACES` places (``parse_points``), so the float a
 JSON reader makes of them prints back as the same decimal, and :func:`exact`
-reads it as that decimal exactly.
+reads it as that decimal exactly (the engine's own score units, a thousandth at
+the finest, cover them too).
 
 How points are written, by output kind (the one rule of each):
 
@@ -20,11 +21,11 @@ How points are written, by output kind (the one rule of each):
   and quarters as glyphs (``2½``, ``¼``, ``3¾``), anything else with at most two
   decimals (``1.33``);
 * the desk, the command line, the log and the settings: ``points_text(x)``, a
-  decimal as an organiser types it (``2.5``, ``3``), at most :data:`PLACES` decimals;
+  decimal as an organiser types it (``2.5``, ``3``), at most :data:`SHOWN_PLACES` decimals;
 * the FIDE report file: ``points_text(x, "report")``, at least one decimal
   (``3.0``, ``2.5``, ``0.25``), as TRF16 writes points;
 * data (CSV cells, JSON numbers): :func:`points_number`, a number (``3``,
-  ``2.5``), at most :data:`PLACES` decimals.
+  ``2.5``), at most :data:`SHOWN_PLACES` decimals.
 
 Result marks in crosstable and grid cells (``1``, ``½``, ``0``, ``+``, ``−``)
 are symbols of an outcome, not numbers of points (a 3-1-0 win is marked ``1``):
@@ -42,8 +43,11 @@ Points = Fraction
 """A number of points, exact."""
 
 ZERO = Fraction(0)
-PLACES = 6
-"""Most decimals a configured number of points may have (and data outputs write)."""
+PLACES = 3
+"""Most decimals a configured number of points may have (``0.125``)."""
+_SCALE: int = 10**PLACES
+SHOWN_PLACES = 6
+"""Most decimals the desk and data outputs write (a tiebreak may be a third: ``1.666667``)."""
 
 Style = Literal["plain", "sheet", "report"]
 _GLYPHS = {Fraction(1, 4): "¼", Fraction(1, 2): "½", Fraction(3, 4): "¾"}
@@ -79,9 +83,14 @@ def parse_points(text: str) -> Fraction:
     Raises :class:`PointsError` naming the problem.
     """
     value = exact(text)
-    if (value * 10**PLACES).denominator != 1:
+    if not configurable(value):
         raise PointsError(f"{text.strip()!r} has more than {PLACES} decimals")
     return value
+
+
+def configurable(value: Fraction) -> bool:
+    """True when ``value`` has at most :data:`PLACES` decimals (what a setting may hold)."""
+    return (value * _SCALE).denominator == 1
 
 
 def total(values: Iterable[Fraction]) -> Fraction:
@@ -104,16 +113,16 @@ def total(values: Iterable[Fraction]) -> Fraction:
 
 def points_number(value: Fraction) -> int | float:
     """A number for CSV and JSON: whole values as integers (``3``), others as a decimal of at most
-    :data:`PLACES` places (a fraction such as ⅓ of a tiebreak is rounded there, half to even)."""
+    :data:`SHOWN_PLACES` places (a fraction such as ⅓ of a tiebreak is rounded there, half to even)."""
     if value.denominator == 1:
         return value.numerator
-    return float(round(value, PLACES))
+    return float(round(value, SHOWN_PLACES))
 
 
 def points_text(value: Fraction, style: Style = "plain") -> str:
     """``value`` as text for ``style``: ``plain`` (``2.5``), ``sheet`` (``2½``) or ``report`` (``3.0``);
     see the module notes."""
-    places = 2 if style == "sheet" else PLACES
+    places = 2 if style == "sheet" else SHOWN_PLACES
     rounded = round(value, places)
     sign = "−" if style == "sheet" and rounded < 0 else "-" if rounded < 0 else ""
     whole, part = divmod(abs(rounded), 1)

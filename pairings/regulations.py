@@ -28,7 +28,7 @@ from typing import Any, Callable, Mapping
 
 from pairings import events as ev
 from pairings.errors import InputError, RoundStateError
-from pairings.points import PLACES, Points, PointsError, parse_points, points_number, points_text
+from pairings.points import PLACES, Points, PointsError, configurable, parse_points, points_number, points_text
 from pairings.state import (
     SYSTEM_NAMES, Acceleration, EventState, RoundState, Scoring, Settings, System, Unplayed, system_name,
 )
@@ -213,6 +213,11 @@ def setting_texts(s: Settings) -> dict[str, str]:
 def check_consistent(s: Settings) -> None:
     """Refuse settings that contradict each other (checked on the settings as they would become)."""
     win = s.scoring.win
+    for value, what in ((win, "a win's points"), (s.scoring.draw, "a draw's points"),
+                        (s.scoring.loss, "a loss's points"), (s.bye_points, "bye points"),
+                        (s.requested_bye_points, "requested-bye points"), (s.late_entry_points, "late-entry points")):
+        if not configurable(value):
+            raise SettingsError(f"{what} {points_text(value)} has more than {PLACES} decimals")
     for value, what in ((s.bye_points, "bye points"), (s.requested_bye_points, "requested-bye points"),
                         (s.late_entry_points, "late-entry points")):
         if not 0 <= value <= win:

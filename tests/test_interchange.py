@@ -190,6 +190,8 @@ def test_a_version_1_document_without_the_new_keys_still_restores() -> None:
         (lambda d: d["players"][0].update(federation="England"), "player 'p1': federation"),
         (lambda d: d["players"][0].update(announced=[{"round": 9, "kind": "requested"}]), "round 9 of 4"),
         (lambda d: d["event"].update(bye_points=3), "between 0 and a win"),
+        (lambda d: d["event"].update(bye_points=0.0001), "bye points 0.0001 has more than 3 decimals"),
+        (lambda d: d["event"].update(bye_points=None), "bye_points"),
         (lambda d: d["event"].update(changed_after=[[1, "colour"]]), "changed_after"),
         (lambda d: d["players"][0].update(withdrawn_from=2), "withdrawn_from is given"),
         (lambda d: d["players"][0].update(birth="yesterday"), "player 'p1': birth"),

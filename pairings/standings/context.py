@@ -188,7 +188,8 @@ def build_context(state: EventState, last: int, unplayed: Unplayed, last_drawn: 
             if not entered(state, pid, r):
                 slot = Slot(r, SlotKind.NOT_ENTERED, None, None, slot.points, slot.fraction, slot.won, score)
             row.append(slot)
-            score += slot.points
+            if slot.points:   # a loss or a game to come adds nothing (and a new fraction costs time)
+                score += slot.points
         slots[pid] = tuple(row)
         points[pid] = score
     if unplayed is Unplayed.VIRTUAL_OPPONENT:

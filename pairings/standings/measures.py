@@ -62,6 +62,12 @@ def buchholz(ctx: Context, modifier: Modifier) -> Values:
     }
 
 
+def _weighted(share: Points, value: Points) -> Points:
+    """``share × value``; a win's and a loss's share need no product (most terms, and a product of
+    fractions is the slow part of SB on a large field)."""
+    return value if share == 1 else share * value if share else ZERO
+
+
 def sonneborn_berger(ctx: Context, modifier: Modifier) -> Values:
     """SB: each opponent's score times the player's result against them (1, ½, 0), summed (C.07).
 
@@ -70,12 +76,12 @@ def sonneborn_berger(ctx: Context, modifier: Modifier) -> Values:
     opponents with the lowest scores (the smaller contribution first between equal
     scores): our reading of "least significant", from memory.
     """
-    return {
-        pid: total(trim((((_cut_first(ctx, slot), value, product), product)
-                         for slot, value, product in ((s, v, s.fraction * v) for s, v in ctx.opponent_values(pid))),
-                        modifier))
-        for pid in ctx.slots
-    }
+    def terms(pid: PlayerId) -> Iterable[tuple[tuple[Points | int, ...], Points]]:
+        for slot, value in ctx.opponent_values(pid):
+            product = _weighted(slot.fraction, value)
+            yield (_cut_first(ctx, slot), value, product), product
+
+    return {pid: total(trim(terms(pid), modifier)) for pid in ctx.slots}
 
 
 def fore_buchholz(ctx: Context, modifier: Modifier) -> Values:
