@@ -6,7 +6,6 @@ import asyncio
 from pathlib import Path
 
 import pytest
-
 from textual.widgets import Input, Label, Select
 
 from pairings import actions
