@@ -1,4 +1,5 @@
-"""Run-wide check: a test run leaves the checked-in fixtures (tests/fixtures) exactly as they were.
+"""Run-wide pieces: one command-line parser for the in-process calls, and the check that a test run
+leaves the checked-in fixtures (tests/fixtures) exactly as they were.
 
 Tests copy a fixture to a temporary folder before opening it: SQLite creates ``-wal``
 and ``-shm`` files beside a WAL-mode file even when it only reads, and a changed
@@ -9,12 +10,31 @@ there was added, removed or changed (bytecode caches aside).
 from __future__ import annotations
 
 import hashlib
+from collections.abc import Iterator
 from pathlib import Path
 
 import pytest
 
+from pairings import cli
+
 FIXTURES = Path(__file__).parent / "fixtures"
 _BEFORE = pytest.StashKey[dict[str, str]]()
+
+
+@pytest.fixture(autouse=True, scope="session")
+def one_command_line_parser() -> Iterator[None]:
+    """Every in-process ``pairings.cli.main`` call of the run parses with one parser, built once.
+
+    Building it costs some 10 ms (hundreds of arguments, each help text looked up through
+    gettext), which in-process calls by the thousand paid again on every call. The parser
+    depends on nothing but the code (``parse_args`` leaves it as it was), so one built at the
+    start parses as a fresh one would; real processes (exit-status tests, the wheel) still
+    build their own.
+    """
+    parser = cli.build_parser()
+    with pytest.MonkeyPatch.context() as patch:
+        patch.setattr(cli, "build_parser", lambda: parser)
+        yield
 
 
 def _contents() -> dict[str, str]:

@@ -2,8 +2,6 @@
 
 from __future__ import annotations
 
-import subprocess
-import sys
 from pathlib import Path
 
 import pytest
@@ -13,6 +11,7 @@ from pairings.errors import AmbiguousPlayerError, UnknownPlayerError
 from pairings.state import PlayerId, Status
 from pairings.store import EventStore
 from pairings.text import fold
+from tests.cli.conftest import run_in_process
 
 # Invented names.
 NAMES = [("Zoë Quillfeather", "Tarnside"), ("Anders Ångström", "Nordvik"), ("Søren Bjørnholt", ""),
@@ -51,8 +50,7 @@ def test_find_player_ignores_accents_and_case(store: EventStore) -> None:
 def test_the_command_line_finds_a_player_without_the_accents(store: EventStore, tmp_path: Path) -> None:
     path = store.path
     store.close()
-    proc = subprocess.run([sys.executable, "-m", "pairings", "player", "withdraw", str(path), "Angstrom"],
-                          capture_output=True, text=True, timeout=60)
-    assert proc.returncode == 0, proc.stderr
+    ran = run_in_process("player", "withdraw", path, "Angstrom")
+    assert ran.code == 0, ran.err
     with EventStore.open(path) as again:
         assert again.state.players[PlayerId("p2")].status is Status.WITHDRAWN

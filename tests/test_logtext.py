@@ -2,8 +2,6 @@
 
 from __future__ import annotations
 
-import subprocess
-import sys
 from pathlib import Path
 
 from pairings import actions
@@ -11,6 +9,7 @@ from pairings import events as ev
 from pairings.logtext import describe
 from pairings.state import ByeKind, PlayerId
 from pairings.store import EventStore
+from tests.cli.conftest import run_in_process
 
 NAMES = {"p1": "Zoë Quillfeather", "p2": "Corvin Cole"}  # invented
 
@@ -34,9 +33,9 @@ def test_the_command_line_log_names_players(tmp_path: Path) -> None:
     with EventStore.create(path, actions.new_event("Test Open", 3, seed=7)) as store:
         store.append(actions.add_player(store.state, "Zoë Quillfeather", None, None))
         store.append(actions.announce_bye(store.state, PlayerId("p1"), ByeKind.REQUESTED))
-    out = subprocess.run([sys.executable, "-m", "pairings", "log", str(path)], capture_output=True, text=True,
-                         timeout=60, check=True).stdout
-    assert "Zoë Quillfeather (p1) asked for a bye in round 1" in out
+    ran = run_in_process("log", path)
+    assert ran.code == 0, ran.err
+    assert "Zoë Quillfeather (p1) asked for a bye in round 1" in ran.out
 
 
 def test_undo_says_whom_it_concerned(tmp_path: Path) -> None:
@@ -44,6 +43,6 @@ def test_undo_says_whom_it_concerned(tmp_path: Path) -> None:
     with EventStore.create(path, actions.new_event("Test Open", 3, seed=7)) as store:
         store.append(actions.add_player(store.state, "Zoë Quillfeather", None, None))
         store.append(actions.withdraw(store.state, PlayerId("p1"), None, "ill"))
-    out = subprocess.run([sys.executable, "-m", "pairings", "undo", str(path)], capture_output=True, text=True,
-                         timeout=60, check=True).stdout
-    assert out.strip() == "undone: Zoë Quillfeather (p1) withdrawn from round 1 on (ill)"
+    ran = run_in_process("undo", path)
+    assert ran.code == 0, ran.err
+    assert ran.out.strip() == "undone: Zoë Quillfeather (p1) withdrawn from round 1 on (ill)"

@@ -10,6 +10,7 @@ from __future__ import annotations
 
 import copy
 import csv
+import functools
 import io
 import json
 import os
@@ -105,7 +106,9 @@ json_value = st.recursive(
 )
 
 
+@functools.cache
 def _valid_document() -> dict[str, Any]:
+    """The export of :func:`base_events` (built once; each draw mutates a deep copy)."""
     events = base_events()
     return export_event(fold(enumerate(events, 1)))
 

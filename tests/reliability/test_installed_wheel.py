@@ -35,8 +35,9 @@ def installed(tmp_path_factory: pytest.TempPathFactory) -> tuple[Path, dict[str,
     """(the new environment's bin folder, an environment without the checkout on any path)."""
     work = tmp_path_factory.mktemp("wheel")
     source = work / "source"
+    # .hypothesis too: a parallel worker's hypothesis tests write there while this copy runs.
     shutil.copytree(ROOT, source, ignore=shutil.ignore_patterns(
-        ".git", ".venv", "build", "*.egg-info", "__pycache__", "*.so", ".*_cache", "tests"))
+        ".git", ".venv", "build", "*.egg-info", "__pycache__", "*.so", ".*_cache", ".hypothesis", "tests"))
     env = {k: v for k, v in os.environ.items() if k not in ("PYTHONPATH", "PYTHONHOME", "VIRTUAL_ENV")}
     built = _run(sys.executable, "-m", "pip", "wheel", source, "--no-deps", "-q", "-w", work / "dist", cwd=work, env=env)
     assert built.returncode == 0, built.stderr
