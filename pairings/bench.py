@@ -150,11 +150,14 @@ def bench_verify(n: int, rounds: int, played: int, seed: int) -> str:
 
 
 _PHASES = """
-import time
+import gc, time
 start = time.perf_counter()
+gc.disable()
 import contextlib, io, sys
 from pairings import actions, cli, engine
 from pairings.store import EventStore
+gc.freeze()
+gc.enable()
 imported = time.perf_counter()
 store = EventStore.open(sys.argv[1])
 opened = time.perf_counter()
@@ -166,8 +169,10 @@ with contextlib.redirect_stdout(io.StringIO()):
 store.close()
 written = time.perf_counter()
 print(imported - start, opened - imported, drafted - opened, written - drafted)
+gc.freeze()
 """
-"""The steps of ``pairings pair`` (cli.cmd_pair) one by one, each timed, in a fresh interpreter."""
+"""The steps of ``pairings pair`` (cli.cmd_pair) one by one, each timed, in a fresh interpreter
+that treats the cycle collector as the command's process does (pairings.__main__.run)."""
 
 
 def _installed_env(folder: Path) -> dict[str, str]:
