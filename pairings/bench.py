@@ -150,8 +150,9 @@ def bench_verify(n: int, rounds: int, played: int, seed: int) -> str:
 
 
 _PHASES = """
-import gc, time
+import gc, os, time
 start = time.perf_counter()
+os.environ.setdefault("OPENBLAS_NUM_THREADS", "1")
 gc.disable()
 import contextlib, io, sys
 from pairings import actions, cli, engine
@@ -172,7 +173,7 @@ print(imported - start, opened - imported, drafted - opened, written - drafted)
 gc.freeze()
 """
 """The steps of ``pairings pair`` (cli.cmd_pair) one by one, each timed, in a fresh interpreter
-that treats the cycle collector as the command's process does (pairings.__main__.run)."""
+set up as the command's process is (pairings.__main__.run: the cycle collector, numpy's threads)."""
 
 
 def _installed_env(folder: Path) -> dict[str, str]:
