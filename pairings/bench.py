@@ -25,7 +25,7 @@ installed program has them; target at most 0.25 s and at most a quarter of
 the next figure) and where that time goes (the command's steps timed one by
 one in another fresh interpreter: start and exit, imports, opening and folding
 the log, engine, writing and printing), a rustworkx maximum-weight matching of the
-same round's full candidate graph (every allowed pair and bye; its exact
+same round's full candidate graph (best of three) (every allowed pair and bye; its exact
 weights need more than rustworkx's 128-bit integers, so it solves the same
 graph with each weight cut to its top 62 bits: the solver's work, not an exact
 optimum), and the text standings (target at most 0.3 s) with the reports' own
@@ -234,8 +234,9 @@ def _whole_pair(path: Path, tries: int = 3) -> tuple[float, float, list[float]]:
     return best, cpu, split
 
 
-def _rustworkx_full(state: EventState) -> tuple[float, int, int] | None:
-    """Seconds of a rustworkx solve of the next round's full graph, its edges, and its exact weights' bits."""
+def _rustworkx_full(state: EventState, tries: int = 3) -> tuple[float, int, int] | None:
+    """Seconds of a rustworkx solve of the next round's full graph (the best of ``tries``, as the
+    whole-process figure it is set against), its edges, and its exact weights' bits."""
     try:
         import rustworkx as rx
     except ImportError:
@@ -256,12 +257,15 @@ def _rustworkx_full(state: EventState) -> tuple[float, int, int] | None:
     bits = max(int(x).bit_length() for x in w)
     cut = max(0, bits - 62)
     edges = list(zip(u.tolist(), v.tolist(), (int(x) >> cut for x in w)))
-    start = time.perf_counter()
-    graph = rx.PyGraph()
-    graph.add_nodes_from(range(n + n % 2))
-    graph.add_edges_from(edges)
-    rx.max_weight_matching(graph, max_cardinality=True, weight_fn=lambda x: x)
-    return time.perf_counter() - start, len(edges), bits
+    best = float("inf")
+    for _ in range(tries):
+        start = time.perf_counter()
+        graph = rx.PyGraph()
+        graph.add_nodes_from(range(n + n % 2))
+        graph.add_edges_from(edges)
+        rx.max_weight_matching(graph, max_cardinality=True, weight_fn=lambda x: x)
+        best = min(best, time.perf_counter() - start)
+    return best, len(edges), bits
 
 
 def _standings_text(state: EventState) -> tuple[float, float]:
