@@ -25,7 +25,7 @@ installed program has them; target at most 0.25 s and at most a quarter of
 the next figure) and where that time goes (the command's steps timed one by
 one in another fresh interpreter: start and exit, imports, opening and folding
 the log, engine, writing and printing), a rustworkx maximum-weight matching of the
-same round's full candidate graph (best of three) (every allowed pair and bye; its exact
+same round's full candidate graph (best of three; every allowed pair and bye; its exact
 weights need more than rustworkx's 128-bit integers, so it solves the same
 graph with each weight cut to its top 62 bits: the solver's work, not an exact
 optimum), and the text standings (target at most 0.3 s) with the reports' own
