@@ -16,6 +16,7 @@ from pairings.errors import (
     AmbiguousPlayerError, DuplicatePlayerError, HardRuleError, InputError, NoPairingError, NoShowError,
     RoundStateError, UnknownPlayerError,
 )
+from pairings.points import Points, points_text
 from pairings.state import ByeKind, EventState, PlayerDetails, PlayerId, Result, Round, RoundState, Status, System
 from pairings.store import StoredEvent, undo_target
 from pairings.standings.tiebreaks import default_tiebreaks
@@ -29,7 +30,7 @@ MAX_NAME = 300
 
 
 def new_event(
-    name: str, rounds: int, scoring: str = "1,0.5,0", sides: bool = True, bye_points: float | None = None,
+    name: str, rounds: int, scoring: str = "1,0.5,0", sides: bool = True, bye_points: Points | None = None,
     seed: int | None = None, round_robin: bool = False, double_round: bool = False,
 ) -> ev.EventCreated:
     """The first event of a new event file, from the command line's options.
@@ -47,7 +48,7 @@ def new_event(
     win, draw, loss = points_of.win, points_of.draw, points_of.loss
     points = win if bye_points is None else bye_points
     if not 0 <= points <= win:
-        raise InputError(f"bye points {points} must lie between 0 and a win ({win})")
+        raise InputError(f"bye points {points_text(points)} must lie between 0 and a win ({points_text(win)})")
     system = System.ROUND_ROBIN if round_robin or double_round else System.SWISS
     return ev.EventCreated(
         name=name, rounds=rounds, scoring=ev.ScoringModel(win=win, draw=draw, loss=loss),

@@ -22,6 +22,7 @@ from pairings.clirated import add_info_options, add_rated_commands
 from pairings.errors import InputError, NoPairingError, PairingsError
 from pairings.events import BreachAccepted, NoShowKept, Undone
 from pairings.printouts import FORMATS, KINDS, PAPERS
+from pairings.points import points_text
 from pairings.state import ByeKind, EventState, PlayerDetails, RoundState, Settings
 from pairings.store import EventStore
 from pairings.text import cells, counted, fit, one_line, plain
@@ -206,7 +207,7 @@ def cmd_player_list(a: argparse.Namespace) -> None:
         name, club = fit(plain(p.name), 40), fit(plain(p.club or ""), 20)
         title, fed = p.details.title or "", p.details.federation or ""
         _say(f"{plain(p.id):>6}  {title:<3} {_pad(name, 40)} {fed:<3} {rating:>5}  {_pad(club, 20)} "
-             f"{s.score(p.id):>4g}  {p.status.value}")
+             f"{points_text(s.score(p.id)):>4}  {p.status.value}")
 
 
 def _draft_json(state: EventState, rnd_number: int) -> dict[str, Any]:
@@ -236,11 +237,11 @@ def print_round(state: EventState, number: int) -> None:
         res = g.result.value if g.result else ""
         flags = " ".join(g.flags)
         _say(
-            f"{g.board:>4}  {_pad(fit(first, 28), 28)} {before[g.first]:>4g}  -  "
-            f"{_pad(fit(second, 28), 28)} {before[g.second]:>4g}  {res:<7} {flags}"
+            f"{g.board:>4}  {_pad(fit(first, 28), 28)} {points_text(before[g.first]):>4}  -  "
+            f"{_pad(fit(second, 28), 28)} {points_text(before[g.second]):>4}  {res:<7} {flags}"
         )
     for y in rnd.byes:
-        _say(f"  bye  {plain(state.players[y.player].name)} ({y.kind.value}, {y.points:g})")
+        _say(f"  bye  {plain(state.players[y.player].name)} ({y.kind.value}, {points_text(y.points)})")
     if sides[0]:
         _say(f"(first named plays {sides[0]})")
 

@@ -14,10 +14,7 @@ from typing import Mapping
 
 from pairings import events as ev
 from pairings.errors import InputError
-from pairings.state import PlayerDetails
-
-TITLES = ("GM", "IM", "FM", "CM", "WGM", "WIM", "WFM", "WCM")
-"""FIDE titles for players by their usual abbreviations (FIDE Handbook B.01, from memory)."""
+from pairings.state import TITLES, PlayerDetails
 SEXES = {"m": "m", "f": "f", "male": "m", "female": "f", "w": "f"}
 DETAIL_KEYS = ("title", "federation", "fide_id", "national_id", "birth", "sex", "ratings", "categories")
 _LIST_NAME = re.compile(r"[a-z][a-z0-9_-]{0,19}")

@@ -12,13 +12,24 @@ annotations are plain objects, not strings pydantic would have to evaluate.
 """
 
 from functools import cache
-from typing import Annotated, Literal, Union, cast, get_args
+from typing import Annotated, Any, Literal, Union, cast, get_args
 
-from pydantic import BaseModel, ConfigDict, Field, TypeAdapter
+from pydantic import BaseModel, ConfigDict, Field, PlainSerializer, PlainValidator, SerializationInfo, TypeAdapter
 
+from pairings.points import ZERO, Points, exact
 from pairings.state import Acceleration, BetterPrize, ByeKind, PrizeTies, Result, System, Unplayed
 
 SCHEMA_VERSION = 4
+
+
+def _stored(value: Points, info: SerializationInfo) -> Points | float:
+    """A JSON number in the file, as files have always held (``1.0``, ``0.5``); exact in Python."""
+    return float(value) if info.mode_is_json() else value
+
+
+StoredPoints = Annotated[Points, PlainValidator(exact), PlainSerializer(_stored, return_type=Any)]
+"""Points in an event: exact (:mod:`pairings.points`), written as a JSON number. Configured points
+have at most six decimals, so the stored float reads back as the same decimal."""
 
 
 class _Event(BaseModel):
@@ -26,9 +37,9 @@ class _Event(BaseModel):
 
 
 class ScoringModel(_Event):
-    win: float = 1.0
-    draw: float = 0.5
-    loss: float = 0.0
+    win: StoredPoints = Points(1)
+    draw: StoredPoints = Points(1, 2)
+    loss: StoredPoints = ZERO
 
 
 class EventCreated(_Event):
@@ -37,8 +48,8 @@ class EventCreated(_Event):
     rounds: int = Field(ge=1)
     scoring: ScoringModel = ScoringModel()
     sides: tuple[str, str] | None = ("White", "Black")
-    bye_points: float = 1.0
-    requested_bye_points: float = 0.5
+    bye_points: StoredPoints = Points(1)
+    requested_bye_points: StoredPoints = Points(1, 2)
     tiebreaks: tuple[str, ...] | None = None
     unplayed: Unplayed = Unplayed.VIRTUAL_OPPONENT
     default_rating: int = 1000
@@ -57,7 +68,7 @@ class EventCreated(_Event):
     deputy_arbiters: tuple[str, ...] = ()
     time_control: str = ""
     round_dates: tuple[str, ...] = ()
-    late_entry_points: float = 0.0
+    late_entry_points: StoredPoints = ZERO
     requested_bye_limit: int | None = Field(default=None, ge=0)
     requested_bye_last_round: int | None = Field(default=None, ge=1)
 
@@ -73,8 +84,8 @@ class SettingsChanged(_Event):
     rounds: int | None = Field(default=None, ge=1)
     tiebreaks: tuple[str, ...] | None = None
     unplayed: Unplayed | None = None
-    bye_points: float | None = None
-    requested_bye_points: float | None = None
+    bye_points: StoredPoints | None = None
+    requested_bye_points: StoredPoints | None = None
     scoring: ScoringModel | None = None
     system: System | None = None
     acceleration: Acceleration | None = None
@@ -91,12 +102,18 @@ class SettingsChanged(_Event):
     time_control: str | None = None
     round_dates: tuple[str, ...] | None = None
     double_round: bool | None = None
-    late_entry_points: float | None = None
+    late_entry_points: StoredPoints | None = None
     requested_bye_limit: int | None = Field(default=None, ge=0)
     requested_bye_last_round: int | None = Field(default=None, ge=1)
     cleared: tuple[ClearableSetting, ...] = ()
     after_round: int = 0
     """The last round published when the change was made (0: before round 1); the sheets name it."""
+
+    def given(self) -> dict[str, Any]:
+        """The settings this event changes to a value (not None), by field name, as typed values
+        (``model_dump`` would write the exact points as text)."""
+        skip = {"type", "cleared", "after_round"}
+        return {k: v for k in type(self).model_fields if k not in skip and (v := getattr(self, k)) is not None}
 
 
 class PlayerDetailsModel(_Event):
@@ -182,7 +199,7 @@ class BoardModel(_Event):
 class ByeModel(_Event):
     player: str
     kind: ByeKind
-    points: float
+    points: StoredPoints
 
 
 class RoundDrafted(_Event):

@@ -15,6 +15,7 @@ from typing import Iterable
 
 from pairings import events as ev
 from pairings.errors import InputError
+from pairings.points import ZERO, Points
 from pairings.standings.tiebreaks import check_tiebreaks
 from pairings.state import (
     DEFAULT_TIEBREAKS,
@@ -93,7 +94,7 @@ def _(e: ev.EventCreated, b: _Builder) -> None:
 @_apply.register
 def _(e: ev.SettingsChanged, b: _Builder) -> None:
     assert b.settings is not None
-    changes = {k: v for k, v in e.model_dump(exclude={"type", "cleared", "after_round"}).items() if v is not None}
+    changes = e.given()
     changes.update({k: None for k in e.cleared})
     if e.after_round:
         changes["changed_after"] = b.settings.changed_after + tuple((e.after_round, k) for k in changes)
@@ -324,22 +325,22 @@ class _Played:
 
     round: Round
     entries: dict[PlayerId, RoundEntry]
-    score_after: dict[PlayerId, float]
-    late: tuple[float, tuple[tuple[PlayerId, int], ...]] | None = None
+    score_after: dict[PlayerId, Points]
+    late: tuple[Points, tuple[tuple[PlayerId, int], ...]] | None = None
     """The late-entry points and late entrants this round was counted with (a change recounts it)."""
 
 
 def _round_entries(
-    scoring: Scoring, rnd: Round, before: dict[PlayerId, float], late: dict[PlayerId, float]
+    scoring: Scoring, rnd: Round, before: dict[PlayerId, Points], late: dict[PlayerId, Points]
 ) -> _Played:
     """``late``: each late entrant's points for this round if it is one they missed before entry."""
     entries: dict[PlayerId, RoundEntry] = {}
     score = dict(before)
     for pid, credit in late.items():
-        score[pid] = score.get(pid, 0.0) + credit
+        score[pid] = score.get(pid, ZERO) + credit
     for g in rnd.games:
         for pid, opp, side in ((g.first, g.second, Side.FIRST), (g.second, g.first, Side.SECOND)):
-            mine, theirs = before.get(pid, 0.0), before.get(opp, 0.0)
+            mine, theirs = before.get(pid, ZERO), before.get(opp, ZERO)
             fl = Float.DOWN if mine > theirs else Float.UP if mine < theirs else None
             pts = scoring.points(g.result.outcome(side)) if g.result is not None else None
             entries[pid] = RoundEntry(
@@ -349,7 +350,7 @@ def _round_entries(
             if pts is not None:
                 score[pid] = mine + pts
     for bye in rnd.byes:
-        mine = before.get(bye.player, 0.0)
+        mine = before.get(bye.player, ZERO)
         entries[bye.player] = RoundEntry(
             round=rnd.number, opponent=None, side=None, result=None, bye=bye.kind, points=bye.points,
             played=False, score_before=mine, float=Float.DOWN if bye.kind is ByeKind.PAIRING else None,
@@ -384,7 +385,7 @@ def _records(
         pid: PlayerRecord(
             player=pid,
             entries=tuple(p.entries[pid] for p in cache if pid in p.entries),
-            score=final.get(pid, 0.0),
+            score=final.get(pid, ZERO),
             late_points=per_round,
             first_round=players[pid].first_round,
         )

@@ -10,7 +10,7 @@ from __future__ import annotations
 from dataclasses import dataclass, replace
 from typing import Any, Literal, Sequence
 
-from pydantic import BaseModel, ConfigDict, Field, ValidationError
+from pydantic import BaseModel, ConfigDict, Field, ValidationError, field_validator
 
 from pairings import events as ev
 from pairings.actions import clean_text
@@ -18,8 +18,9 @@ from pairings.details import check_details, details_model
 from pairings.errors import InputError
 from pairings.prizedoc import awards_document, awards_events
 from pairings.regulations import (
-    BY_KEY, check_consistent, json_number, parse_settings, replay_changed_after, settings_document,
+    BY_KEY, check_consistent, parse_settings, replay_changed_after, settings_document,
 )
+from pairings.points import ZERO, Points, points_number
 from pairings.state import (
     Acceleration, ByeKind, EventState, ForbiddenPair, Player, PlayerDetails, Result, RoundState, Settings, Status,
 )
@@ -47,7 +48,7 @@ def export_event(state: EventState) -> dict[str, Any]:
                      "result": g.result.value if g.result else None}
                     for g in r.games
                 ],
-                "byes": [{"player": y.player, "kind": y.kind.value, "points": json_number(y.points)} for y in r.byes],
+                "byes": [{"player": y.player, "kind": y.kind.value, "points": points_number(y.points)} for y in r.byes],
             }
             for r in state.rounds
         ],
@@ -94,9 +95,9 @@ class _Until(_Strict):
 
 
 class _Scoring(_Strict):
-    win: float
-    draw: float
-    loss: float
+    win: ev.StoredPoints
+    draw: ev.StoredPoints
+    loss: ev.StoredPoints
 
 
 class _Report(_Strict):
@@ -124,17 +125,17 @@ class _Event(_Strict):
     rounds: int = Field(ge=1, le=1000)
     scoring: _Scoring
     sides: tuple[str, str] | None
-    bye_points: float
+    bye_points: ev.StoredPoints
     # Optional keys (added after version 1's first form): an older document takes the defaults.
     system: str = "whole-round"
     acceleration: Literal["baku"] | None = None
     tiebreaks: list[str] | None = None
     unplayed: str = "virtual-opponent"
-    requested_bye_points: float | None = None
+    requested_bye_points: ev.StoredPoints | None = None
     """Default: a draw's points."""
     requested_bye_limit: int | None = Field(default=None, ge=0)
     requested_bye_last_round: int | None = Field(default=None, ge=1)
-    late_entry_points: float = 0.0
+    late_entry_points: ev.StoredPoints = ZERO
     max_meetings: int = Field(default=1, ge=1)
     final_round_side_exception: bool = False
     forfeit_is_meeting: bool = True
@@ -187,7 +188,14 @@ class _Game(_Strict):
 class _Bye(_Strict):
     player: str
     kind: ByeKind
-    points: float = Field(ge=0)
+    points: ev.StoredPoints
+
+    @field_validator("points")
+    @classmethod
+    def _not_negative(cls, value: Points) -> Points:
+        if value < 0:
+            raise ValueError("Input should be greater than or equal to 0")
+        return value
 
 
 class _Round(_Strict):

@@ -12,6 +12,7 @@ from functools import singledispatch
 from typing import Mapping
 
 from pairings import events as ev
+from pairings.points import points_text
 from pairings.state import ByeKind, EventState
 from pairings.text import counted, plain
 
@@ -49,7 +50,8 @@ def _line(event: object) -> str:
 def _(e: ev.EventCreated) -> str:
     sides = f"sides {e.sides[0]}/{e.sides[1]}" if e.sides else "no sides"
     s = e.scoring
-    return f"event {e.name!r} created: {e.rounds} rounds, scoring {s.win:g}/{s.draw:g}/{s.loss:g}, {sides}"
+    scoring = "/".join(points_text(x) for x in (s.win, s.draw, s.loss))
+    return f"event {e.name!r} created: {e.rounds} rounds, scoring {scoring}, {sides}"
 
 
 @_line.register

@@ -26,6 +26,7 @@ from typing import Sequence
 from pairings import events as ev
 from pairings.categories import OVERALL, find_category, members
 from pairings.errors import PrizeError
+from pairings.points import Points
 from pairings.standings import Standings, standings
 from pairings.state import BetterPrize, EventState, PlayerId, Prize, PrizePolicy, PrizeTies
 
@@ -38,7 +39,7 @@ class Award:
     """``"2"``, or ``"2-4"`` for a shared place."""
     player: PlayerId | None
     """None when no eligible player is left for the prize."""
-    points: float | None
+    points: Points | None
     amount: int
     """Integer minor units."""
     note: str = ""
@@ -140,7 +141,7 @@ def _left_over(eligible: list[PlayerId]) -> str:
 
 
 def _shared(name: str | None, prizes: list[Prize], winner: dict[tuple[str | None, int], PlayerId | None],
-            won: dict[PlayerId, Prize], eligible: list[PlayerId], points: dict[PlayerId, float],
+            won: dict[PlayerId, Prize], eligible: list[PlayerId], points: dict[PlayerId, Points],
             ties: PrizeTies) -> list[Award]:
     """The list's awards when tied players share (equally, or by the Hort system)."""
     out: list[Award] = []

@@ -27,7 +27,7 @@ from typing import Iterable, Iterator
 from pairings import events as ev
 from pairings.actions import folded_name
 from pairings.errors import RatingListError
-from pairings.state import EventState, Player, PlayerId, RoundState
+from pairings.state import TITLES, EventState, Player, PlayerId, RoundState
 from pairings.text import counted
 
 FIDE_HEADINGS = ("ID Number", "Name", "Fed", "Sex", "Tit", "WTit", "OTit", "FOA", "SRtng", "SGm", "SK",
@@ -37,7 +37,6 @@ FIDE_COLUMNS = (0, 15, 76, 80, 84, 89, 94, 109, 113, 119, 123, 126, 132, 136, 13
 RATING_HEADINGS = {"standard": "SRtng", "rapid": "RRtng", "blitz": "BRtng"}
 LIST_NAMES = {"standard": "fide", "rapid": "fide-rapid", "blitz": "fide-blitz"}
 """The rating list name a FIDE rating is kept under in the player's details."""
-TITLES = ("GM", "IM", "WGM", "FM", "WIM", "CM", "WFM", "WCM")
 SHOWN = 5
 """How many bad lines of one kind the report names."""
 

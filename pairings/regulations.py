@@ -28,6 +28,7 @@ from typing import Any, Callable, Mapping
 
 from pairings import events as ev
 from pairings.errors import InputError, RoundStateError
+from pairings.points import PLACES, Points, PointsError, parse_points, points_number, points_text
 from pairings.state import (
     SYSTEM_NAMES, Acceleration, EventState, RoundState, Scoring, Settings, System, Unplayed, system_name,
 )
@@ -98,13 +99,13 @@ RECOUNT = frozenset({"tiebreaks", "unplayed"})
 """Settings whose change after publication recomputes the standings."""
 
 
-def _number(text: str, what: str) -> float:
+def _number(text: str, what: str) -> Points:
     try:
-        value = float(text.strip().replace("½", "0.5"))
-    except ValueError:
-        raise SettingsError(f"{what} {text!r} is not a number") from None
+        value = parse_points(text)
+    except PointsError as exc:
+        raise SettingsError(f"{what} {exc}") from None
     if not 0 <= value <= 1000:
-        raise SettingsError(f"{what} {value:g} must lie between 0 and 1000")
+        raise SettingsError(f"{what} {points_text(value)} must lie between 0 and 1000")
     return value
 
 
@@ -131,9 +132,10 @@ def _word(text: str, what: str, choices: Mapping[str, Any] | tuple[str, ...]) ->
 
 def parse_scoring(text: str) -> Scoring:
     try:
-        win, draw, loss = (float(x) for x in text.split(","))
+        win, draw, loss = (parse_points(x) for x in text.split(","))
     except ValueError:
-        raise SettingsError(f"scoring {text!r} must be three numbers: win,draw,loss (e.g. 1,0.5,0)") from None
+        raise SettingsError(f"scoring {text!r} must be three numbers of at most {PLACES} decimals: win,draw,loss "
+                            "(e.g. 1,0.5,0)") from None
     if not (win > loss >= 0 and loss <= draw <= win):
         raise SettingsError(f"scoring {text!r}: a win must score more than a loss, and draws lie between")
     return Scoring(win, draw, loss)
@@ -194,12 +196,12 @@ def setting_texts(s: Settings) -> dict[str, str]:
         "rounds": str(s.rounds),
         "system": system_name(s),
         "acceleration": s.acceleration.value,
-        "scoring": f"{sc.win:g},{sc.draw:g},{sc.loss:g}",
-        "bye_points": f"{s.bye_points:g}",
-        "requested_bye_points": f"{s.requested_bye_points:g}",
+        "scoring": ",".join(points_text(x) for x in (sc.win, sc.draw, sc.loss)),
+        "bye_points": points_text(s.bye_points),
+        "requested_bye_points": points_text(s.requested_bye_points),
         "requested_bye_limit": "none" if s.requested_bye_limit is None else str(s.requested_bye_limit),
         "requested_bye_last_round": "none" if s.requested_bye_last_round is None else str(s.requested_bye_last_round),
-        "late_entry_points": f"{s.late_entry_points:g}",
+        "late_entry_points": points_text(s.late_entry_points),
         "tiebreaks": ",".join(s.tiebreaks),
         "unplayed": s.unplayed.value.replace("_", "-"),
         "max_meetings": str(s.max_meetings),
@@ -214,14 +216,14 @@ def check_consistent(s: Settings) -> None:
     for value, what in ((s.bye_points, "bye points"), (s.requested_bye_points, "requested-bye points"),
                         (s.late_entry_points, "late-entry points")):
         if not 0 <= value <= win:
-            raise SettingsError(f"{what} {value:g} must lie between 0 and a win ({win:g})")
+            raise SettingsError(f"{what} {points_text(value)} must lie between 0 and a win ({points_text(win)})")
     if s.requested_bye_last_round is not None and s.requested_bye_last_round > s.rounds:
         raise SettingsError(
             f"the last round for a requested bye ({s.requested_bye_last_round}) is after the last round ({s.rounds})"
         )
     if s.acceleration is not Acceleration.NONE and s.system is System.ROUND_ROBIN:
         raise SettingsError("accelerated pairings are for a Swiss system, not a round robin")
-    if s.acceleration is Acceleration.BAKU and (s.scoring.win, s.scoring.draw, s.scoring.loss) != (1.0, 0.5, 0.0):
+    if s.acceleration is Acceleration.BAKU and s.scoring != Scoring():
         raise SettingsError("the Baku acceleration (C.04.5.1) is for the standard scoring 1,0.5,0 only")
 
 
@@ -302,28 +304,23 @@ def settings_lines(s: Settings) -> list[tuple[str, str]]:
     return [(item.label, texts[item.key]) for item in SETTINGS]
 
 
-def json_number(x: float) -> float | int:
-    """A number for a JSON document: whole values as integers (1, not 1.0)."""
-    return int(x) if float(x).is_integer() else x
-
-
 def settings_document(s: Settings) -> dict[str, Any]:
     """The settings as the interchange document's ``event`` object writes them (also ``settings --json``)."""
     sc = s.scoring
     return {
         "name": s.name,
         "rounds": s.rounds,
-        "scoring": {"win": json_number(sc.win), "draw": json_number(sc.draw), "loss": json_number(sc.loss)},
+        "scoring": {"win": points_number(sc.win), "draw": points_number(sc.draw), "loss": points_number(sc.loss)},
         "sides": list(s.sides) if s.sides else None,
-        "bye_points": json_number(s.bye_points),
+        "bye_points": points_number(s.bye_points),
         "system": system_name(s),
         "acceleration": None if s.acceleration is Acceleration.NONE else s.acceleration.value,
         "tiebreaks": list(s.tiebreaks),
         "unplayed": s.unplayed.value.replace("_", "-"),
-        "requested_bye_points": json_number(s.requested_bye_points),
+        "requested_bye_points": points_number(s.requested_bye_points),
         "requested_bye_limit": s.requested_bye_limit,
         "requested_bye_last_round": s.requested_bye_last_round,
-        "late_entry_points": json_number(s.late_entry_points),
+        "late_entry_points": points_number(s.late_entry_points),
         "max_meetings": s.max_meetings,
         "final_round_side_exception": s.final_round_side_exception,
         "forfeit_is_meeting": s.forfeit_is_meeting,
@@ -349,7 +346,7 @@ def replay_changed_after(s: Settings) -> list[ev.SettingsChanged]:
 
 def change_words(e: ev.SettingsChanged) -> list[str]:
     """``label value`` for each setting an event changes (the log's line)."""
-    stored = {k: v for k, v in e.model_dump(exclude={"type", "cleared", "after_round"}).items() if v is not None}
+    stored = e.given()
     if "system" in stored:
         double = bool(stored.pop("double_round", False))
         stored["system"] = next(n for n, v in SYSTEM_NAMES.items() if v == (System(stored["system"]), double))
@@ -357,12 +354,12 @@ def change_words(e: ev.SettingsChanged) -> list[str]:
     for key, value in stored.items():
         if isinstance(value, bool):
             value = "yes" if value else "no"
-        elif isinstance(value, dict):
-            value = "/".join(f"{x:g}" for x in value.values())
+        elif isinstance(value, ev.ScoringModel):
+            value = "/".join(points_text(x) for x in (value.win, value.draw, value.loss))
         elif isinstance(value, (list, tuple)):
             value = ",".join(value)
-        elif isinstance(value, float):
-            value = f"{value:g}"
+        elif isinstance(value, Points):
+            value = points_text(value)
         elif key == "unplayed":
             value = str(value).replace("_", "-")
         label = BY_KEY[key].label.lower() if key in BY_KEY else key.replace("_", " ")

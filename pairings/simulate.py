@@ -24,6 +24,7 @@ from typing import Callable, Literal
 from pairings import events as ev
 from pairings.errors import InputError
 from pairings.fold import fold
+from pairings.points import ZERO, Points
 from pairings.state import ByeKind, EventState, PlayerId, Result, Scoring, Side
 
 PairFunction = Callable[[EventState], list[tuple[PlayerId, PlayerId]]]
@@ -54,7 +55,7 @@ class _Entrant:
     strength: float
     """Hidden playing strength that decides results."""
     order: int
-    score: float = 0.0
+    score: Points = ZERO
     side_difference: int = 0
     last_side: Side | None = None
     met: set[PlayerId] = field(default_factory=set)
@@ -113,7 +114,7 @@ def _result(first: _Entrant, second: _Entrant, rng: random.Random, draw_rate: fl
     return Result.DRAW if u < e + p_draw / 2 else Result.SECOND_WINS
 
 
-def _rank_key(default_rating: int) -> Callable[[_Entrant], tuple[float, int, str, int]]:
+def _rank_key(default_rating: int) -> Callable[[_Entrant], tuple[Points, int, str, int]]:
     """Score descending, then the initial rank of ``EventState.initial_rank``."""
     return lambda p: (
         -p.score, -(p.rating if p.rating is not None else default_rating), p.name.casefold(), p.order
@@ -268,7 +269,7 @@ def simulate_events(
         log.append(ev.PlayerRegistered(id=p.id, name=p.name, rating=p.rating, club=club))
     rank_key = _rank_key(created.default_rating)
     bye_points = {ByeKind.PAIRING: created.bye_points, ByeKind.REQUESTED: created.requested_bye_points,
-                  ByeKind.ABSENCE: 0.0}
+                  ByeKind.ABSENCE: ZERO}
 
     for rnd in range(1, rounds_played + 1):
         asked: dict[PlayerId, ByeKind] = {}

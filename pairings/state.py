@@ -12,9 +12,10 @@ from __future__ import annotations
 from dataclasses import dataclass, field
 from enum import StrEnum
 from types import MappingProxyType
-from typing import Mapping, NewType
+from typing import Iterable, Mapping, NewType
 
 from pairings.errors import ResultCodeError
+from pairings.points import ZERO, Points, total
 
 PlayerId = NewType("PlayerId", str)
 
@@ -134,13 +135,13 @@ for _result, _first, _second in (
 
 @dataclass(frozen=True, slots=True)
 class Scoring:
-    """Points for a win, a draw and a loss (forfeits score as a win or a loss)."""
+    """Points for a win, a draw and a loss (forfeits score as a win or a loss), exact (pairings.points)."""
 
-    win: float = 1.0
-    draw: float = 0.5
-    loss: float = 0.0
+    win: Points = Points(1)
+    draw: Points = Points(1, 2)
+    loss: Points = ZERO
 
-    def points(self, outcome: str) -> float:
+    def points(self, outcome: str) -> Points:
         return {"win": self.win, "draw": self.draw, "loss": self.loss}[outcome]
 
 
@@ -154,8 +155,8 @@ class Settings:
     rounds: int
     scoring: Scoring = Scoring()
     sides: tuple[str, str] | None = ("White", "Black")
-    bye_points: float = 1.0
-    requested_bye_points: float = 0.5
+    bye_points: Points = Points(1)
+    requested_bye_points: Points = Points(1, 2)
     tiebreaks: tuple[str, ...] = DEFAULT_TIEBREAKS
     unplayed: Unplayed = Unplayed.VIRTUAL_OPPONENT
     default_rating: int = 1000
@@ -180,7 +181,7 @@ class Settings:
     """The rate of play as the regulations state it (e.g. ``90 min + 30 s per move``)."""
     round_dates: tuple[str, ...] = ()
     """``YYYY-MM-DD`` per round, from round 1 (may be shorter than the number of rounds)."""
-    late_entry_points: float = 0.0
+    late_entry_points: Points = ZERO
     """Points a late entrant gets for each round missed before entry (see :func:`late_entry_points`)."""
     requested_bye_limit: int | None = None
     """Most requested byes one player may have (None: no limit)."""
@@ -188,6 +189,22 @@ class Settings:
     """The last round a requested bye may be asked for (None: any round)."""
     changed_after: tuple[tuple[int, str], ...] = ()
     """(round, setting) for each setting changed once that round was published (the sheets say so)."""
+
+
+TITLES: tuple[str, ...] = ("GM", "IM", "WGM", "FM", "WIM", "CM", "WFM", "WCM")
+"""The FIDE titles, in the precedence of the initial order (C.04.2 initial order; FIDE Handbook B.01 for the
+titles; both from memory)."""
+
+
+def initial_order(players: Iterable[Player], default_rating: int, by_title: bool) -> tuple[PlayerId, ...]:
+    """Players by rating descending (``default_rating`` for the unrated), then (``by_title``) title in
+    :data:`TITLES` precedence, untitled last, then name casefolded, then registration order."""
+    def key(p: Player) -> tuple[int, int, str, int]:
+        title = (p.details.title or "").upper() if by_title else ""
+        rank = TITLES.index(title) if title in TITLES else len(TITLES)
+        return (-(p.rating if p.rating is not None else default_rating), rank, p.name.casefold(), p.order)
+
+    return tuple(p.id for p in sorted(players, key=key))
 
 
 SYSTEM_NAMES: Mapping[str, tuple[System, bool]] = MappingProxyType({
@@ -205,14 +222,14 @@ def system_name(settings: "Settings") -> str:
     return next(name for name, value in SYSTEM_NAMES.items() if value == key)
 
 
-def late_entry_points(per_round: float, first_round: int, round_number: int) -> float:
+def late_entry_points(per_round: Points, first_round: int, round_number: int) -> Points:
     """Points for round ``round_number`` to a player registered to start in ``first_round``.
 
     A late entrant scores the event's ``late_entry_points`` for each round missed
     before entry (a choice of the event's regulations; common practice, no
     source); any other round scores by its game or bye.
     """
-    return per_round if round_number < first_round else 0.0
+    return per_round if round_number < first_round else ZERO
 
 
 @dataclass(frozen=True, slots=True)
@@ -267,7 +284,7 @@ class Game:
 class Bye:
     player: PlayerId
     kind: ByeKind
-    points: float
+    points: Points
 
 
 @dataclass(frozen=True, slots=True)
@@ -322,11 +339,11 @@ class RoundEntry:
     """The side taken in a game (also for a forfeit); None for a bye."""
     result: Result | None
     bye: ByeKind | None
-    points: float | None
+    points: Points | None
     """None while the game has no result."""
     played: bool
     """True for a game played over the board (not a forfeit, not a bye)."""
-    score_before: float
+    score_before: Points
     float: Float | None
     """Paired against a lower (down) or higher (up) score; a pairing bye is a down float."""
 
@@ -336,8 +353,8 @@ class PlayerRecord:
     player: PlayerId
     entries: tuple[RoundEntry, ...]
     """One entry per round the player took part in (game or bye), in round order."""
-    score: float
-    late_points: float = 0.0
+    score: Points
+    late_points: Points = ZERO
     """The event's points per round missed before entry (see :func:`late_entry_points`)."""
     first_round: int = 1
 
@@ -347,11 +364,11 @@ class PlayerRecord:
                 return e
         return None
 
-    def score_before(self, round_number: int) -> float:
-        played = sum(e.points or 0.0 for e in self.entries if e.round < round_number)
+    def score_before(self, round_number: int) -> Points:
+        played = total(e.points for e in self.entries if e.round < round_number and e.points is not None)
         if not self.late_points:
             return played
-        return played + sum(late_entry_points(self.late_points, self.first_round, r) for r in range(1, round_number))
+        return played + total(late_entry_points(self.late_points, self.first_round, r) for r in range(1, round_number))
 
     @property
     def played_sides(self) -> tuple[Side, ...]:
@@ -498,19 +515,19 @@ class EventState:
             return self.rounds[number - 1]
         return None
 
-    def score(self, player: PlayerId) -> float:
+    def score(self, player: PlayerId) -> Points:
         return self.records[player].score
 
     def initial_rank(self) -> tuple[PlayerId, ...]:
-        """Rating descending, then name casefolded, then registration (rules.md)."""
-        default = self.settings.default_rating
-        return tuple(
-            p.id
-            for p in sorted(
-                self.players.values(),
-                key=lambda p: (-(p.rating if p.rating is not None else default), p.name.casefold(), p.order),
-            )
-        )
+        """Every registered player in initial order; start (pairing) number ``k`` is position ``k - 1``.
+
+        Rating descending (unrated players take the event's default rating), then name casefolded, then
+        registration (docs/engine.md). The FIDE (Dutch) System puts the title between rating and name
+        (C.04.2 initial order, from memory; :data:`TITLES` gives the precedence), so that the sheets' start
+        numbers are the Dutch pairing numbers.
+        """
+        return initial_order(self.players.values(), self.settings.default_rating,
+                             by_title=self.settings.system is System.DUTCH)
 
     def available(self, round_number: int) -> tuple[PlayerId, ...]:
         """Players to pair in ``round_number`` (H4), in initial-rank order."""

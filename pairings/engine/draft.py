@@ -25,6 +25,7 @@ from pairings.engine.types import (
     CRITERIA, ENGINE_VERSION, Draft, DraftBoard, Overrides, cost_map, total_cost,
 )
 from pairings.errors import NoPairingError
+from pairings.points import ZERO
 from pairings.state import Bye, ByeKind, EventState, PlayerId, Side, System
 
 Pair = tuple[PlayerId, PlayerId]
@@ -44,10 +45,10 @@ def _other_byes(state: EventState, round_number: int, players: Iterable[PlayerId
     for pid in state.initial_rank():
         kind = asked.get(pid)
         if kind is not None:
-            out.append(Bye(pid, kind, s.requested_bye_points if kind is ByeKind.REQUESTED else 0.0))
+            out.append(Bye(pid, kind, s.requested_bye_points if kind is ByeKind.REQUESTED else ZERO))
     for pid in absent:
         if pid not in asked:
-            out.append(Bye(pid, ByeKind.ABSENCE, 0.0))
+            out.append(Bye(pid, ByeKind.ABSENCE, ZERO))
     return out
 
 

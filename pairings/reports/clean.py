@@ -12,14 +12,13 @@ from __future__ import annotations
 import re
 from datetime import datetime
 
+from pairings.points import Points, points_text
 from pairings.text import plain
 
-__all__ = ["plain", "csv_cell", "points", "shared_rank", "stamp", "show", "PREVAIL"]
+__all__ = ["plain", "csv_cell", "shared_rank", "stamp", "show", "PREVAIL"]
 
 _FORMULA_START = ("=", "+", "-", "@", "\t", "\r")
 _NUMBER = re.compile(r"-?\d+(?:\.\d+)?(?:[eE][+-]?\d+)?")
-
-_FRACTIONS = {0.25: "¼", 0.5: "½", 0.75: "¾"}
 
 PREVAIL = "The event's regulations and the chief arbiter's decisions prevail over this printout."
 """Printed on every sheet."""
@@ -36,18 +35,6 @@ def csv_cell(value: object) -> object:
     if value.startswith(_FORMULA_START) and not _NUMBER.fullmatch(value):
         return "'" + value
     return value
-
-
-def points(value: float) -> str:
-    """Points as a sheet prints them: ``2½``, ``0``, ``5¼``, ``1675``."""
-    sign = "−" if value < 0 else ""
-    whole, part = divmod(round(abs(value), 6), 1)
-    part = round(part, 6)
-    if part == 0:
-        return f"{sign}{int(whole)}"
-    if part in _FRACTIONS:
-        return f"{sign}{int(whole) if whole else ''}{_FRACTIONS[part]}"
-    return f"{sign}{abs(value):.2f}".rstrip("0")
 
 
 def shared_rank(rank: int | str) -> str:
@@ -67,8 +54,8 @@ def show(value: object, kind: str) -> str:
         return "–" if kind == "number" else ""
     if kind == "rank":
         return shared_rank(value if isinstance(value, int) else str(value))
-    if kind == "points" and isinstance(value, (int, float)):
-        return points(float(value))
+    if kind == "points" and isinstance(value, (int, Points)):
+        return points_text(Points(value), "sheet")
     if kind == "result":
         return str(value).replace("1/2", "½")
     return plain(str(value))

@@ -11,16 +11,20 @@ import csv
 import io
 import json
 
+from pairings.points import Points, points_number
 from pairings.reports.clean import csv_cell, shared_rank
 from pairings.reports.sheets import Cell, Sheet
+
+
+def _data(value: Cell) -> str | int | float | None:
+    """A cell as data: points as numbers (:func:`~pairings.points.points_number`), the rest as it is."""
+    return points_number(value) if isinstance(value, Points) else value
 
 
 def _csv_value(value: Cell, kind: str) -> object:
     if kind == "rank" and value is not None:
         return shared_rank(str(value))
-    if isinstance(value, float) and value.is_integer():
-        return int(value)
-    return csv_cell(value)
+    return csv_cell(_data(value))
 
 
 def render_csv(sheet: Sheet) -> str:
@@ -44,7 +48,7 @@ def render_json(sheet: Sheet) -> str:
         "printed": sheet.printed,
         "notes": list(sheet.notes),
         "tables": [
-            {"caption": t.caption, "rows": [{c.key: v for c, v in zip(t.columns, row)} for row in t.rows]}
+            {"caption": t.caption, "rows": [{c.key: _data(v) for c, v in zip(t.columns, row)} for row in t.rows]}
             for t in sheet.tables
         ],
     }

@@ -8,8 +8,9 @@ from datetime import datetime
 from pairings.categories import describe_rule
 from pairings.errors import InputError
 from pairings.prizes import format_amount, prize_list
+from pairings.points import Points
 from pairings.reports.sheets import (
-    Cell, Column, Sheet, Table, _sheet, _tiebreak_columns, _tiebreak_notes, start_numbers,
+    Cell, Column, Sheet, Table, _sheet, _tiebreak_columns, _tiebreak_notes, outcome_mark, start_numbers,
 )
 from pairings.standings import standings
 from pairings.state import EventState, PlayerId, RoundState, System
@@ -34,12 +35,10 @@ def start_list_sheet(state: EventState, round_number: int | None, now: datetime)
     return _sheet(state, "start-list", "Starting rank list", 0, label, now, notes, (Table("Players", columns, rows),))
 
 
-def _grid_mark(points: float | None, played: bool, win: float, draw: float) -> str:
-    if points is None:
-        return "?"
-    if not played:
+def _grid_mark(points: Points | None, played: bool, win: Points, draw: Points) -> str:
+    if points is not None and not played:
         return "+" if points == win else "−"
-    return "1" if points == win else "½" if points == draw else "0" if points == 0 else f"{points:g}"
+    return outcome_mark(points, win, draw)
 
 
 def grid_sheet(state: EventState, round_number: int | None, now: datetime) -> Sheet:

@@ -9,6 +9,7 @@ from dataclasses import replace
 from datetime import datetime
 from decimal import Decimal
 
+from pairings.points import Points
 from pairings.reports.sheets import Cell, Column, Sheet, Table, _sheet, start_numbers
 from pairings.standings import counted_rounds
 from pairings.standings.ratingchange import CAP, CAP_EXEMPT_FROM, RatingChange, rating_changes
@@ -29,8 +30,9 @@ NOTES = (
 )
 
 
-def _number(value: Decimal | None) -> float | None:
-    return None if value is None else float(value)
+def _number(value: Decimal | None) -> Points | None:
+    """A score, expected score or change (exact decimals) as a sheet's points cell."""
+    return None if value is None else Points(value)
 
 
 def _note(c: RatingChange) -> str | None:
@@ -64,12 +66,12 @@ def rating_report_sheet(state: EventState, round_number: int | None, now: dateti
     for pid in order:
         c = changes[pid]
         name = state.players[pid].name
-        rows.append((number[pid], pid, name, c.rating, c.k, len(c.games), float(c.scored),
-                     float(c.expected) if c.rating is not None else None, _number(c.change), c.new_rating,
+        rows.append((number[pid], pid, name, c.rating, c.k, len(c.games), _number(c.scored),
+                     _number(c.expected) if c.rating is not None else None, _number(c.change), c.new_rating,
                      c.performance, _note(c)))
         if c.rating is not None:
             games += [(number[pid], name, g.round, state.players[g.opponent].name, g.opponent_rating,
-                       g.difference, float(g.expected), float(g.score), float(g.change)) for g in c.games]
+                       g.difference, _number(g.expected), _number(g.score), _number(g.change)) for g in c.games]
     columns = (Column("no", "No.", "number"), Column("player_id", "Id", "id"), Column("player", "Player", "name"),
                Column("rating", "Rtg", "number"), Column("k", "K", "number"), Column("games", "Games", "number"),
                Column("score", "Score", "points"), Column("expected", "Exp", "points"),
@@ -95,7 +97,7 @@ def with_rating_columns(sheet: Sheet, state: EventState) -> Sheet:
     rows = []
     for row in table.rows:
         c = changes[row[who]]  # type: ignore[index]
-        extra = (float(c.expected) if c.rating is not None else None, _number(c.change), c.performance)
+        extra = (_number(c.expected) if c.rating is not None else None, _number(c.change), c.performance)
         rows.append(row[:at] + extra + row[at:])
     columns = table.columns[:at] + added + table.columns[at:]
     notes = sheet.notes + (NOTES[1].replace("Only games", "Rating columns: only games"),)

@@ -11,13 +11,14 @@ from datetime import datetime
 from typing import Callable, Literal
 
 from pairings.errors import InputError
+from pairings.points import Points, points_text
 from pairings.regulations import changed_after_notes
 from pairings.reports.clean import stamp
 from pairings.categories import describe_rule, find_category, members
 from pairings.standings import UNPLAYED_LABELS, Standings, category_rows, legend, standings, tiebreak
 from pairings.state import Acceleration, ByeKind, EventState, PlayerId, Round, RoundEntry, RoundState, Side, System
 
-Cell = str | int | float | None
+Cell = str | int | Points | None
 ColumnKind = Literal["text", "name", "points", "number", "rank", "result", "id"]
 
 
@@ -253,25 +254,28 @@ def _marks(state: EventState) -> dict[Side, str]:
 
 
 def _cross_cell(entry: RoundEntry | None, number: dict[PlayerId, int], marks: dict[Side, str],
-                win: float, draw: float) -> str:
+                win: Points, draw: Points) -> str:
     if entry is None:
         return "–"
     if entry.bye is not None:
         return {ByeKind.PAIRING: "bye", ByeKind.REQUESTED: "req", ByeKind.ABSENCE: "abs"}[entry.bye] + (
-            " " + _outcome_mark(entry.points, win, draw))
+            " " + outcome_mark(entry.points, win, draw))
     assert entry.opponent is not None and entry.side is not None
     head = f"{number[entry.opponent]}{marks[entry.side]}"
     if entry.result is None:
         return f"{head} ?"
     if entry.played:
-        return f"{head} {_outcome_mark(entry.points, win, draw)}"
+        return f"{head} {outcome_mark(entry.points, win, draw)}"
     return f"{head} {'+' if entry.result.outcome(entry.side) == 'win' else '−'}"
 
 
-def _outcome_mark(value: float | None, win: float, draw: float) -> str:
+def outcome_mark(value: Points | None, win: Points, draw: Points) -> str:
+    """A round's mark in a crosstable or grid cell: ``1``, ``½``, ``0`` for a win's, a draw's or no
+    points (a mark of the outcome in every format, see :mod:`pairings.points`), other points as a
+    decimal, ``?`` while the result is to come."""
     if value is None:
         return "?"
-    return "1" if value == win else "½" if value == draw else "0" if value == 0 else f"{value:g}"
+    return "1" if value == win else "½" if value == draw else "0" if value == 0 else points_text(value)
 
 
 def crosstable_sheet(state: EventState, round_number: int | None, now: datetime) -> Sheet:

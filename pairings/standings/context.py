@@ -33,6 +33,7 @@ from enum import StrEnum
 from types import MappingProxyType
 from typing import Mapping
 
+from pairings.points import ZERO, Points, total
 from pairings.standings.entry import entered
 from pairings.state import (
     ByeKind, EventState, PlayerId, RoundEntry, Scoring, Side, Unplayed, late_entry_points,
@@ -58,13 +59,13 @@ class Slot:
     """The opponent over the board (also for a pending game); None when unplayed."""
     side: Side | None
     """The side of a played or pending game; None when unplayed."""
-    points: float
+    points: Points
     """Points the player scored this round (0 while pending)."""
-    fraction: float
+    fraction: Points
     """The round's score as a share of a win: 1, ½, 0 for a game; points / win when unplayed."""
     won: bool
     """Scored a win's points, with or without play."""
-    score_before: float
+    score_before: Points
     voluntary: bool = False
     """An unplayed round the player chose (VUR, C.07 2023 as remembered): a requested bye,
     an absence, a forfeit loss, a round before entry or after withdrawal. A pairing bye
@@ -80,9 +81,9 @@ class Context:
     unplayed: Unplayed
     slots: Mapping[PlayerId, tuple[Slot, ...]]
     """One slot per round 1..last for every player, in round order."""
-    points: Mapping[PlayerId, float]
+    points: Mapping[PlayerId, Points]
     """Actual points after round ``last``."""
-    for_others: Mapping[PlayerId, float]
+    for_others: Mapping[PlayerId, Points]
     """The score a player counts with in other players' tiebreaks (see module notes)."""
 
     last_drawn: bool = False
@@ -97,14 +98,14 @@ class Context:
         rating = self.state.players[player].rating
         return rating if rating is not None else self.state.settings.default_rating
 
-    def opponent_values(self, player: PlayerId) -> list[tuple[Slot, float]]:
+    def opponent_values(self, player: PlayerId) -> list[tuple[Slot, Points]]:
         """Each round that contributes an opponent, with the score that opponent counts with.
 
         Played and pending games give the real opponent's :attr:`for_others`
         score; unplayed rounds give the virtual or dummy opponent's score, or
         nothing when unplayed games count as they stand.
         """
-        out: list[tuple[Slot, float]] = []
+        out: list[tuple[Slot, Points]] = []
         for slot in self.slots[player]:
             if slot.kind is SlotKind.NOT_ENTERED:
                 continue
@@ -117,7 +118,7 @@ class Context:
         return out
 
 
-def opposite_points(points: float, scoring: Scoring) -> float:
+def opposite_points(points: Points, scoring: Scoring) -> Points:
     """The points of the other side of a result worth ``points`` (``1 - SfPR`` for 1-½-0)."""
     if points == scoring.win:
         return scoring.loss
@@ -128,7 +129,7 @@ def opposite_points(points: float, scoring: Scoring) -> float:
     return scoring.win + scoring.loss - points
 
 
-def virtual_opponent_score(slot: Slot, last: int, scoring: Scoring) -> float:
+def virtual_opponent_score(slot: Slot, last: int, scoring: Scoring) -> Points:
     """``Svon = SPR + (1 - SfPR) + 0.5 * (n - R)`` (FIDE 2009 decision on unplayed games).
 
     ``SPR`` is the player's score before round ``R``, ``SfPR`` the player's
@@ -139,24 +140,33 @@ def virtual_opponent_score(slot: Slot, last: int, scoring: Scoring) -> float:
     return slot.score_before + opposite_points(slot.points, scoring) + scoring.draw * later
 
 
-def _slot(entry: RoundEntry | None, round_number: int, before: float, scoring: Scoring, drawn: bool,
-          missed: float) -> Slot:
+_SHARE = {"win": Points(1), "draw": Points(1, 2), "loss": ZERO}
+"""A game's result as a share of a win, whatever the event's points."""
+
+
+def _share(points: Points, scoring: Scoring) -> Points:
+    """``points`` as a share of a win's points (a half-point bye is ½ of a 1-point win, 1 point ⅓ of 3)."""
+    return points / scoring.win if scoring.win else ZERO
+
+
+def _slot(entry: RoundEntry | None, round_number: int, before: Points, scoring: Scoring, drawn: bool,
+          missed: Points) -> Slot:
     """``missed``: the late-entry points for this round when the player had not entered yet."""
     if entry is None:
-        fraction = missed / scoring.win if scoring.win else 0.0
-        return Slot(round_number, SlotKind.UNPLAYED, None, None, missed, fraction, False, before, voluntary=True)
-    points = entry.points or 0.0
+        return Slot(round_number, SlotKind.UNPLAYED, None, None, missed, _share(missed, scoring), False, before,
+                    voluntary=True)
+    points = entry.points if entry.points is not None else ZERO
     if drawn and entry.opponent is not None and (entry.played or entry.result is None):
         # Fore Buchholz: every game of the last round counts as a draw.
-        return Slot(round_number, SlotKind.PLAYED, entry.opponent, entry.side, scoring.draw, 0.5, False, before)
+        return Slot(round_number, SlotKind.PLAYED, entry.opponent, entry.side, scoring.draw, _SHARE["draw"], False,
+                    before)
     if entry.opponent is not None and entry.result is None:
-        return Slot(round_number, SlotKind.PENDING, entry.opponent, entry.side, 0.0, 0.0, False, before)
+        return Slot(round_number, SlotKind.PENDING, entry.opponent, entry.side, ZERO, ZERO, False, before)
     won = scoring.win > scoring.loss and points >= scoring.win
     if entry.played and entry.result is not None and entry.side is not None:
         outcome = entry.result.outcome(entry.side)
-        fraction = {"win": 1.0, "draw": 0.5, "loss": 0.0}[outcome]
-        return Slot(round_number, SlotKind.PLAYED, entry.opponent, entry.side, points, fraction, won, before)
-    fraction = points / scoring.win if scoring.win else 0.0
+        return Slot(round_number, SlotKind.PLAYED, entry.opponent, entry.side, points, _SHARE[outcome], won, before)
+    fraction = _share(points, scoring)
     voluntary = entry.bye in (ByeKind.REQUESTED, ByeKind.ABSENCE) or (entry.bye is None and not won)
     return Slot(round_number, SlotKind.UNPLAYED, None, None, points, fraction, won, before, voluntary)
 
@@ -168,10 +178,10 @@ def build_context(state: EventState, last: int, unplayed: Unplayed, last_drawn: 
     """
     scoring = state.settings.scoring
     slots: dict[PlayerId, tuple[Slot, ...]] = {}
-    points: dict[PlayerId, float] = {}
+    points: dict[PlayerId, Points] = {}
     for pid, record in state.records.items():
         row: list[Slot] = []
-        score = 0.0
+        score = ZERO
         for r in range(1, last + 1):
             missed = late_entry_points(record.late_points, record.first_round, r)
             slot = _slot(record.entry(r), r, score, scoring, last_drawn and r == last, missed)
@@ -184,13 +194,13 @@ def build_context(state: EventState, last: int, unplayed: Unplayed, last_drawn: 
     if unplayed is Unplayed.VIRTUAL_OPPONENT:
         # A player's own unplayed rounds count as draws towards other players' tiebreaks.
         for_others = {
-            pid: sum(scoring.draw if s.kind is SlotKind.UNPLAYED else s.points for s in row)
+            pid: total(scoring.draw if s.kind is SlotKind.UNPLAYED else s.points for s in row)
             for pid, row in slots.items()
         }
     elif unplayed is Unplayed.DUMMY_OPPONENT:
         # The adjusted score: voluntary unplayed rounds count as draws (C.07 2023, as remembered).
         for_others = {
-            pid: sum(scoring.draw if s.voluntary else s.points for s in row) for pid, row in slots.items()
+            pid: total(scoring.draw if s.voluntary else s.points for s in row) for pid, row in slots.items()
         }
     else:
         for_others = dict(points)

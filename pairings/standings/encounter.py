@@ -12,18 +12,19 @@ from __future__ import annotations
 
 from typing import Iterable
 
+from pairings.points import ZERO, Points
 from pairings.standings.context import Context, SlotKind
 from pairings.standings.measures import Values
 from pairings.state import PlayerId
 
 
-def _among(ctx: Context, group: frozenset[PlayerId]) -> tuple[dict[PlayerId, float], dict[PlayerId, int]]:
+def _among(ctx: Context, group: frozenset[PlayerId]) -> tuple[dict[PlayerId, Points], dict[PlayerId, int]]:
     """Each player's points against the group, and how many of the group they never met."""
-    scores: dict[PlayerId, float] = {}
+    scores: dict[PlayerId, Points] = {}
     missing: dict[PlayerId, int] = {}
     for pid in group:
         met = set()
-        total = 0.0
+        total = ZERO
         for slot in ctx.slots[pid]:
             if slot.kind is SlotKind.PLAYED and slot.opponent in group:
                 met.add(slot.opponent)
@@ -71,6 +72,6 @@ def direct_encounter(ctx: Context, groups: Iterable[frozenset[PlayerId]]) -> tup
         applies = len(group) > 1 and (len(ordered) > 1 or not any(missing.values()))
         for n, level in enumerate(ordered):
             for pid in level:
-                shown[pid] = scores[pid] if applies else 0.0
-                key[pid] = float(len(ordered) - 1 - n)
+                shown[pid] = scores[pid] if applies else ZERO
+                key[pid] = Points(len(ordered) - 1 - n)
     return shown, key

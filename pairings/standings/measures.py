@@ -14,26 +14,30 @@ contribution is cut first (C.07 2023, as remembered, low confidence).
 
 from __future__ import annotations
 
-from typing import Callable, Iterable
+from typing import Callable, Iterable, TypeVar
 
+from pairings.points import ZERO, Points, total
 from pairings.standings.context import Context, Slot, SlotKind
 from pairings.state import PlayerId, Side, Unplayed
 
 Modifier = tuple[str, int] | None
 """``None``, ``("C", n)`` (cut n) or ``("M", n)`` (median n)."""
-Values = dict[PlayerId, float]
+Values = dict[PlayerId, Points]
+"""Every player's value of one tiebreak, exact (counts and ratings are whole fractions)."""
 Measure = Callable[[Context, Modifier], Values]
+Amount = TypeVar("Amount", Points, int)
 
 
-def trim(items: Iterable[tuple[tuple[float, ...], float]], modifier: Modifier) -> list[float]:
+def trim(items: Iterable[tuple[tuple[Points | int, ...], Amount]], modifier: Modifier) -> list[Amount]:
     """The amounts left after the modifier, each item given as ``(significance, amount)``.
 
     Items sort by significance, least significant first; cut drops from the low
     end, median from both ends. Fewer items than the modifier drops leave nothing.
+    Without a modifier every amount is left, in the order given (nothing to sort).
     """
-    ordered = [amount for _, amount in sorted(items, key=lambda item: item[0])]
     if modifier is None:
-        return ordered
+        return [amount for _, amount in items]
+    ordered = [amount for _, amount in sorted(items, key=lambda item: item[0])]
     kind, n = modifier
     if kind == "C":
         return ordered[n:]
@@ -52,8 +56,8 @@ def buchholz(ctx: Context, modifier: Modifier) -> Values:
     virtual or dummy opponent, or nothing, as the context's treatment says.
     """
     return {
-        pid: sum(trim((((_cut_first(ctx, slot), value), value) for slot, value in ctx.opponent_values(pid)),
-                      modifier))
+        pid: total(trim((((_cut_first(ctx, slot), value), value) for slot, value in ctx.opponent_values(pid)),
+                        modifier))
         for pid in ctx.slots
     }
 
@@ -67,8 +71,9 @@ def sonneborn_berger(ctx: Context, modifier: Modifier) -> Values:
     scores): our reading of "least significant", from memory.
     """
     return {
-        pid: sum(trim((((_cut_first(ctx, slot), value, slot.fraction * value), slot.fraction * value)
-                       for slot, value in ctx.opponent_values(pid)), modifier))
+        pid: total(trim((((_cut_first(ctx, slot), value, product), product)
+                         for slot, value, product in ((s, v, s.fraction * v) for s, v in ctx.opponent_values(pid))),
+                        modifier))
         for pid in ctx.slots
     }
 
@@ -93,13 +98,13 @@ def average_opponents_buchholz(ctx: Context, modifier: Modifier) -> Values:
     out: Values = {}
     for pid, slots in ctx.slots.items():
         values = [bh[s.opponent] for s in slots if s.opponent is not None]
-        out[pid] = sum(values) / len(values) if values else 0.0
+        out[pid] = total(values) / len(values) if values else ZERO
     return out
 
 
 def wins(ctx: Context, modifier: Modifier) -> Values:
     """WIN: rounds in which the player scored a win's points, with or without play (C.07 2023, from memory)."""
-    return {pid: float(sum(1 for s in slots if s.won)) for pid, slots in ctx.slots.items()}
+    return {pid: Points(sum(1 for s in slots if s.won)) for pid, slots in ctx.slots.items()}
 
 
 def _played(slots: tuple[Slot, ...]) -> list[Slot]:
@@ -108,7 +113,7 @@ def _played(slots: tuple[Slot, ...]) -> list[Slot]:
 
 def games_won(ctx: Context, modifier: Modifier) -> Values:
     """WON: games won over the board (forfeit wins and byes do not count) (C.07, from memory)."""
-    return {pid: float(sum(1 for s in _played(slots) if s.fraction == 1.0)) for pid, slots in ctx.slots.items()}
+    return {pid: Points(sum(1 for s in _played(slots) if s.fraction == 1)) for pid, slots in ctx.slots.items()}
 
 
 def games_second(ctx: Context, modifier: Modifier) -> Values:
@@ -117,13 +122,13 @@ def games_second(ctx: Context, modifier: Modifier) -> Values:
     In an event without sides it counts games as the second-listed player, which
     carries no meaning; such events should not use it (the defaults do not).
     """
-    return {pid: float(sum(1 for s in _played(slots) if s.side is Side.SECOND)) for pid, slots in ctx.slots.items()}
+    return {pid: Points(sum(1 for s in _played(slots) if s.side is Side.SECOND)) for pid, slots in ctx.slots.items()}
 
 
 def wins_second(ctx: Context, modifier: Modifier) -> Values:
     """BWG: games won over the board with Black, the second side (C.07, from memory)."""
     return {
-        pid: float(sum(1 for s in _played(slots) if s.side is Side.SECOND and s.fraction == 1.0))
+        pid: Points(sum(1 for s in _played(slots) if s.side is Side.SECOND and s.fraction == 1))
         for pid, slots in ctx.slots.items()
     }
 
@@ -137,12 +142,12 @@ def progressive(ctx: Context, modifier: Modifier) -> Values:
     drop = modifier[1] if modifier is not None else 0
     out: Values = {}
     for pid, slots in ctx.slots.items():
-        running, total = 0.0, 0.0
+        running, progress = ZERO, ZERO
         for n, slot in enumerate(slots):
             running += slot.points
             if n >= drop:
-                total += running
-        out[pid] = total
+                progress += running
+        out[pid] = progress
     return out
 
 
@@ -155,6 +160,6 @@ def koya(ctx: Context, modifier: Modifier) -> Values:
     """
     limit = ctx.scoring.win * ctx.last / 2
     return {
-        pid: sum(s.points for s in _played(slots) if s.opponent is not None and ctx.points[s.opponent] >= limit)
+        pid: total(s.points for s in _played(slots) if s.opponent is not None and ctx.points[s.opponent] >= limit)
         for pid, slots in ctx.slots.items()
     }

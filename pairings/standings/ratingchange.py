@@ -30,6 +30,7 @@ from __future__ import annotations
 from dataclasses import dataclass
 from decimal import Decimal
 
+from pairings.points import Points
 from pairings.standings.ratings import dp_from_fraction, expected_hundredths, round_half_up
 from pairings.state import EventState, Player, PlayerId, RoundState
 
@@ -121,7 +122,7 @@ class RatingChange:
         if not self.games:
             return None
         average = round_half_up(Decimal(sum(g.opponent_rating for g in self.games)) / len(self.games))
-        return average + dp_from_fraction(float(self.scored / len(self.games)))
+        return average + dp_from_fraction(Points(self.scored) / len(self.games))
 
 
     @property
@@ -134,7 +135,7 @@ class RatingChange:
             return None
         ratings = [g.opponent_rating for g in self.games] + [HYPOTHETICAL] * 2
         average = round_half_up(Decimal(sum(ratings)) / len(ratings))
-        return average + dp_from_fraction(float((self.scored + 1) / (len(self.games) + 2)))
+        return average + dp_from_fraction((Points(self.scored) + 1) / (len(self.games) + 2))
 
 
 def _year(text: str | None) -> int | None:

@@ -8,11 +8,13 @@ lookup tables as remembered, not formulas: the Handbook applies them as printed.
 
 from __future__ import annotations
 
+import math
 from bisect import bisect_left
 from decimal import ROUND_HALF_UP, Decimal
 from types import MappingProxyType
 from typing import Callable, Mapping
 
+from pairings.points import ZERO, Points, total
 from pairings.standings.context import Context, Slot, SlotKind
 from pairings.standings.measures import Modifier, Values, trim
 from pairings.state import PlayerId
@@ -35,18 +37,22 @@ _PD_UPPER = (3, 10, 17, 25, 32, 39, 46, 53, 61, 68, 76, 83, 91, 98, 106, 113, 12
              328, 344, 357, 374, 391, 411, 432, 456, 484, 517, 559, 619, 735)
 
 
-def round_half_up(value: Decimal) -> int:
-    return int(value.quantize(Decimal("1"), rounding=ROUND_HALF_UP))
+def round_half_up(value: Decimal | Points) -> int:
+    """The nearest whole number, halves away from zero (Decimal's ROUND_HALF_UP)."""
+    if isinstance(value, Decimal):
+        return int(value.quantize(Decimal("1"), rounding=ROUND_HALF_UP))
+    whole = math.floor(abs(value) + Points(1, 2))
+    return whole if value >= 0 else -whole
 
 
-def dp_from_fraction(p: float) -> int:
+def dp_from_fraction(p: Points) -> int:
     """The B.02 rating difference for a score fraction ``p`` in [0, 1], p rounded half up to 0.01.
 
     Raises :class:`ValueError` outside [0, 1].
     """
-    if not 0.0 <= p <= 1.0:
+    if not 0 <= p <= 1:
         raise ValueError(f"score fraction {p} outside 0..1")
-    hundredths = round_half_up(Decimal(str(p)) * 100)
+    hundredths = round_half_up(p * 100)
     if hundredths >= 50:
         return _DP_TABLE[hundredths]
     return -_DP_TABLE[100 - hundredths]
@@ -67,8 +73,8 @@ def _opponent_ratings(ctx: Context, player: PlayerId) -> list[int]:
     return [ctx.rating(s.opponent) for s in _played(ctx, player) if s.opponent is not None]
 
 
-def _mean(values: list[int]) -> float:
-    return float(round_half_up(Decimal(sum(values)) / Decimal(len(values)))) if values else 0.0
+def _mean(values: list[int]) -> Points:
+    return Points(round_half_up(Points(sum(values), len(values)))) if values else ZERO
 
 
 def average_rating_opponents(ctx: Context, modifier: Modifier) -> Values:
@@ -82,9 +88,9 @@ def average_rating_opponents(ctx: Context, modifier: Modifier) -> Values:
     }
 
 
-def _fraction(ctx: Context, player: PlayerId) -> tuple[float, int]:
+def _fraction(ctx: Context, player: PlayerId) -> tuple[Points, int]:
     played = _played(ctx, player)
-    return sum(s.fraction for s in played), len(played)
+    return total(s.fraction for s in played), len(played)
 
 
 def performance_rating(ctx: Context, modifier: Modifier) -> Values:
@@ -94,7 +100,7 @@ def performance_rating(ctx: Context, modifier: Modifier) -> Values:
     out: Values = {}
     for pid in ctx.slots:
         scored, games = _fraction(ctx, pid)
-        out[pid] = aro[pid] + dp_from_fraction(scored / games) if games else 0.0
+        out[pid] = aro[pid] + dp_from_fraction(scored / games) if games else ZERO
     return out
 
 
@@ -125,13 +131,13 @@ def perfect_performance(ctx: Context, modifier: Modifier) -> Values:
         ratings = _opponent_ratings(ctx, pid)
         scored, games = _fraction(ctx, pid)
         if not games:
-            out[pid] = 0.0
+            out[pid] = ZERO
         elif scored == games:
-            out[pid] = float(max(ratings) + 800)
+            out[pid] = Points(max(ratings) + 800)
         elif scored == 0:
-            out[pid] = float(min(ratings) - 800)
+            out[pid] = Points(min(ratings) - 800)
         else:
-            target = round_half_up(Decimal(str(scored)) * 100)
+            target = round_half_up(scored * 100)
 
             def expected(rating: int) -> int:
                 return sum(expected_hundredths(rating - r) for r in ratings)
@@ -139,9 +145,9 @@ def perfect_performance(ctx: Context, modifier: Modifier) -> Values:
             low = _lowest_rating(ratings, lambda r: expected(r) >= target)
             if expected(low) == target:
                 high = _lowest_rating(ratings, lambda r: expected(r) > target) - 1
-                out[pid] = float(round_half_up(Decimal(low + high) / 2))
+                out[pid] = Points(round_half_up(Points(low + high, 2)))
             else:
-                out[pid] = float(low)
+                out[pid] = Points(low)
     return out
 
 

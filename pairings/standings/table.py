@@ -14,13 +14,10 @@ from types import MappingProxyType
 from typing import Mapping, Sequence
 
 from pairings.errors import InputError
+from pairings.points import Points, points_number
 from pairings.standings.context import build_context
 from pairings.standings.tiebreaks import check_tiebreaks, tiebreak
 from pairings.state import EventState, PlayerId, RoundState, Status, Unplayed
-
-_PLACES = 6
-"""Tiebreak values are rounded to this many decimals, so float noise never splits a tie."""
-
 
 @dataclass(frozen=True, slots=True)
 class StandingsRow:
@@ -28,9 +25,10 @@ class StandingsRow:
     """A whole number, or ``"3-5"`` for a shared rank."""
     player: PlayerId
     name: str
-    points: float
-    tiebreaks: Mapping[str, float]
-    """The event's tiebreaks in order, keyed by their canonical acronyms (``BH-C1``)."""
+    points: Points
+    tiebreaks: Mapping[str, Points]
+    """The event's tiebreaks in order, keyed by their canonical acronyms (``BH-C1``); exact, so equal
+    values tie without any rounding."""
     withdrawn: bool = False
 
 
@@ -46,15 +44,16 @@ class Standings:
 
     def to_json(self) -> list[dict[str, object]]:
         """The interchange shape of ``design.md``: one object per row, best first; the tiebreaks
-        under their snake_case keys, in the order applied."""
+        under their snake_case keys, in the order applied; numbers as :func:`~pairings.points.points_number`
+        writes them."""
         keys = [(a, tiebreak(a).key) for a in self.tiebreaks]
         return [
             {
                 "rank": row.rank,
                 "player": row.player,
                 "name": row.name,
-                "points": row.points,
-                "tiebreaks": {key: row.tiebreaks[a] for a, key in keys},
+                "points": points_number(row.points),
+                "tiebreaks": {key: points_number(row.tiebreaks[a]) for a, key in keys},
             }
             for row in self.rows
         ]
@@ -82,7 +81,7 @@ def _after_round(state: EventState, after_round: int | None) -> int:
     return after_round
 
 
-def _shared_ranks(keys: list[tuple[float, ...]]) -> list[int | str]:
+def _shared_ranks(keys: list[tuple[Points, ...]] | list[tuple[int]]) -> list[int | str]:
     """Rank numbers for sorted keys: equal keys share a rank written ``"first-last"``."""
     ranks: list[int | str] = []
     start = 0
@@ -122,20 +121,19 @@ def standings(
     last = _after_round(state, after_round)
     ctx = build_context(state, last, treatment)
     order = state.initial_rank()
-    seed = {pid: i for i, pid in enumerate(order)}
 
-    keys: dict[PlayerId, list[float]] = {pid: [round(ctx.points[pid], _PLACES)] for pid in order}
-    shown: dict[PlayerId, list[float]] = {pid: [] for pid in order}
+    keys: dict[PlayerId, list[Points]] = {pid: [ctx.points[pid]] for pid in order}
+    shown: dict[PlayerId, list[Points]] = {pid: [] for pid in order}
     for name in names:
-        groups: dict[tuple[float, ...], set[PlayerId]] = {}
+        groups: dict[tuple[Points, ...], set[PlayerId]] = {}
         for pid in order:
             groups.setdefault(tuple(keys[pid]), set()).add(pid)
         values, sort_keys = tiebreak(name).evaluate(ctx, [frozenset(g) for g in groups.values()])
         for pid in order:
-            keys[pid].append(round(sort_keys[pid] + 0.0, _PLACES))
-            shown[pid].append(round(values[pid] + 0.0, _PLACES))
+            keys[pid].append(sort_keys[pid])
+            shown[pid].append(values[pid])
 
-    ranked = sorted(order, key=lambda pid: ([-k for k in keys[pid]], seed[pid]))
+    ranked = sorted(order, key=lambda pid: keys[pid], reverse=True)   # stable: equal keys stay in initial rank
     ranks = _shared_ranks([tuple(keys[pid]) for pid in ranked])
     rows = tuple(
         StandingsRow(
@@ -158,8 +156,8 @@ def category_rows(table: Standings, inside: frozenset[PlayerId] | set[PlayerId])
     """The rows of the players ``inside`` a category, ranked among themselves in the same order;
     players who share a rank overall share one here too."""
     picked = [r for r in table.rows if r.player in inside]
-    first: dict[str, float] = {}
+    first: dict[str, int] = {}
     for n, row in enumerate(table.rows):
-        first.setdefault(str(row.rank), float(n))
+        first.setdefault(str(row.rank), n)
     ranks = _shared_ranks([(first[str(r.rank)],) for r in picked])
     return tuple(replace(r, rank=rank) for r, rank in zip(picked, ranks))

@@ -18,14 +18,13 @@ from pairings.actions import clean_text
 from pairings.errors import InputError, ReportFileError
 from pairings.eventinfo import InfoChange, check_date, checked_info
 from pairings.standings import check_tiebreaks, default_tiebreaks
-from pairings.state import ByeKind, Result, Side, System, Unplayed
+from pairings.state import TITLES, ByeKind, Result, Side, System, Unplayed
 from pairings.trf.layout import (
     BLACK, BYE_CODES, FORFEIT_CODES, HEADER, NO_COLOUR, PLAYED_CODES, PLAYER, PLAYER_TAG, ROUNDS_TAG,
     SCORING_TAG, TIEBREAK_TAG, UNRATED_CODES, WHITE, Span, slot_spans, slot_start,
 )
-from pairings.trf.write import DEFAULT_POINTS, TYPES, Points
-
-TITLES = ("GM", "IM", "WGM", "FM", "WIM", "CM", "WFM", "WCM")
+from pairings.points import ZERO, Points, PointsError, exact, parse_points, points_text
+from pairings.trf.write import DEFAULT_POINTS, TYPES, ScoringValues
 
 RESULTS = {
     ("1", "0"): Result.FIRST_WINS, ("0", "1"): Result.SECOND_WINS, ("=", "="): Result.DRAW,
@@ -60,7 +59,7 @@ class _Entry:
     federation: str | None
     fide_id: str | None
     birth: str | None
-    points: float
+    points: Points
     slots: dict[int, _Slot] = field(default_factory=dict)
 
 
@@ -141,11 +140,11 @@ def _player(line_no: int, text: str) -> _Entry:
     if federation is not None and not (len(federation) == 3 and federation.isalpha()):
         raise _fail(line_no, f["federation"].first, f"federation {federation!r} is not a three-letter code")
     fide_id = _digits(line_no, f["fide_id"], text, "FIDE ID")
-    points_text = f["points"].cut(text)
+    written = f["points"].cut(text)
     try:
-        points = float(points_text)
-    except ValueError:
-        raise _fail(line_no, f["points"].first, f"points {points_text!r} are not a number") from None
+        points = exact(written)
+    except PointsError:
+        raise _fail(line_no, f["points"].first, f"points {written!r} are not a number") from None
     entry = _Entry(
         line=line_no, rank=rank, name=name, sex={"m": "m", "w": "f", "f": "f"}.get(sex_text),
         title=title, rating=_digits(line_no, f["rating"], text, "rating") or None,
@@ -170,7 +169,7 @@ class _Header:
     deputies: list[str] = field(default_factory=list)
     round_dates: tuple[str, ...] = ()
     rounds: int | None = None
-    points: Points = DEFAULT_POINTS
+    points: ScoringValues = DEFAULT_POINTS
     tiebreaks: tuple[tuple[str, ...], Unplayed] | None = None
 
 
@@ -209,13 +208,13 @@ def _header_line(h: _Header, line_no: int, tag: str, text: str) -> None:
         h.rounds = int(value)
     elif tag == SCORING_TAG:
         try:
-            numbers = tuple(float(x) for x in value.split())
-        except ValueError:
+            numbers = tuple(parse_points(x) for x in value.split())
+        except PointsError:
             numbers = ()
         if len(numbers) not in (5, 6):
             raise _fail(line_no, 5, "points must be five or six numbers: win, draw, loss, pairing bye, "
                         "requested bye (and per round missed before a late entry)")
-        n = (*numbers, 0.0)
+        n = (*numbers, ZERO)
         h.points = (n[0], n[1], n[2], n[3], n[4], n[5])
     elif tag == TIEBREAK_TAG:
         names, _, unplayed = value.partition(" ")
@@ -270,7 +269,7 @@ def _check_ranks(players: list[_Entry]) -> dict[int, _Entry]:
     return by_rank
 
 
-def _round(r: int, by_rank: dict[int, _Entry], points: Points) -> ev.RoundDrafted:
+def _round(r: int, by_rank: dict[int, _Entry], points: ScoringValues) -> ev.RoundDrafted:
     win, _, _, bye, half, _ = points
     boards: list[tuple[int, ev.BoardModel]] = []
     byes: list[ev.ByeModel] = []
@@ -280,7 +279,7 @@ def _round(r: int, by_rank: dict[int, _Entry], points: Points) -> ev.RoundDrafte
             continue
         if slot.opponent is None:
             kind, value = {"U": (ByeKind.PAIRING, bye), "H": (ByeKind.REQUESTED, half),
-                           "F": (ByeKind.REQUESTED, win), "Z": (ByeKind.ABSENCE, 0.0)}[slot.code]
+                           "F": (ByeKind.REQUESTED, win), "Z": (ByeKind.ABSENCE, ZERO)}[slot.code]
             byes.append(ev.ByeModel(player=f"p{p.rank}", kind=kind, points=value))
             continue
         other = by_rank.get(slot.opponent)
@@ -303,18 +302,19 @@ def _round(r: int, by_rank: dict[int, _Entry], points: Points) -> ev.RoundDrafte
     return ev.RoundDrafted(round=r, boards=numbered, byes=tuple(byes), source="restored")
 
 
-def _check_points(p: _Entry, rounds: list[ev.RoundDrafted], points: Points) -> None:
+def _check_points(p: _Entry, rounds: list[ev.RoundDrafted], points: ScoringValues) -> None:
     win, draw, loss, late = points[0], points[1], points[2], points[5]
     pid = f"p{p.rank}"
-    total = late * (min(p.slots) - 1) if p.slots else 0.0  # the rounds missed before a late entry
+    total = late * (min(p.slots) - 1) if p.slots else ZERO  # the rounds missed before a late entry
     for rnd in rounds:
         total += sum(y.points for y in rnd.byes if y.player == pid)
         for g in rnd.boards:
             if pid in (g.first, g.second) and g.result is not None:
                 outcome = g.result.outcome(Side.FIRST if g.first == pid else Side.SECOND)
                 total += {"win": win, "draw": draw, "loss": loss}[outcome]
-    if abs(total - p.points) > 0.05:
-        raise _fail(p.line, PLAYER["points"].first, f"points {p.points:g} but the rounds give {total:g}")
+    if abs(total - p.points) > Points(1, 20):  # the column holds one decimal
+        raise _fail(p.line, PLAYER["points"].first,
+                    f"points {points_text(p.points)} but the rounds give {points_text(total)}")
 
 
 INFO_TAGS = {"city": "022", "federation": "032", "start_date": "042", "end_date": "052",

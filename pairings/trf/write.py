@@ -9,6 +9,7 @@ that goes with them).
 
 from __future__ import annotations
 
+from pairings.points import ZERO, Points, points_text
 from pairings.standings import check_tiebreaks, default_tiebreaks
 from pairings.standings.ratingchange import fide_rating
 from pairings.state import (
@@ -19,8 +20,8 @@ from pairings.trf.layout import (
     slot_start,
 )
 
-Points = tuple[float, float, float, float, float, float]
-DEFAULT_POINTS: Points = (1.0, 0.5, 0.0, 1.0, 0.5, 0.0)
+ScoringValues = tuple[Points, Points, Points, Points, Points, Points]
+DEFAULT_POINTS: ScoringValues = (Points(1), Points(1, 2), ZERO, Points(1), Points(1, 2), ZERO)
 """Win, draw, loss, pairing bye, requested bye, each round missed before a late entry: the values a
 report file assumes (PTS omitted)."""
 
@@ -39,22 +40,17 @@ def trf_date(iso: str, short: bool = False) -> str:
     return text[2:] if short else text
 
 
-def points_text(value: float) -> str:
-    """Points with one decimal, as the 001 record writes them (`` 2.5``, ``10.0``)."""
-    return f"{value:.1f}"
-
-
 def event_type(settings: Settings) -> str:
     return TYPES[settings.system, settings.double_round and settings.system is System.ROUND_ROBIN]
 
 
-def scoring_values(settings: Settings) -> Points:
+def scoring_values(settings: Settings) -> ScoringValues:
     s = settings
     return (s.scoring.win, s.scoring.draw, s.scoring.loss, s.bye_points, s.requested_bye_points,
             s.late_entry_points)
 
 
-def bye_code(kind: ByeKind, points: float, settings: Settings) -> str:
+def bye_code(kind: ByeKind, points: Points, settings: Settings) -> str:
     """U for a pairing bye; for a requested bye F (a win's points), Z (none) or H; Z for an absence."""
     if kind is ByeKind.PAIRING:
         return "U"
@@ -67,7 +63,7 @@ def _slot(entry: RoundEntry | None, number: dict[PlayerId, int], settings: Setti
     if entry is None:  # not paired: before a late entry, after a withdrawal
         return " " * 8
     if entry.bye is not None:
-        return f"0000 {NO_COLOUR} {bye_code(entry.bye, entry.points or 0.0, settings)}"
+        return f"0000 {NO_COLOUR} {bye_code(entry.bye, entry.points or ZERO, settings)}"
     assert entry.opponent is not None and entry.side is not None
     colour = WHITE if entry.side is Side.FIRST else BLACK
     code = " "
@@ -102,7 +98,7 @@ def _player_line(state: EventState, player: Player, number: dict[PlayerId, int],
         "federation": d.federation or "",
         "fide_id": d.fide_id or "",
         "birth": trf_date(d.birth) if d.birth else "",
-        "points": points_text(state.records[player.id].score),
+        "points": points_text(round(state.records[player.id].score, 1), "report"),  # the column's one decimal
         "rank": rank,
     }
     line = [" "] * (slot_start(len(rounds) + 1) - 1)
@@ -151,7 +147,7 @@ def write_trf(state: EventState) -> str:
     if colour:
         lines.append(f"{COLOUR_TAG} {colour}")
     if scoring_values(s) != DEFAULT_POINTS:
-        lines.append(f"{SCORING_TAG} " + " ".join(points_text(v) for v in scoring_values(s)))
+        lines.append(f"{SCORING_TAG} " + " ".join(points_text(v, "report") for v in scoring_values(s)))
     tiebreaks = check_tiebreaks(list(s.tiebreaks))
     if tiebreaks != default_tiebreaks(s.system, True) or s.unplayed is not Unplayed.VIRTUAL_OPPONENT:
         lines.append(f"{TIEBREAK_TAG} {','.join(tiebreaks) or '-'} {s.unplayed.value}")

@@ -36,8 +36,16 @@ RESULT_KEYS: dict[str, Result] = {
 _KEY_SHOWN = {"plus": "+", "minus": "-"}
 
 
-def result_text(result: Result | None) -> str:
-    return f"{result.value}  {RESULT_WORDS[result]}" if result is not None else "open"
+def result_text(result: Result | None, sides: tuple[str, str] | None = None) -> str:
+    """The code and its words; with the event's side names ("White wins") where it has them, which is
+    also what fits an 80-column board line."""
+    if result is None:
+        return "open"
+    words = RESULT_WORDS[result]
+    if sides is not None:
+        words = words.replace("first side", sides[0]).replace("second side", sides[1])
+        words = words.replace("first", sides[0]).replace("second", sides[1]) if "arbiter" in words else words
+    return f"{result.value}  {words}"
 
 
 RESULT_WIDTH = max(len(result_text(r)) for r in Result)
@@ -113,7 +121,7 @@ class ResultsPlace(Place):
             g = rnd.games[i]
             return (str(g.board), name(state, g.first), points(state.records[g.first].score_before(rnd.number)),
                     name(state, g.second), points(state.records[g.second].score_before(rnd.number)),
-                    result_text(g.result))
+                    result_text(g.result, state.settings.sides))
 
         return row
 

@@ -155,7 +155,7 @@ class RoundPlace(Place):
             self._boards = ()
             return
         sides = state.settings.sides or ("First", "Second")
-        costs = [f"{k} {points(v)}" for k, v in rnd.cost.items() if v]
+        costs = [f"{k} {v}" for k, v in rnd.cost.items() if v]
         # The topline says how the latest round stands; this line says it for a round browsed back to.
         what = f"Round {rnd.number}" if rnd is state.last_round else f"Round {rnd.number}: {describe_round(rnd)}"
         what += " · cost: " + (", ".join(costs) if costs else "none")
@@ -217,7 +217,7 @@ class RoundPlace(Place):
             "Cost by criterion:",
         ]
         costs = [(k, v) for k, v in game.cost.items() if v]
-        lines += [f"  {k:<15}{points(v)}" for k, v in costs] or ["  nothing: every criterion met"]
+        lines += [f"  {k:<15}{v}" for k, v in costs] or ["  nothing: every criterion met"]
         if rnd.state is RoundState.DRAFT:
             lines += ["", "Why: working it out …"]
             self._wanted = (state.head, rnd.number, board)

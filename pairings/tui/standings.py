@@ -124,11 +124,11 @@ class StandingsPlace(Place):
 
         def row(i: int) -> tuple[str, ...]:
             r = rows[i]
-            return (str(r.rank), r.name, points(r.points), *(f"{r.tiebreaks[k]:g}" for k in st.tiebreaks),
+            return (str(r.rank), r.name, points(r.points), *(points(r.tiebreaks[k]) for k in st.tiebreaks),
                     "withdrawn" if r.withdrawn else "")
 
         grid.set_source([r.player for r in rows], row, [
-            widest(str(r.rank) for r in rows), widest(r.name for r in rows), 6, *(widest(f"{r.tiebreaks[k]:g}" for r in rows) for k in st.tiebreaks), 9,
+            widest(str(r.rank) for r in rows), widest(r.name for r in rows), 6, *(widest(points(r.tiebreaks[k]) for r in rows) for k in st.tiebreaks), 9,
         ])
 
     def _show_prizes(self, grid: Grid, found: "PrizeList") -> None:

@@ -13,6 +13,7 @@ from typing import Iterable
 from rich.cells import cell_len
 from rich.text import Text
 
+from pairings.points import Points, points_text
 from pairings.state import EventState, Game, PlayerId, Result, Round, RoundState
 from pairings.text import plain
 
@@ -32,10 +33,11 @@ def widest(values: Iterable[object]) -> int:
     return max((cell_len(safe(v)) for v in values), default=0)
 
 
-def points(value: float | None) -> str:
+def points(value: Points | None) -> str:
+    """Points in the desk (:func:`pairings.points.points_text`), ``-`` for none."""
     if value is None:
         return "-"
-    return f"{value:g}"
+    return points_text(value)
 
 
 def name(state: EventState, pid: PlayerId | str) -> str:

@@ -75,9 +75,9 @@ def pair_brackets(facts: Facts, route: str = HANDBOOK) -> list[Outcome]:
     """The outcome of every bracket, top down (the last one's leftover is the PAB).
 
     ``route`` is :data:`HANDBOOK` (the PPB/CLB route) or :data:`EVERYWHERE`, a
-    variant used only to sort disagreements into classes: every bracket keeps
-    the rest pairable (C.4 everywhere, C.7's look at the next bracket too) and
-    nothing collapses.
+    variant used only to show that the two readings differ: every bracket
+    keeps the rest pairable (C.4 everywhere, C.7's look at the next bracket
+    too) and nothing collapses.
     """
     ents = facts.entrants
     scores = sorted({e.score for e in ents.values()}, reverse=True)

@@ -57,14 +57,14 @@ def test_read_only_medium_reads_and_refuses_writes(tmp_path: Path) -> None:
 
 @needs_mounts
 def test_read_only_medium_with_an_unapplied_write_ahead_log(tmp_path: Path) -> None:
-    """A stick pulled out while the desk had it open: the newest events are only in the -wal file."""
+    """A stick pulled out while the desk had it open, the file copied with its -wal: both are read."""
     source = _event(tmp_path / "desk")
     stick = tmp_path / "stick"
     stick.mkdir()
     with EventStore.open(source) as store:
         store.append([ev.PlayerRegistered(id="p5", name="Only In The Log", rating=1400)])
         assert Path(f"{source}-wal").stat().st_size > 0
-        for suffix in ("", "-wal"):  # copied while open: the log is not checkpointed into the file
+        for suffix in ("", "-wal"):  # copied while open
             shutil.copyfile(f"{source}{suffix}", stick / f"club.pairings{suffix}")
     path = stick / "club.pairings"
     folder = shlex.quote(str(stick))

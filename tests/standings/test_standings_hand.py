@@ -20,6 +20,7 @@ Round by round (points), final score:
 
 from __future__ import annotations
 
+from fractions import Fraction
 from typing import Callable
 
 import pytest
@@ -255,7 +256,7 @@ def test_average_of_opponents_buchholz(hand: EventState) -> None:
     #   A: (E 5½ + B 9 + D 7 + F 6) / 4 = 6.875     D: (C 8½ + A 8½ + B 9) / 3 = 8.666…
     #   E: (A 8½ + F 6 + C 8½) / 3 = 7.666…        G: C 8½
     aob = column(hand, "AOB", Unplayed.AS_THEY_STAND)
-    assert (aob["A"], aob["D"], aob["E"], aob["G"]) == (6.875, 8.666667, 7.666667, 8.5)
+    assert (aob["A"], aob["D"], aob["E"], aob["G"]) == (Fraction(55, 8), Fraction(26, 3), Fraction(23, 3), Fraction(17, 2))
 
 
 def test_rating_cuts(hand: EventState) -> None:

@@ -26,6 +26,18 @@ def test_append_and_reopen(tmp_path: Path) -> None:
     assert again.check_chain().ok
 
 
+def test_the_file_alone_is_up_to_date_while_a_window_keeps_it_open(tmp_path: Path) -> None:
+    # a backup copied without its -wal while the desk is open holds every acknowledged entry
+    store = _new(tmp_path)
+    store.append([ev.PlayerRegistered(id="p1", name="Ada Quince")])
+    store.append([ev.PlayerRegistered(id="p2", name="Bo Rill")])
+    copy = tmp_path / "copy.pairings"
+    copy.write_bytes((tmp_path / "e.pairings").read_bytes())
+    assert not Path(f"{copy}-wal").exists()
+    assert list(EventStore.open(copy).state.players) == ["p1", "p2"]
+    store.close()
+
+
 def test_second_writer_conflicts_and_writes_nothing(tmp_path: Path) -> None:
     one = _new(tmp_path)
     two = EventStore.open(tmp_path / "e.pairings")

@@ -7,6 +7,7 @@ FIDE Data Exchange Format, from memory): they are not captured from our own outp
 from __future__ import annotations
 
 from dataclasses import replace
+from fractions import Fraction
 
 import pytest
 
@@ -140,8 +141,8 @@ def test_round_trip_of_a_simulated_swiss_with_withdrawals_byes_and_forfeits() ->
 
 def test_requested_byes_late_entry_withdrawal_open_board_and_other_scoring() -> None:
     events = spring_open_events()[:6]
-    events[0] = events[0].model_copy(update={"scoring": ev.ScoringModel(win=3, draw=1, loss=0), "bye_points": 3.0,
-                                             "requested_bye_points": 1.0, "late_entry_points": 1.0})
+    events[0] = events[0].model_copy(update={"scoring": ev.ScoringModel(win=3, draw=1, loss=0), "bye_points": Fraction(3),
+                                             "requested_bye_points": Fraction(1), "late_entry_points": Fraction(1)})
     events.append(ev.PlayerRegistered(id="p6", name="Fir, Fay", rating=1600, entry_round=2))
     events += _round(1, [("p1", "p2", Result.FIRST_WINS), ("p3", "p4", Result.DOUBLE_FORFEIT)],
                      [("p5", ByeKind.REQUESTED, 1.0)])

@@ -154,7 +154,7 @@ def test_every_place_and_dialog_in_a_real_terminal(tmp_path: Path, size: tuple[i
         text = shots.keep("results", wait_for("Results · "))
         check_frame(text, "Results")
         assert LONGEST_NAME in text and "13 of 19 boards open" in text.splitlines()[1]
-        assert "0-1  second side wi" in text  # the code in full; its words as far as there is room
+        assert "0-1  Black wins" in text  # the code and its words in the event's side names
 
         keys("F5")
         text = shots.keep("standings", wait_for("After round 4"))

@@ -1,4 +1,4 @@
-"""One bracket's choice by maximum-weight perfect matching (Edmonds' blossom), and the completion check.
+"""One bracket's choice by maximum-weight perfect matching (Edmonds' blossom), and the completion test.
 
 Method (ours; the criteria are C.04.3's):
 
@@ -12,16 +12,23 @@ Method (ours; the criteria are C.04.3's):
   *fast*, the bracket and the next score group, each vertex given a private
   way to stay unpaired by doubling the graph (two copies, each vertex joined
   to its own copy: a perfect matching of the doubled graph is two equally good
-  matchings of the original); *exact*, the bracket and every lower player (plus
-  one bye vertex, joined to the PAB-eligible, when the count is odd), where a
-  member matched below the bracket floats.
-- **Completion (C.4).** The players left for later must still be pairable
-  under the absolute criteria with at most one PAB to an eligible player
-  (:func:`completable`: Dirac's degree bound, else a matching). The compact
-  and fast forms are relaxations; each is accepted only with a completion at
-  hand. Checking completion in every bracket replaces the Handbook's PPB/CLB
-  re-pairing (a decision: it gives the same pairing whenever only the bracket
-  just above the unpairable rest has to change).
+  matchings of the original), which is C.7's own look at the next bracket;
+  *exact*, for the PPB only: the bracket and every lower player (plus one bye
+  vertex, joined to the PAB-eligible, when the count is odd), where a member
+  matched below the bracket floats, so that a perfect matching is a
+  completion of the round.
+- **The Handbook's route (C.04.3 C.4, C.7; the PPB and CLB, from memory).** A
+  bracket is paired by C.5-C.19, C.7 included, without looking further down;
+  :mod:`.rounds` then checks that its floaters and every lower player can
+  still be paired under the absolute criteria with at most one PAB to an
+  eligible player (:func:`completable`: Dirac's degree bound, else a
+  matching). When they cannot, the bracket is the penultimate pairing bracket
+  (PPB): paired again with that completion as an absolute requirement and
+  without C.7 (its :attr:`~.criteria.Bracket.next` is empty), and every
+  player below it, with its floaters as MDPs, forms the collapsed last bracket
+  (CLB), paired as one last bracket. Where the next bracket is the last one,
+  C.7 counts a leftover beyond one PAB-eligible player as a breach (see
+  :func:`.criteria.next_float_costs`).
 - **Generation order (the final tie-break).** After the quality solve, the
   optimal dual marks the quality-optimal face: an edge's penalty is 1 if its
   reduced cost is not zero, plus 1 per positive-dual blossom it crosses; by
@@ -39,9 +46,8 @@ Method (ours; the criteria are C.04.3's):
   places at a time (digit base ``len(S2) + 1``), each block's pairs fixed
   before the next. Digits that would pass the compiled kernel's integers are
   avoided by the block sizes; the pure-Python blossom takes any size.
-- A last bracket that cannot be paired without pairing MDPs with each other
-  is paired as one homogeneous group (the collapsed last bracket: our reading
-  of the Handbook's CLB).
+- A last bracket (the CLB included) that cannot be paired without pairing
+  MDPs with each other is paired as one homogeneous group (our decision).
 """
 
 from __future__ import annotations
@@ -287,10 +293,6 @@ class _Graph:
         m = self.mate[self.index[p]]
         return self.vertices[m] if m < self.real and self.vertices[m] in self.solver.members else None
 
-    def beyond(self) -> list[PlayerId]:
-        """Players the current matching leaves unpaired in the graph (fast form: floating below it)."""
-        return [p for i, p in enumerate(self.vertices) if self.live[i] and self.mate[i] >= self.real]
-
 
 class BracketSolver:
     """Pairs one bracket: :meth:`run` returns its pairs and its floaters (C.04.3 via matching)."""
@@ -305,19 +307,22 @@ class BracketSolver:
         """The pair's costs, shared by every pair of the same two player profiles.
 
         Outside topscorers' pairs the costs depend only on the two scores,
-        colour preferences (side and strength) and float histories: when both
-        want one colour exactly one misses it, the weaker (rule 2) or one of
-        equal strength, so who gets it changes no count.
+        colour preferences (side and strength), float histories and whether
+        the higher is one of the bracket's MDPs (C.12 or C.16, see
+        :func:`.criteria.pair_costs`): when both want one colour exactly one
+        misses it, the weaker (rule 2) or one of equal strength, so who gets it
+        changes no count.
         """
-        ent = self.ent
+        ent, br = self.ent, self.br
+        hi, lo = (u, v) if ent.score[u] >= ent.score[v] else (v, u)
+        moved = ent.score[hi] != ent.score[lo] and br.heterogeneous and hi in br.mdps
         if u in ent.topscorers or v in ent.topscorers:
-            key: object = frozenset((u, v))
+            key: object = (frozenset((u, v)), moved)
         else:
-            hi, lo = (u, v) if ent.score[u] >= ent.score[v] else (v, u)
             a, b = self.profile(hi), self.profile(lo)
-            key = (a, b) if ent.score[hi] != ent.score[lo] else frozenset((a, b))
+            key = (a, b, moved) if ent.score[hi] != ent.score[lo] else frozenset((a, b))
         if key not in self.cache:
-            self.cache[key] = pair_costs(ent, self.br, u, v)[0]
+            self.cache[key] = pair_costs(ent, br, u, v)[0]
         return self.cache[key]
 
     def profile(self, p: PlayerId) -> tuple[object, ...]:
@@ -355,57 +360,61 @@ class BracketSolver:
     def alone(self, u: PlayerId, exact: bool) -> Costs | None:
         """The cost of ``u`` staying unpaired in a graph; None where that is not allowed.
 
-        Exact form: only the PAB-eligible may take the bye vertex. Fast form: a
-        relaxation (anybody may float below the graph, except from the last
-        bracket and, when nothing lies below it, from the next score group).
+        Exact form: only the PAB-eligible may take the bye vertex. Fast form:
+        anybody may stay unpaired in the next bracket (where that is the last
+        one, :func:`.criteria.next_float_costs` makes it a C.7 breach).
         """
         ent, br = self.ent, self.br
         cost = self.lone(u) if u in self.members else \
             next_float_costs(ent, br, u) if u in self.next else Counter()
-        if exact or br.last or (u in self.next and len(br.lower) == len(br.next)):
+        if exact or br.last:
             return cost if u in ent.pab_eligible else None
         return cost
 
-    def run(self) -> tuple[list[Pair], list[PlayerId]]:
+    def run(self) -> tuple[list[Pair], list[PlayerId]] | None:
         """The bracket's pairs and floaters, by the cheapest form that is provably exact here.
 
-        1. Compact form: the bracket alone, with as few float places as let it
-           be paired (so C.5 is met). Exact when its floaters all hold the
-           bracket's lowest score (no candidate can float lower ones, and C.6
-           fixed their number) and the next bracket can then be paired at its
-           ideal for C.7 (every floater meets a next-group player, the rest of
-           that group pairs up, one left over at most) with the rest of the
-           round still pairable: then no candidate does better on C.7, and the
-           compact choice, best on every other criterion, is the first best.
-        2. Fast form (bracket and next group): a relaxation, exact when the
-           players it leaves below the next bracket, with everyone lower, can
-           still be paired.
-        3. Exact form: every lower player in the graph.
+        - Last bracket (and CLB): the compact form with a float place only if
+          the count is odd, open to the PAB-eligible: the exact form there. None
+          when no candidate exists (the caller then pairs it as one group).
+        - PPB (C.4 absolute, no C.7): the compact form when its first best
+          candidate lets the rest be paired (the first best of all candidates
+          is then the first best of the completing ones), else the exact form,
+          every lower player in the graph.
+        - Any other bracket: the compact form, the bracket alone with as few
+          float places as let it be paired (so C.5 is met), when its floaters
+          all hold the bracket's lowest score (no candidate can float lower
+          ones, and C.6 fixed their number) and the next bracket can then be
+          paired at its ideal for C.7 (every floater meets a next-group
+          player, the rest of that group pairs up, one left over at most, the
+          PAB-eligible if the next bracket is the last): no candidate does
+          better on C.7, and the compact choice is best on every other
+          criterion. Else the fast form (bracket and next group), which is C.7
+          itself. Completion is not looked at here: the caller checks it and
+          re-pairs the bracket as the PPB when it fails (:mod:`.rounds`).
         """
         members = len(self.br.members)
-        for slots in range(members % 2, min(members, 4) + 1, 2):
+        most = members % 2 if self.br.last else min(members, 4)
+        for slots in range(members % 2, most + 1, 2):
             g = _Graph(self, "compact", slots)
             if g.optimise():
                 pairs = self._decide(g)
-                if self._ideal_rest(self._floaters(pairs)):
-                    return pairs, self._floaters(pairs)
+                floaters = self._floaters(pairs)
+                if self.br.last or (completable(self.ent, floaters + list(self.br.lower)) if self.br.ppb
+                                    else self._ideal_next(floaters)):
+                    return pairs, floaters
                 break
-        g = _Graph(self, "fast")
-        if g.optimise():
-            pairs = self._decide(g)
-            if completable(self.ent, g.beyond() + list(self.br.lower[len(self.br.next):])):
-                return pairs, self._floaters(pairs)
-        g = _Graph(self, "exact")
-        if not g.optimise():
-            raise ValueError("no completion exists: the caller checks the round first")
+        if self.br.last:
+            return None
+        g = _Graph(self, "exact" if self.br.ppb else "fast")
+        found = g.optimise()
+        assert found, "anybody may float from the fast form; the exact one: the bracket above left a pairable rest"
         pairs = self._decide(g)
         return pairs, self._floaters(pairs)
 
-    def _ideal_rest(self, floaters: list[PlayerId]) -> bool:
-        """The compact form's exactness test (see :meth:`run`); a concrete completion is built."""
+    def _ideal_next(self, floaters: list[PlayerId]) -> bool:
+        """The compact form's exactness test (see :meth:`run`); a concrete next bracket is built."""
         ent, br = self.ent, self.br
-        if br.last:
-            return True
         if any(ent.score[f] != br.score for f in floaters) or len(floaters) > len(br.next):
             return False
         free = list(br.next)
@@ -414,14 +423,10 @@ class BracketSolver:
             if mate is None:
                 return False
             free.remove(mate)
-        beyond = list(br.lower[len(br.next):])
         if len(free) % 2:
-            for x in reversed(free):
-                rest = [q for q in free if q != x]
-                if _dirac(ent, rest) and completable(ent, [x] + beyond):
-                    return True
-            return False
-        return _dirac(ent, free) and completable(ent, beyond)
+            return any(_dirac(ent, [q for q in free if q != x]) and (x in ent.pab_eligible or not br.next_is_last)
+                       for x in reversed(free))
+        return _dirac(ent, free)
 
     def _floaters(self, pairs: list[Pair]) -> list[PlayerId]:
         paired = {p for pair in pairs for p in pair}

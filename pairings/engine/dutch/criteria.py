@@ -15,9 +15,9 @@ the counts level by level compares the sorted lists of score differences):
   difference, a floater's SD is his score minus (the bracket's lowest score
   minus one point); "one point" is the event's win value (our decision);
 - C.7  the next bracket (this bracket's floaters and the next score group):
-  its players left unpaired, then its PSD (applied in every bracket that has
-  a next one: our completion check replaces the PPB/CLB route, see
-  :mod:`pairings.engine.dutch.bracket`);
+  its players left unpaired, then its PSD; not in the penultimate pairing
+  bracket (PPB) nor in the collapsed last bracket (CLB), whose
+  :attr:`Bracket.next` is empty (the route: :mod:`pairings.engine.dutch.rounds`);
 - C.8 / C.9  topscorers or their opponents ending with |CD| > 2 / getting one
   colour three times running (final round only);
 - C.10 players not getting their colour preference; C.11 players not getting
@@ -26,17 +26,20 @@ the counts level by level compares the sorted lists of score differences):
   who also downfloated one / two rounds before;
 - C.13 / C.15  residents paired with a higher-scored MDP who also upfloated
   one / two rounds before;
-- C.16 / C.18  the SDs of MDPs paired here who also downfloated one / two rounds
-  before; C.17 / C.19 the SDs of their opponents who also upfloated.
+- C.16 / C.18  the SDs of the bracket's MDPs who also downfloated one / two
+  rounds before: a paired MDP's pair SD, an MDP floating on with his floater
+  SD; C.17 / C.19 the SDs of the upfloaters among C.13 / C.15.
 
 MDPs paired in this bracket downfloat whatever candidate is chosen, so C.12 and
-C.14 count this bracket's floaters only (the MDPs were counted where they floated).
+C.14 count this bracket's floaters only (the MDPs were counted where they
+floated), and the residents of the CLB (or of a last bracket paired as one
+group) paired with a lower-scored player, whose downfloat this bracket decides.
 """
 
 from __future__ import annotations
 
 from collections import Counter
-from dataclasses import dataclass
+from dataclasses import dataclass, replace
 
 from pairings.engine.dutch.colours import Colours, allocate, breaks
 from pairings.engine.dutch.entrants import Entrants
@@ -55,15 +58,26 @@ class Bracket:
     score: int
     """The residents' score (the lowest in the bracket)."""
     next: tuple[PlayerId, ...]
-    """The next score group's players (empty for the last bracket)."""
+    """The next score group's players, the residents C.7 looks at (empty for the last bracket and the PPB)."""
     lower: tuple[PlayerId, ...]
     """Every player below the bracket, next score group first."""
     collapsed: bool = False
     """Last bracket paired as one group, MDPs with each other too (see bracket.py)."""
+    ppb: bool = False
+    """The penultimate pairing bracket: its floaters must let the rest be paired (C.4), no C.7."""
 
     @property
     def last(self) -> bool:
         return not self.lower
+
+    @property
+    def next_is_last(self) -> bool:
+        """The next bracket is the last one: its leftover, if any, is the PAB."""
+        return bool(self.next) and len(self.lower) == len(self.next)
+
+    def penultimate(self) -> "Bracket":
+        """This bracket as the PPB: paired again with completion as an absolute criterion, C.7 not applied."""
+        return replace(self, next=(), ppb=True)
 
     @property
     def heterogeneous(self) -> bool:
@@ -98,24 +112,31 @@ def pair_costs(ent: Entrants, br: Bracket, u: PlayerId, v: PlayerId) -> tuple[Co
             c[100, 0] = len(lost)
             c[110, 0] = sum(1 for p in lost if p.strength >= 2)
     if sd:
+        moved = br.heterogeneous and hi in br.mdps
         for back, part in ((1, 0), (2, 20)):
             if _repeat(ent, lo, Float.UP, back):
                 c[130 + part, 0] += 1
                 c[170 + part, -sd] += 1
             if _repeat(ent, hi, Float.DOWN, back):
-                c[160 + part, -sd] += 1
+                if moved:
+                    c[160 + part, -sd] += 1
+                else:  # a resident of the CLB (or a one-group last bracket) downfloats in this bracket
+                    c[120 + part, 0] += 1
     return c, colours
 
 
 def float_costs(ent: Entrants, br: Bracket, u: PlayerId) -> Costs:
     """Costs of ``u`` leaving the bracket unpaired (a downfloater, or the PAB in the last bracket)."""
     c: Costs = Counter()
+    sd = ent.score[u] - (br.score - ent.win)
     c[50, 0] += 1
-    c[60, -(ent.score[u] - (br.score - ent.win))] += 1
-    if _repeat(ent, u, Float.DOWN, 1):
-        c[120, 0] += 1
-    if _repeat(ent, u, Float.DOWN, 2):
-        c[140, 0] += 1
+    c[60, -sd] += 1
+    moved = br.heterogeneous and u in br.mdps
+    for back, part in ((1, 0), (2, 20)):
+        if _repeat(ent, u, Float.DOWN, back):
+            c[120 + part, 0] += 1
+            if moved:  # an MDP floating on: C.16 / C.18 take his floater SD
+                c[160 + part, -sd] += 1
     return c
 
 
@@ -125,6 +146,18 @@ def next_pair_costs(ent: Entrants, br: Bracket, u: PlayerId, v: PlayerId) -> Cos
 
 
 def next_float_costs(ent: Entrants, br: Bracket, u: PlayerId) -> Costs:
-    """C.7: a player of the next bracket left unpaired there."""
+    """C.7: a player of the next bracket left unpaired there.
+
+    When the next bracket is the last one its leftover is the PAB: one at
+    most, PAB-eligible (C.2). Layer ``(69, 0)`` counts each player left there,
+    an ineligible one twice, so a candidate whose next bracket can be paired
+    legally (a count of at most one) beats every other on C.7. Those others
+    are all equally bad for the Handbook; a choice among them cannot complete
+    the round (unless its last bracket pairs as one group, see docs/engine.md)
+    and the bracket is paired again as the PPB.
+    """
     low = ent.score[br.next[0]] if br.next else br.score
-    return Counter({(70, 0): 1, (71, -(ent.score[u] - (low - ent.win))): 1})
+    c = Counter({(70, 0): 1, (71, -(ent.score[u] - (low - ent.win))): 1})
+    if br.next_is_last:
+        c[69, 0] = 1 if u in ent.pab_eligible else 2
+    return c

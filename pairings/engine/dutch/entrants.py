@@ -36,23 +36,12 @@ from typing import Iterable, Mapping
 
 from pairings.engine.acceleration import virtual_points
 from pairings.engine.criteria import ABSOLUTE, Preference, preference, score_unit
-from pairings.state import ByeKind, EventState, Float, PlayerId, Side
-
-TITLES: tuple[str, ...] = ("GM", "IM", "WGM", "FM", "WIM", "CM", "WFM", "WCM")
-"""Title order of the initial ranking (C.04.2 initial order, from memory)."""
-
+from pairings.state import ByeKind, EventState, Float, PlayerId, Side, initial_order
 
 def pairing_numbers(state: EventState) -> tuple[PlayerId, ...]:
-    """Every registered player in initial order: pairing number ``k`` is position ``k - 1``."""
-    default = state.settings.default_rating
-
-    def key(pid: PlayerId) -> tuple[int, int, str, int]:
-        p = state.players[pid]
-        title = (p.details.title or "").upper()
-        rank = TITLES.index(title) if title in TITLES else len(TITLES)
-        return (-(p.rating if p.rating is not None else default), rank, p.name.casefold(), p.order)
-
-    return tuple(sorted(state.players, key=key))
+    """Every registered player in initial order (rating, title, name: :meth:`EventState.initial_rank` of a
+    Dutch event): pairing number ``k`` is position ``k - 1``."""
+    return initial_order(state.players.values(), state.settings.default_rating, by_title=True)
 
 
 def _unit(state: EventState, extra: Iterable[Fraction]) -> Fraction:
@@ -110,7 +99,7 @@ class Entrants:
             p: (self.float_in(p, round_number - 1), self.float_in(p, round_number - 2)) for p in self.order
         }
 
-    def _units(self, score: float) -> int:
+    def _units(self, score: Fraction) -> int:
         return int(round(Fraction(score).limit_denominator(1000) / self.unit))
 
     def _may_get_bye(self, p: PlayerId) -> bool:

@@ -3,7 +3,8 @@
 For the round being drafted the round's plan is rebuilt (the same brackets
 the draft came from): the board's bracket, who moved down into it, which
 criterion left a player unpaired above (C.5: an odd or partly unpairable
-bracket; C.1/C.3: rematches and colours), the colour rule that decided the
+bracket; C.1/C.3: rematches and colours; C.4 in the PPB), whether the board
+is in the PPB or the CLB, the colour rule that decided the
 sides, repeated floats (C.12-C.19) and, on the boards of the last bracket,
 why the PAB went where it went. Virtual points (Baku acceleration) are named
 where they make up the pairing score.
@@ -38,7 +39,8 @@ def _why_float(ent: Entrants, origin: Paired, p: PlayerId) -> str:
     size, pairs = len(origin.bracket.members), len(origin.pairs)
     where = f"the {ent.points(origin.bracket.score)}-point bracket"
     if 2 * pairs + 1 == size:
-        return (f"{p} was left unpaired in {where} ({size} players: one must float, C.5); C.6-C.19 and the "
+        chose = "C.4 (the rest had to stay pairable), C.6-C.19" if origin.bracket.ppb else "C.6-C.19"
+        return (f"{p} was left unpaired in {where} ({size} players: one must float, C.5); {chose} and the "
                 f"Handbook's order of candidates picked {p}")
     return (f"{p} was left unpaired in {where}: only {pairs} of its {size} players could be paired "
             "(C.1 rematches, C.3 colours, or the rest of the round had to stay pairable, C.4)")
@@ -59,11 +61,16 @@ def reasons(state: EventState, draft: Draft, board: DraftBoard) -> tuple[str, ..
         return ("pinned or changed by hand: outside the Dutch system's brackets",)
     out = [f"bracket of {ent.points(home.bracket.score)} points ({len(home.bracket.members)} players, "
            f"{len(home.bracket.mdps)} moved down)"]
+    if home.bracket.ppb:
+        out.append("the penultimate pairing bracket (PPB): paired again so that the rest of the round can be "
+                   "paired (C.4), C.7 not applied")
+    elif home.bracket.last and any(b.bracket.ppb for b in shown.brackets):
+        out.append("the collapsed last bracket (CLB): every player below the PPB, with its floaters")
     for p in (board.first, board.second):
         out.append(f"{p}: pairing score {_score(ent, p)}, pairing number {ent.tpn[p]}")
     for p in (board.first, board.second):
         if p in home.bracket.mdps:
-            origin = next(b for b in shown.brackets if p in b.floaters)
+            origin = next(b for b in reversed(shown.brackets[:shown.brackets.index(home)]) if p in b.floaters)
             out.append(_why_float(ent, origin, p))
     c = allocate(ent, board.first, board.second)
     if c.rule:

@@ -4,6 +4,17 @@
 group's residents plus the players the bracket above left unpaired); the last
 bracket's floater, if any, is the pairing-allocated bye (C.04.1 rule 3,
 eligibility rule 4: it falls out of the lowest bracket's processing).
+Completion (C.4, the PPB/CLB route as remembered from the 2017 text, which
+the 2025 edition keeps in renumbered articles): each bracket is paired
+normally (C.7 included); when its floaters and every player below cannot be
+paired any more, that bracket is the penultimate pairing bracket (PPB), paired
+again with its floaters chosen so that the rest can be (C.4 absolute, C.7 not
+applied: it looks "just at the following bracket", which is now the last),
+and the rest, the PPB's floaters as its MDPs, is paired as the collapsed last
+bracket (CLB). Pairing the PPB again always succeeds: the bracket above left
+a rest that can be paired, and that pairing restricted to the PPB is one of
+its candidates (two of its MDPs paired with each other there both float into
+the CLB, which is paired as one group if it must).
 :func:`draft_dutch` turns the plan into a :class:`~pairings.engine.types.Draft`:
 colours by :mod:`.colours`, boards in the order of C.04.2 (from memory): the
 higher pairing score of the pair, then the pair's sum, then the rank (Art.
@@ -17,7 +28,7 @@ absolute (C.1-like).
 
 from __future__ import annotations
 
-from dataclasses import dataclass
+from dataclasses import dataclass, replace
 from typing import Iterable, Mapping, Sequence
 
 from pairings.engine.criteria import Field
@@ -79,22 +90,44 @@ def plan(state: EventState, ov: Overrides = Overrides()) -> Plan:
             "no two players with the same absolute colour, one PAB to an eligible player)"
         )
     groups = ent.groups()
+    if not groups:
+        return Plan(ent, (), None)
     cache: dict[object, Costs] = {}
     done: list[Paired] = []
     carried: list[PlayerId] = []
-    for top in range(len(groups)):
+    for top in range(len(groups) - 1):
         br = bracket_of(ent, groups, top, carried)
-        try:
-            pairs, floaters = BracketSolver(ent, br, cache).run()
-        except ValueError:
-            if not br.last:
-                raise
-            br = Bracket(br.members, br.mdps, br.score, br.next, br.lower, collapsed=True)
-            pairs, floaters = BracketSolver(ent, br, cache).run()
-        done.append(Paired(br, tuple(pairs), tuple(floaters)))
-        carried = floaters
-    assert len(carried) <= 1
-    return Plan(ent, tuple(done), carried[0] if carried else None)
+        found = BracketSolver(ent, br, cache).run()
+        assert found is not None, "only the last bracket can lack a candidate"
+        if not completable(ent, found[1] + list(br.lower)):
+            # C.4: this bracket is the PPB; everyone below collapses into the CLB
+            ppb = br.penultimate()
+            again = BracketSolver(ent, ppb, cache).run()
+            assert again is not None, "the bracket above left a rest that can be paired"
+            done.append(Paired(ppb, tuple(again[0]), tuple(again[1])))
+            return _finish(ent, done, collapsed_last(ent, ppb, again[1]), cache)
+        done.append(Paired(br, tuple(found[0]), tuple(found[1])))
+        carried = found[1]
+    return _finish(ent, done, bracket_of(ent, groups, len(groups) - 1, carried), cache)
+
+
+def collapsed_last(ent: Entrants, ppb: Bracket, floaters: Sequence[PlayerId]) -> Bracket:
+    """The CLB: the PPB's floaters (its MDPs) and every player below the PPB, paired as one last bracket."""
+    members = tuple(sorted([*floaters, *ppb.lower], key=ent.rank.__getitem__))
+    return Bracket(members, frozenset(floaters), min(ent.score[p] for p in ppb.lower), (), ())
+
+
+def _finish(ent: Entrants, done: list[Paired], last: Bracket, cache: dict[object, Costs]) -> Plan:
+    """Pair the last bracket (as one group if its MDPs could only be paired with each other) and close the plan."""
+    found = BracketSolver(ent, last, cache).run()
+    if found is None and last.heterogeneous:
+        last = replace(last, collapsed=True)
+        found = BracketSolver(ent, last, cache).run()
+    assert found is not None, "the bracket above left a rest that can be paired"
+    pairs, floaters = found
+    assert len(floaters) <= 1
+    done.append(Paired(last, tuple(pairs), tuple(floaters)))
+    return Plan(ent, tuple(done), floaters[0] if floaters else None)
 
 
 def draft_dutch(state: EventState, ov: Overrides = Overrides()) -> Draft:

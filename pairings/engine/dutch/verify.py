@@ -13,7 +13,9 @@ Checked against the history before the round (the state cut back by
   vertex, has as many edges as the round's boards plus its PAB);
 - for a round the engine drafted: the Dutch system, run again under the pins
   and absences the round shows, makes the same pairs and the same PAB, i.e.
-  the stored round is the first best candidate of every bracket.
+  the stored round is the first best candidate of every bracket, along the
+  same route (a PPB paired again so that the rest can be paired, the rest as
+  the CLB; see :mod:`.rounds`).
 """
 
 from __future__ import annotations

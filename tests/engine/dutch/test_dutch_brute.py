@@ -3,10 +3,12 @@
 The brute force pairs each bracket as C.04.3 describes it (from memory): it
 generates every candidate in the generation order (:mod:`.generation`, itself
 checked against the worked sequences), drops those breaking an absolute
-criterion or the completion criterion (the rest of the round must stay
-pairable: every pairing of the rest is enumerated), evaluates C.5-C.19 one
-candidate at a time (C.7: the best next bracket over every pairing of the
-rest) and keeps the first best. The engine must choose the same pairs,
+criterion, evaluates C.5-C.19 one candidate at a time (C.7: the best of every
+pairing of the next bracket) and keeps the first best. When that choice
+leaves a rest that cannot be paired (every pairing of the rest is
+enumerated), the bracket is the PPB: it is paired again among the candidates
+that let the rest be paired (C.4), without C.7, and everyone below is paired
+as the collapsed last bracket. The engine must choose the same pairs,
 floaters and PAB in every bracket of every round (events with draws,
 forfeits, requested byes, withdrawals and late entries).
 """
@@ -15,6 +17,7 @@ from __future__ import annotations
 
 import random
 from collections import Counter
+from dataclasses import replace
 from typing import Iterator, Sequence
 
 import pytest
@@ -28,7 +31,7 @@ from pairings.engine.dutch.criteria import (
 )
 from pairings.engine.dutch.entrants import Entrants
 from pairings.engine.dutch.generation import heterogeneous
-from pairings.engine.dutch.rounds import bracket_of, players_of
+from pairings.engine.dutch.rounds import bracket_of, collapsed_last, players_of
 from pairings.engine.types import Overrides
 from pairings.errors import NoPairingError
 from pairings.state import Acceleration, EventState, PlayerId, System
@@ -63,27 +66,48 @@ def complete_pairings(ent: Entrants, players: Sequence[PlayerId]) -> Iterator[tu
                 yield [(first, other)] + tail, None
 
 
-def best_rest(ent: Entrants, br: Bracket, floaters: Sequence[PlayerId]) -> Costs | None:
-    """C.4 and C.7: None when the rest cannot be paired, else the next bracket's best (pairs, then PSD)."""
+def partial_pairings(ent: Entrants, players: Sequence[PlayerId], mdps: frozenset[PlayerId]
+                     ) -> Iterator[tuple[list[Pair], list[PlayerId]]]:
+    """Every way to pair some of ``players`` (C.1, C.3, no two of ``mdps`` together), with those left unpaired."""
+    if not players:
+        yield [], []
+        return
+    first, rest = players[0], players[1:]
+    for pairs, left in partial_pairings(ent, rest, mdps):
+        yield pairs, [first] + left
+    for k, other in enumerate(rest):
+        if ent.compatible(first, other) and not (first in mdps and other in mdps):
+            for pairs, left in partial_pairings(ent, [*rest[:k], *rest[k + 1:]], mdps):
+                yield [(first, other)] + pairs, left
+
+
+def next_bracket(ent: Entrants, br: Bracket, floaters: Sequence[PlayerId]) -> Costs:
+    """C.7: the next bracket (``floaters`` as its MDPs) at its best: players left unpaired, then PSD.
+
+    A last next bracket leaves one player at most, PAB-eligible; failing
+    that, it is judged as one group (MDPs with each other), and failing that
+    too the candidate is the worst on C.7.
+    """
+    players = [*floaters, *br.next]
     best: Costs | None = None
-    nxt = set(floaters) | set(br.next)
-    for pairs, bye in complete_pairings(ent, list(floaters) + list(br.lower)):
-        c: Costs = Counter()
-        for x, y in pairs:
-            if x in nxt and y in nxt and not (x in floaters and y in floaters):
+    for mdps in (frozenset(floaters), frozenset()) if br.next_is_last else (frozenset(floaters),):
+        for pairs, left in partial_pairings(ent, players, mdps):
+            if br.next_is_last and (len(left) > 1 or any(p not in ent.pab_eligible for p in left)):
+                continue
+            c: Costs = Counter()
+            for x, y in pairs:
                 c += next_pair_costs(ent, br, x, y)
-            else:
-                for z in (x, y):
-                    if z in nxt:
-                        c += next_float_costs(ent, br, z)
-        if bye is not None and bye in nxt:
-            c += next_float_costs(ent, br, bye)
-        if best is None or better(c, best) < 0:
-            best = c
-    return best
+            for z in left:
+                c += next_float_costs(ent, br, z)
+            if best is None or better(c, best) < 0:
+                best = c
+        if best is not None:
+            return best
+    return Counter({(69, 0): 2 * len(players) + 2})
 
 
 def brute_bracket(ent: Entrants, br: Bracket) -> tuple[set[frozenset[PlayerId]], set[PlayerId]] | None:
+    """The first best candidate; the PPB's must let the rest be paired (C.4) and skips C.7."""
     members = list(br.members)
     num = {p: i + 1 for i, p in enumerate(members)}
     mdps = [num[p] for p in members if p in br.mdps] if br.heterogeneous else []
@@ -96,15 +120,15 @@ def brute_bracket(ent: Entrants, br: Bracket) -> tuple[set[frozenset[PlayerId]],
                 floaters = [members[a - 1] for a in floaters_b]
                 if not all(br.allows(ent, a, b) for a, b in pairs):
                     continue
+                c: Costs = Counter()
                 if br.last:
                     if len(floaters) > 1 or any(f not in ent.pab_eligible for f in floaters):
                         continue
-                    c: Costs = Counter()
-                else:
-                    found = best_rest(ent, br, floaters)
-                    if found is None:
+                elif br.ppb:
+                    if next(complete_pairings(ent, floaters + list(br.lower)), None) is None:
                         continue
-                    c = found
+                else:
+                    c = next_bracket(ent, br, floaters)
                 for a, b in pairs:
                     c += pair_costs(ent, br, a, b)[0]
                 for f in floaters:
@@ -114,21 +138,34 @@ def brute_bracket(ent: Entrants, br: Bracket) -> tuple[set[frozenset[PlayerId]],
     return None if best is None else (best[1], best[2])
 
 
+def brute_last(ent: Entrants, br: Bracket) -> tuple[set[frozenset[PlayerId]], set[PlayerId]]:
+    got = brute_bracket(ent, br)
+    if got is None:
+        got = brute_bracket(ent, replace(br, collapsed=True))
+    assert got is not None
+    return got
+
+
 def brute_plan(state: EventState) -> list[tuple[set[frozenset[PlayerId]], set[PlayerId]]]:
+    """The Handbook's route: brackets top down; the first whose floaters leave the rest unpairable is the PPB."""
     ent = Entrants(state, state.next_round_number, players_of(state, Overrides()))
     groups = ent.groups()
     out = []
     carried: list[PlayerId] = []
-    for top in range(len(groups)):
+    for top in range(len(groups) - 1):
         br = bracket_of(ent, groups, top, carried)
         got = brute_bracket(ent, br)
-        if got is None:
-            assert br.last
-            got = brute_bracket(ent, Bracket(br.members, br.mdps, br.score, br.next, br.lower, collapsed=True))
         assert got is not None
+        floaters = sorted(got[1], key=ent.rank.__getitem__)
+        if next(complete_pairings(ent, floaters + list(br.lower)), None) is None:
+            ppb = br.penultimate()
+            got = brute_bracket(ent, ppb)
+            assert got is not None
+            floaters = sorted(got[1], key=ent.rank.__getitem__)
+            return out + [got, brute_last(ent, collapsed_last(ent, ppb, floaters))]
         out.append(got)
-        carried = sorted(got[1], key=ent.rank.__getitem__)
-    return out
+        carried = floaters
+    return out + [brute_last(ent, bracket_of(ent, groups, len(groups) - 1, carried))]
 
 
 def _events(seed: int, **settings: object) -> Iterator[EventState]:

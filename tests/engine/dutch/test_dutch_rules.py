@@ -22,6 +22,7 @@ from pairings.engine.dutch.colours import initial_colour
 from pairings.engine.dutch.entrants import Entrants, pairing_numbers
 from pairings.errors import NoPairingError
 from pairings.interchange import export_event, restore_events
+from pairings.reports.sheets import start_numbers
 from pairings.state import Acceleration, PlayerId, Result, Side, System
 
 P = [PlayerId(f"p{i:05d}") for i in range(1, 17)]
@@ -143,6 +144,11 @@ def test_pairing_numbers_rating_title_name() -> None:
         details = ev.PlayerDetailsModel(title=title) if title else None
         log.append(ev.PlayerRegistered(id=pid, name=name, rating=rating, details=details))
     assert pairing_numbers(state_of(log)) == ("e", "c", "b", "d", "a")
+    # the sheets' start numbers are the Dutch pairing numbers in a Dutch event
+    assert start_numbers(state_of(log)) == {"e": 1, "c": 2, "b": 3, "d": 4, "a": 5}
+    # the whole-round system's initial rank has no title step: rating, then name
+    whole = [ev.EventCreated(name="Order Open", rounds=3), *log[1:]]
+    assert state_of(whole).initial_rank() == ("e", "d", "c", "b", "a")
 
 
 def test_baku_schedule_and_groups() -> None:

@@ -1,4 +1,5 @@
-"""`pairings verify` on Dutch rounds: a drafted round passes, a hand-made rematch and a wrong PAB fail."""
+"""`pairings verify` on Dutch rounds: a drafted round passes (one paired by the PPB route too), a hand-made
+rematch and a wrong PAB fail."""
 
 from __future__ import annotations
 
@@ -43,3 +44,19 @@ def test_drafted_rounds_verify_and_tampered_ones_do_not() -> None:
         byes=(ev.ByeModel(player=again, kind="pairing", points=1.0),))  # type: ignore[arg-type]
     check = verify_round(state_of(log + [forged]), 4)
     assert any(x.startswith("C.2") for x in check.breaches)
+
+
+def test_a_round_paired_by_the_ppb_route_verifies() -> None:
+    # seven players, round 4: a bracket's floaters leave the rest unpairable, so it is paired again as the
+    # PPB and the rest as the CLB (C.04.3 C.4, from memory); the re-run in verify takes the same route
+    from pairings.engine.dutch import plan
+
+    rng = random.Random(1)
+    log = new_event([rng.randint(1200, 2400) for _ in range(7)], rounds=6, system=System.DUTCH, seed=1)
+    for _ in range(3):
+        play(log, draft_round(state_of(log)), rng)
+    shown = plan(state_of(log))
+    assert any(b.bracket.ppb for b in shown.brackets) and shown.brackets[-1].bracket.last
+    play(log, draft_round(state_of(log)), rng)
+    check = verify_round(state_of(log), 4)
+    assert check.ok and check.optimal and check.certified, check.lines()
