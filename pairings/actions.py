@@ -9,7 +9,6 @@ the desk both call these; neither holds any rule of its own.
 
 from __future__ import annotations
 
-import secrets
 from typing import TYPE_CHECKING, Iterable, Mapping, Sequence
 
 from pairings import events as ev
@@ -38,6 +37,8 @@ def new_event(
 
     ``seed`` fixes the round-1 side lot; when not given it is drawn now and recorded.
     """
+    import secrets  # only here: every other command spares its import
+
     from pairings.regulations import parse_scoring
 
     name = clean_text(name, "event name")

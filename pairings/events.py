@@ -3,11 +3,16 @@
 One pydantic discriminated union (:data:`Event`) on the field ``type``. Type
 names are stable strings, never module paths; :data:`SCHEMA_VERSION` is written
 with the file and bumped when a stored shape changes.
+
+Every command reads a log, so importing this module is on every command's way:
+each model builds its validator only when it first validates (pydantic's
+``defer_build``), a stored row is validated by the model its type column names
+(:func:`parse_event`), so only the models a log holds are ever built, and the
+annotations are plain objects, not strings pydantic would have to evaluate.
 """
 
-from __future__ import annotations
-
-from typing import Annotated, Any, Literal, Union
+from functools import cache
+from typing import Annotated, Any, Literal, Union, cast, get_args
 
 from pydantic import BaseModel, ConfigDict, Field, PlainSerializer, PlainValidator, SerializationInfo, TypeAdapter
 
@@ -29,7 +34,7 @@ same decimal."""
 
 
 class _Event(BaseModel):
-    model_config = ConfigDict(frozen=True, extra="forbid")
+    model_config = ConfigDict(frozen=True, extra="forbid", defer_build=True)
 
 
 class ScoringModel(_Event):
@@ -360,11 +365,32 @@ Event = Annotated[
     Field(discriminator="type"),
 ]
 
-EVENT_ADAPTER: TypeAdapter[Event] = TypeAdapter(Event)
+EVENT_ADAPTER: TypeAdapter[Event] = TypeAdapter(Event, config=ConfigDict(defer_build=True))
+"""Validates an event of any type (new input: restore, the demo scenario)."""
 
 
-def parse_event(data: str | bytes) -> Event:
-    """Parse one stored event from its JSON text."""
+@cache
+def _models() -> dict[str, type[_Event]]:
+    """Each event type's name and model."""
+    members: tuple[type[_Event], ...] = get_args(get_args(Event)[0])
+    return {model.model_fields["type"].default: model for model in members}
+
+
+def parse_event(data: str | bytes, stored_type: str | None = None) -> Event:
+    """Parse one stored event from its JSON text.
+
+    ``stored_type`` (the row's type column) picks the one model to validate with: the
+    same result as the whole union's, which picks its member by the payload's own
+    ``type``. A payload that does not fit that model is parsed by the union, so a
+    caller comparing ``event.type`` with the column can tell a mismatch from an
+    unreadable event.
+    """
+    model = _models().get(stored_type) if stored_type is not None else None
+    if model is not None:
+        try:
+            return cast(Event, model.model_validate_json(data))
+        except ValueError:
+            pass
     return EVENT_ADAPTER.validate_json(data)
 
 

@@ -68,6 +68,8 @@ def counted(n: int, word: str, plural: str | None = None) -> str:
 
 def cells(text: str) -> int:
     """Terminal cells ``text`` takes: wide East Asian characters two, combining marks none."""
+    if text.isascii():  # no ASCII character is wide or combining: the common case, without a lookup each
+        return len(text)
     return sum(0 if unicodedata.combining(c) else 2 if unicodedata.east_asian_width(c) in "WF" else 1 for c in text)
 
 

@@ -287,7 +287,7 @@ class Recorder:
             if version > SCHEMA_VERSION:
                 raise NewerSchemaError(f"{self.path}: event {seq} has a newer schema ({version})")
             try:
-                event = parse_event(payload)
+                event = parse_event(payload, type_)
             except ValueError:
                 raise ChainBrokenError(seq, "unreadable event") from None
             if event.type != type_:

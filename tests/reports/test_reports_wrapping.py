@@ -8,6 +8,7 @@ from __future__ import annotations
 
 import io
 import re
+import unicodedata
 from datetime import datetime
 from pathlib import Path
 
@@ -50,6 +51,18 @@ def test_wrap_breaks_at_spaces_and_after_hyphens_only() -> None:
     assert wrap("Ann Bo", 20) == ["Ann Bo"] and wrap("", 5) == [""]
     assert wrap("Xiphosurananda Bo", 6) == ["Xiphos", "uranan", "da Bo"]  # only a word wider than a line
     assert all(cells(line) <= 4 for line in wrap("王小明 李四", 4))
+
+
+def test_cells_counts_by_the_unicode_tables() -> None:
+    """Wide (W, F) two cells, combining marks none, the rest one (UAX #11, Unicode's combining class);
+    every ASCII character, which takes the shortcut, included."""
+    def by_tables(text: str) -> int:
+        return sum(0 if unicodedata.combining(c) else 2 if unicodedata.east_asian_width(c) in "WF" else 1
+                   for c in text)
+
+    for text in ["".join(map(chr, range(128))), "Ann Bo", "Zoë", "王小明", "e\u0301", "Ærø-Ødegård"]:
+        assert cells(text) == by_tables(text)
+    assert cells("王小明 Li") == 9 and cells("e\u0301") == 1
 
 
 def test_fit_cuts_with_an_ellipsis() -> None:
