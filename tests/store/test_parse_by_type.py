@@ -65,7 +65,7 @@ ONE_OF_EACH: list[ev.Event] = [
 def _payloads_of_files() -> list[tuple[str, str]]:
     rows: list[tuple[str, str]] = []
     for path in sorted(FIXTURES.glob("*.pairings")):
-        conn = sqlite3.connect(f"file:{path.as_posix()}?mode=ro", uri=True)
+        conn = sqlite3.connect(f"file:{path.as_posix()}?immutable=1", uri=True)  # reads leave no -wal/-shm beside it
         try:
             rows += conn.execute("SELECT type, payload FROM events ORDER BY seq").fetchall()
         finally:
