@@ -19,7 +19,7 @@ from __future__ import annotations
 
 from typing import Iterable, Sequence
 
-from pairings.engine import berger, candidates
+from pairings.engine import berger, route
 from pairings.engine.criteria import Field
 from pairings.engine.types import (
     CRITERIA, ENGINE_VERSION, Draft, DraftBoard, Overrides, cost_map, total_cost,
@@ -151,7 +151,7 @@ def draft_round(state: EventState, overrides: Overrides = Overrides(), *, refere
             f"round {rnd}: forcing {state.players[overrides.bye].name} onto the bye leaves "
             f"an odd number of players ({len(free)}) for the boards"
         )
-    pairs, bye = candidates.optimal_pairs(fld, free, overrides.no_bye, reference)
+    pairs, bye = route.optimal_pairs(fld, free, overrides.no_bye, reference)
     bye = overrides.bye if overrides.bye is not None else bye
     return assemble(state, fld, pinned + pairs, bye, pinned=overrides.pinned, absent=overrides.absent)
 
