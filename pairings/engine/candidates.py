@@ -103,6 +103,27 @@ class Graph:
         return [(i, j, enc.weight(c)) for (i, j), c in zip(self.edges, self.costs)]
 
 
+def _lexicographic_rank(rows: IntArray) -> IntArray:
+    """Per row of non-negative integers, a number that orders the rows as their tuples do.
+
+    The rows read as mixed-radix numbers (radix: a column's maximum plus one)
+    when those fit an int64, else their ranks in a lexicographic sort.
+    """
+    if len(rows) == 0:
+        return np.zeros(0, dtype=np.int64)
+    place, places = 1, []
+    for top in reversed(rows.max(axis=0).tolist()):
+        places.append(place)
+        place *= int(top) + 1
+    if place < 2**63:
+        return rows @ np.array(places[::-1], dtype=np.int64)
+    order = np.lexsort(rows.T[::-1])
+    ranked = rows[order]
+    rank = np.zeros(len(rows), dtype=np.int64)
+    rank[order] = np.concatenate([[0], np.cumsum((ranked[1:] != ranked[:-1]).any(axis=1))])
+    return rank
+
+
 def _pairs(fld: Field, players: Sequence[PlayerId], max_gap: int | None) -> Iterator[tuple[int, int]]:
     """Index pairs (i < j) not forbidden, at most ``max_gap`` units apart (None: any)."""
     units = [fld.units[p] for p in players]
@@ -125,45 +146,86 @@ def full_graph(fld: Field, players: Sequence[PlayerId], no_bye: Collection[Playe
     return g
 
 
-def greedy(fld: Field, players: Sequence[PlayerId], no_bye: Collection[PlayerId]
+def greedy(fld: Field, players: Sequence[PlayerId], no_bye: Collection[PlayerId], arrays: Arrays | None = None
            ) -> tuple[list[Cost], list[tuple[int, int]]] | None:
     """A feasible full pairing built greedily in rank order: its costs and index pairs, or None.
 
     The bye goes to a player with an unavoidable H3 break when one is allowed it
     (:meth:`Field.forced`), else to the cheapest bye, lowest-ranked first (pair
     ``(i, len(players))``); then each player, top down, takes the cheapest of the next ``GREEDY_WINDOW``
-    free players (all of them when none of those is free of hard-rule relaxations).
+    free players (all of them when none of those is free of hard-rule relaxations), the first of
+    equally cheap ones. ``arrays`` are the players' (:class:`Arrays`), when the caller has them.
     """
-    index = {p: k for k, p in enumerate(players)}
-    free = list(players)
+    n = len(players)
+    free = list(range(n))
     out: list[Cost] = []
     pairs: list[tuple[int, int]] = []
-    if len(free) % 2:
-        allowed = [p for p in free if p not in no_bye]
+    if n % 2:
+        allowed = [k for k in free if players[k] not in no_bye]
         if not allowed:
             return None
         # A player who breaks H3 on any board is best off on the bye (H3 outranks the bye's rules).
-        by_cost = min(reversed(allowed), key=lambda p: (not fld.forced(p), fld.bye(p)))
-        out.append(fld.bye(by_cost))
-        pairs.append((index[by_cost], len(players)))
+        by_cost = min(reversed(allowed), key=lambda k: (not fld.forced(players[k]), fld.bye(players[k])))
+        out.append(fld.bye(players[by_cost]))
+        pairs.append((by_cost, n))
         free.remove(by_cost)
+    ahead = _Ahead(Arrays(fld, players) if arrays is None else arrays, 2 * GREEDY_WINDOW)
     while free:
-        p = free.pop(0)
-        best: tuple[Cost, int] | None = None
-        for scope in (free[:GREEDY_WINDOW], free):
-            for k, q in enumerate(scope):
-                if fld.forbidden(p, q):
-                    continue
-                cost = fld.pair(p, q)[1]
-                if best is None or cost < best[0]:
-                    best = (cost, k)
-            if best is not None and not any(best[0][:HARD]):
-                break
+        i = free.pop(0)
+        best = ahead.cheapest(i, free[:GREEDY_WINDOW])
+        if best is None or any(best[0][:HARD]):
+            best = ahead.cheapest(i, free)
         if best is None:
             return None
         out.append(best[0])
-        pairs.append((index[p], index[free.pop(best[1])]))
+        pairs.append((i, free.pop(best[1])))
     return out, pairs
+
+
+class _Ahead:
+    """The costs of each player's pairs with the next ``reach`` players, costed at once for :func:`greedy`.
+
+    :meth:`Arrays.costs` gives the rows :meth:`Field.pair` gives (the tests
+    compare them pair by pair); each row's rank in the lexicographic order of
+    all of them makes a comparison one integer comparison. Pairs further ahead
+    are costed when asked for.
+    """
+
+    def __init__(self, arrays: Arrays, reach: int) -> None:
+        n = arrays.n
+        first = np.arange(n, dtype=np.int64)
+        counts = np.clip(n - 1 - first, 0, reach)
+        i = np.repeat(first, counts)
+        j = i + 1 + np.arange(len(i), dtype=np.int64) - np.repeat(np.cumsum(counts) - counts, counts)
+        rows = arrays.costs(i, j)
+        self.arrays = arrays
+        self.reach = reach
+        self.rows = rows
+        self.rank: list[int] = _lexicographic_rank(rows).tolist()
+        self.ok: list[bool] = arrays.allowed(i, j).tolist()
+        self.base: list[int] = (np.cumsum(counts) - counts - first - 1).tolist()
+        """Row of the pair ``(i, j)``: ``base[i] + j``."""
+
+    def cheapest(self, i: int, scope: Sequence[int]) -> tuple[Cost, int] | None:
+        """The first of the cheapest allowed pairs of ``i`` with ``scope`` (increasing, after ``i``): its
+        cost and place in ``scope``; None when every one is on the do-not-pair list."""
+        if not scope:
+            return None
+        if scope[-1] - i <= self.reach:
+            base, rank, ok = self.base[i], self.rank, self.ok
+            best, least = -1, 0
+            for k, j in enumerate(scope):
+                row = base + j
+                if ok[row] and (best < 0 or rank[row] < least):
+                    best, least = k, rank[row]
+            return None if best < 0 else (tuple(self.rows[base + scope[best]].tolist()), best)
+        a = self.arrays
+        js = np.array(scope, dtype=np.int64)
+        iis = np.full(len(js), i, dtype=np.int64)
+        costs: list[Cost] = [tuple(r) for r in a.costs(iis, js).tolist()]
+        allowed = a.allowed(iis, js).tolist()
+        found = [(c, k) for k, (c, yes) in enumerate(zip(costs, allowed)) if yes]
+        return min(found) if found else None
 
 
 @dataclass(frozen=True)
@@ -183,9 +245,13 @@ class Bound:
     """What a bye edge's expanded cost must not exceed: ``C(F)`` (``totals`` when empty)."""
 
 
-def greedy_bound(fld: Field, players: Sequence[PlayerId], no_bye: Collection[PlayerId]) -> Bound | None:
-    """The safe-pruning bound of a greedy pairing; None when no greedy pairing is found."""
-    found = greedy(fld, players, no_bye)
+def greedy_bound(fld: Field, players: Sequence[PlayerId], no_bye: Collection[PlayerId],
+                 arrays: Arrays | None = None) -> Bound | None:
+    """The safe-pruning bound of a greedy pairing; None when no greedy pairing is found.
+
+    ``arrays`` are the players' (:class:`Arrays`), when the caller has them.
+    """
+    found = greedy(fld, players, no_bye, arrays)
     return None if found is None else bound_of(fld, players, no_bye, *found)
 
 
@@ -300,16 +366,17 @@ def _not_above(rows: IntArray, bound: Sequence[int], levels: int, forced: IntArr
 
 
 def pruned_edges(fld: Field, players: Sequence[PlayerId], no_bye: Collection[PlayerId],
-                 bound: Bound | None = None) -> Pruned | None:
+                 bound: Bound | None = None, arrays: Arrays | None = None) -> Pruned | None:
     """The full graph less the edges that cannot be in any optimum (module Notes), as arrays.
 
     None when no greedy pairing is found (the caller then uses the full graph).
-    ``bound`` is :func:`greedy_bound`'s, when the caller has it already.
+    ``bound`` is :func:`greedy_bound`'s and ``arrays`` the players' :class:`Arrays`, when the caller
+    has them already.
     """
-    bound = bound if bound is not None else greedy_bound(fld, players, no_bye)
+    arrays = Arrays(fld, players) if arrays is None else arrays
+    bound = bound if bound is not None else greedy_bound(fld, players, no_bye, arrays)
     if bound is None:
         return None
-    arrays = Arrays(fld, players)
     us, vs, cs = [], [], []
     for lo in range(0, len(players), CHUNK):
         i, j, rows = admissible(arrays, *index_pairs(arrays.units, bound.max_gap,

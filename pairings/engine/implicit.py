@@ -155,7 +155,7 @@ def _proves_itself(fld: Field, players: Sequence[PlayerId], no_bye: Collection[P
 
 
 def implicit_matching(fld: Field, players: Sequence[PlayerId], no_bye: Collection[PlayerId],
-                      bound: candidates.Bound) -> sparse.Solved | None:
+                      bound: candidates.Bound, arrays: Arrays | None = None) -> sparse.Solved | None:
     """The optimal index pairs of ``players`` with their certificate route; None: take the listed route.
 
     When ``bound`` (the greedy pairing's) is weak, tries the
@@ -165,9 +165,9 @@ def implicit_matching(fld: Field, players: Sequence[PlayerId], no_bye: Collectio
     optimum when the safe-pruning bound it proves itself
     (:func:`candidates.bound_of`) relaxes no hard rule and floats at most
     ``g`` units: every pair that bound keeps lies within the limits, where
-    nothing beats it.
+    nothing beats it. ``arrays`` are the players' (:class:`Arrays`), when the caller has them.
     """
-    arrays = Arrays(fld, players)
+    arrays = Arrays(fld, players) if arrays is None else arrays
     tries = [candidates.restricted(g) for g in RESTRICTED_GAPS if bound.max_gap is None or g < bound.max_gap]
     tries.append(bound)
     for limits in tries:

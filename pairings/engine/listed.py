@@ -21,7 +21,7 @@ from numpy.typing import NDArray
 
 from pairings.engine import blossom, candidates, canonical, certificate, sparse, weights
 from pairings.engine.criteria import Field
-from pairings.engine.vector import AnyArray, IntArray
+from pairings.engine.vector import AnyArray, Arrays, IntArray
 from pairings.state import PlayerId
 
 
@@ -34,9 +34,12 @@ def _where(keys: IntArray, order: IntArray, wanted: IntArray) -> tuple[IntArray,
 
 
 def listed_matching(fld: Field, players: Sequence[PlayerId], no_bye: Collection[PlayerId],
-                    bound: candidates.Bound) -> sparse.Solved:
-    """The canonical optimum of ``players`` over the listed pruned pairs of ``bound`` (module notes)."""
-    pr = candidates.pruned_edges(fld, players, no_bye, bound)
+                    bound: candidates.Bound, arrays: Arrays | None = None) -> sparse.Solved:
+    """The canonical optimum of ``players`` over the listed pruned pairs of ``bound`` (module notes).
+
+    ``arrays`` are the players' (:class:`Arrays`), when the caller has them.
+    """
+    pr = candidates.pruned_edges(fld, players, no_bye, bound, arrays)
     assert pr is not None  # a bound was given
     n = pr.n
     w = weights.weight_array(pr.costs, n)

@@ -26,7 +26,7 @@ from pairings.engine import blossom, candidates, canonical, implicit, listed, so
 from pairings.engine.candidates import Graph, Sided
 from pairings.engine.criteria import Field
 from pairings.engine.sparse import Route
-from pairings.engine.vector import IntArray
+from pairings.engine.vector import Arrays, IntArray
 from pairings.errors import NoPairingError
 from pairings.state import PlayerId
 
@@ -40,15 +40,16 @@ def engine_matching(fld: Field, players: Sequence[PlayerId], no_bye: Collection[
                     ) -> tuple[Pairs, Route | None, bool]:
     """The engine's index pairs, the route that found them (None: the full graph), and whether every
     pruned pair is a rematch."""
-    bound = candidates.greedy_bound(fld, players, no_bye)
+    arrays = Arrays(fld, players)
+    bound = candidates.greedy_bound(fld, players, no_bye, arrays)
     if bound is None:
         g = candidates.full_graph(fld, players, no_bye)
         return solve(g, reference=False), None, _every_pair_a_rematch(g)
     if USE_IMPLICIT and implicit.available():
-        found = implicit.implicit_matching(fld, players, no_bye, bound)
+        found = implicit.implicit_matching(fld, players, no_bye, bound, arrays)
         if found is not None:
             return found.pairs, found.route, found.every_pair_a_rematch
-    solved = listed.listed_matching(fld, players, no_bye, bound)
+    solved = listed.listed_matching(fld, players, no_bye, bound, arrays)
     return solved.pairs, solved.route, solved.every_pair_a_rematch
 
 

@@ -238,3 +238,39 @@ def test_reduced_costs_equal_python_integers(seed: int, top: int) -> None:
     for (a, b, wt), rc in zip(edges, got):
         exact = y2[a] + y2[b] - 2 * wt + 2 * sum(z for m, z in blossoms if a in m and b in m)
         assert rc == max(-2**62, min(2**62, exact))
+
+
+def greedy_pair_by_pair(fld: Field, order: list[str]) -> tuple[list[tuple[int, ...]], list[tuple[int, int]]] | None:
+    """candidates.greedy's rule, read from its docstring, with Field.pair one pair at a time."""
+    index = {p: k for k, p in enumerate(order)}
+    free = list(order)
+    out: list[tuple[int, ...]] = []
+    pairs: list[tuple[int, int]] = []
+    if len(free) % 2:
+        bye = min(reversed(free), key=lambda p: (not fld.forced(p), fld.bye(p)))
+        out.append(fld.bye(bye))
+        pairs.append((index[bye], len(order)))
+        free.remove(bye)
+    while free:
+        p = free.pop(0)
+        found = None
+        for scope in (free[:candidates.GREEDY_WINDOW], free):
+            costs = [(fld.pair(p, q)[1], k) for k, q in enumerate(scope) if not fld.forbidden(p, q)]
+            found = min(costs) if costs else None
+            if found is not None and not any(found[0][:candidates.HARD]):
+                break
+        if found is None:
+            return None
+        out.append(found[0])
+        pairs.append((index[p], index[free.pop(found[1])]))
+    return out, pairs
+
+
+@pytest.mark.parametrize("window", [candidates.GREEDY_WINDOW, 3])
+@pytest.mark.parametrize(("n", "played", "seed", "rough"), [*fields(30, 13, 2, 400), *fields(15, 14)])
+def test_greedy_equals_pair_by_pair(n: int, played: int, seed: int, rough: bool, window: int,
+                                    monkeypatch: pytest.MonkeyPatch) -> None:
+    # A window of 3 also takes the costs of pairs beyond the ones costed in bulk (candidates._Ahead).
+    monkeypatch.setattr(candidates, "GREEDY_WINDOW", window)
+    fld, order = field_of(n, played, seed, rough)
+    assert candidates.greedy(fld, order, ()) == greedy_pair_by_pair(fld, order)
