@@ -1,12 +1,15 @@
-"""Candidate graphs for one round and the optimal pairs on them.
+"""Candidate graphs for one round: the full graph, the greedy pairing's safe-pruning bound, the pruned pairs.
 
 Two graphs over the same vertices (the free players, plus a bye vertex when
 their number is odd):
 
 - the **full** graph: every pair not on the do-not-pair list (H5), every
-  player allowed the bye - what the reference solver runs on;
+  player allowed the bye - what the reference solver runs on, and the engine
+  when no greedy pairing is found;
 - the **pruned** graph: the full graph less the edges that provably belong to
-  no optimum (safe pruning, below) - what the engine runs on.
+  no optimum (safe pruning, below) - what both routes to the optimum run on
+  (:mod:`pairings.engine.route`): listed here (:func:`pruned_edges`), or walked
+  by the compiled scan with the same limits (:class:`pairings.engine.scan.PairScan`).
 
 Notes
 -----
