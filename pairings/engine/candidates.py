@@ -59,7 +59,7 @@ from numpy.typing import NDArray
 
 from pairings.engine import weights
 from pairings.engine.criteria import Cost, Field
-from pairings.engine.vector import WIDTH, AnyArray, Arrays, IntArray
+from pairings.engine.vector import WIDTH, Arrays, IntArray
 from pairings.state import PlayerId
 
 Pair = tuple[PlayerId, PlayerId]

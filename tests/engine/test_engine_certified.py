@@ -17,7 +17,7 @@ from hypothesis import strategies as st
 from tests.engine.engine_support import (
     Edges, checked_perfect, columns, networkx_perfect, random_history, state_of, weight,
 )
-from pairings.engine import candidates, draft_round, listed, route, sparse
+from pairings.engine import candidates, draft_round, listed, route, solver, sparse
 from pairings.engine.blossom import Dual, perfect_matching
 from pairings.engine.certificate import certify, reduced_costs
 from pairings.engine.criteria import Field
@@ -274,3 +274,17 @@ def test_greedy_equals_pair_by_pair(n: int, played: int, seed: int, rough: bool,
     monkeypatch.setattr(candidates, "GREEDY_WINDOW", window)
     fld, order = field_of(n, played, seed, rough)
     assert candidates.greedy(fld, order, ()) == greedy_pair_by_pair(fld, order)
+
+
+@pytest.mark.parametrize("seed", range(40))
+def test_most_paired_is_a_maximum_matching(seed: int) -> None:
+    # networkx's maximum-cardinality matching as the independent reference for its size.
+    rng = random.Random(seed)
+    n = rng.choice([2, 5, 8, 11, 16])
+    p = rng.choice([0.1, 0.25, 0.5])
+    edges = [(i, j) for i in range(n) for j in range(i + 1, n) if rng.random() < p]
+    u = np.array([i for i, _ in edges], dtype=np.int64)
+    v = np.array([j for _, j in edges], dtype=np.int64)
+    pairs = route.most_paired(n, u, v)
+    assert set(pairs) <= set(edges) and len({x for pair in pairs for x in pair}) == 2 * len(pairs)
+    assert len(pairs) == len(solver.reference_matching(n, [(i, j, 1) for i, j in edges]))
