@@ -14,8 +14,10 @@ code is:
 2. **A dual** (the producer: not trusted). The compiled blossom
    (:func:`blossom.perfect_matching_arrays`, warm-started from ``M``) solves a
    sparse graph of those pairs; pairs the dual violates are added until it
-   holds on all of them. Without the compiled kernels the pruned pairs are
-   listed and solved whole.
+   holds on all of them (the engine's own repeated solve,
+   :func:`pairings.engine.sparse.certify`, on the sparse graph
+   :func:`implicit.start` builds). Without the compiled kernels the pruned
+   pairs are listed and solved whole.
 3. **The check** (trusted, independent of the producer):
    :func:`certificate.check` verifies in numpy, on the sparse graph's edges
    (every bye edge among them), that the dual is feasible and that ``M``
