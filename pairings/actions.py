@@ -285,7 +285,8 @@ def forbid_pair(
 # -- rounds ------------------------------------------------------------------------------
 
 
-def _draft_event(draft: Draft, source: str = "engine", reason: str = "") -> ev.RoundDrafted:
+def draft_event(draft: Draft, source: str = "engine", reason: str = "") -> ev.RoundDrafted:
+    """The event that stores ``draft`` as the round's draft (``source``: who made it, ``reason``: why)."""
     return ev.RoundDrafted(
         round=draft.round,
         boards=tuple(
@@ -346,7 +347,7 @@ def pair(
         )
     source = "override" if reason else "engine"
     decisions: list[ev.Event] = [ev.NoShowKept(player=pid, round=state.next_round_number - 1) for pid in kept]
-    return decisions + [_draft_event(draft_next(state, overrides), source, reason)]
+    return decisions + [draft_event(draft_next(state, overrides), source, reason)]
 
 
 def keep_after_no_show(state: EventState, player: str) -> list[ev.Event]:
@@ -412,7 +413,7 @@ def swap(state: EventState, a: str, b: str, reason: str) -> list[ev.Event]:
     if pa == pb:
         raise InputError(f"{a!r} and {b!r} are the same player ({state.players[pa].name}): give two players to swap")
     changed = engine.swap(state, draft_of(state), pa, pb)
-    return [_draft_event(changed, "override", f"swap {state.players[pa].name} and {state.players[pb].name}: {why}")]
+    return [draft_event(changed, "override", f"swap {state.players[pa].name} and {state.players[pb].name}: {why}")]
 
 
 def against_optimum(state: EventState, optimum: Draft | None = None) -> str:

@@ -12,7 +12,7 @@ sparse solves until the dual certificate held on every pruned edge, with
 the sparse graph's size and the number of pruned edges covered; ``listed``
 or ``implicit``: whether the pruned edges were held in arrays or walked by
 the compiled scan;
-``fallback``: the compiled solver on every pruned edge), and asserts that the
+``fallback``: the blossom on every pruned edge), and asserts that the
 two cost vectors are equal. ``--fold N`` also times folding a whole
 ``--rounds``-round log of ``N`` players (:func:`pairings.fold.fold`).
 ``--verify N`` (default 10,000; 0: skip) times ``pairings verify``'s check of
@@ -53,10 +53,9 @@ import numpy as np
 
 from pairings import actions
 from pairings.engine import draft_round, verify_round
-from pairings.engine import candidates, implicit, weights
+from pairings.engine import blossom, candidates, implicit, route, weights
 from pairings.engine.criteria import Field
 from pairings.engine.vector import Arrays
-from pairings.engine.solver import fast_available
 from pairings.fold import fold
 from pairings.reports import render, text
 from pairings.simulate import simulate_events
@@ -104,10 +103,9 @@ def bench_one(n: int, rounds: int, played: int, seed: int, reference_limit: int)
     draft, engine_s, peak = _peak_mb(lambda: draft_round(state))
     rnd = state.next_round_number
     fld = Field(state, rnd, state.available(rnd))  # the same field, again, for the route taken
-    _, route, _ = candidates.engine_matching(fld, list(fld.order), ())
-    how = "full graph" if route is None else "fallback" if not route.certified else \
-        f"certified in {route.rounds}, {route.sparse_edges:,} of {route.pruned:,} edges, " \
-        f"{'implicit' if implicit.available() else 'listed'}"
+    _, taken, _ = route.engine_matching(fld, list(fld.order), ())
+    how = "full graph" if taken is None else f"fallback, {taken.path}" if not taken.certified else \
+        f"certified in {taken.rounds}, {taken.sparse_edges:,} of {taken.pruned:,} edges, {taken.path}"
     ref_cell, ratio_cell = "-", "-"
     if n <= reference_limit:
         ref, ref_s = _timed(lambda: draft_round(state, reference=True))
@@ -141,7 +139,7 @@ def bench_verify(n: int, rounds: int, played: int, seed: int) -> str:
     log = simulate_events(n, rounds, played, seed)
     state = fold(enumerate(log, 1))
     draft = draft_round(state)
-    stored = fold(enumerate([*log, actions._draft_event(draft)], 1))
+    stored = fold(enumerate([*log, actions.draft_event(draft)], 1))
     del log, state
     check, seconds = _timed(lambda: verify_round(stored, draft.round))
     assert check.ok and check.optimal is True, check.lines()
@@ -246,7 +244,7 @@ def _rustworkx_full(state: EventState, tries: int = 3) -> tuple[float, int, int]
     players = list(fld.order)
     n = len(players)
     arrays = Arrays(fld, players)
-    i, j = candidates._index_pairs(arrays.units, None, range(n))
+    i, j = candidates.index_pairs(arrays.units, None, range(n))
     keep = arrays.allowed(i, j)
     u, v, rows = i[keep], j[keep], arrays.costs(i[keep], j[keep])
     if n % 2:
@@ -356,7 +354,7 @@ def main(argv: list[str] | None = None) -> None:
     parser.add_argument("--dutch", default="", help="comma-separated field sizes also drafted by the Dutch system")
     args = parser.parse_args(argv)
     engine = "compiled blossom and pair scan (implicit pruned pairs)" if implicit.available() else \
-        f"{'rustworkx (compiled)' if fast_available() else 'networkx'} on the listed pruned pairs"
+        f"{'compiled' if blossom.compiled() else 'pure-Python'} blossom on the listed pruned pairs"
     print(f"engine: {engine}; reference: networkx on the full graph")
     print("| players | round | fold s | engine s | peak MB | reference s | ratio | route | round cost |")
     print("| ---: | :---: | ---: | ---: | ---: | ---: | ---: | :--- | :--- |")

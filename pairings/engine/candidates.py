@@ -1,12 +1,15 @@
-"""Candidate graphs for one round and the optimal pairs on them.
+"""Candidate graphs for one round: the full graph, the greedy pairing's safe-pruning bound, the pruned pairs.
 
 Two graphs over the same vertices (the free players, plus a bye vertex when
 their number is odd):
 
 - the **full** graph: every pair not on the do-not-pair list (H5), every
-  player allowed the bye - what the reference solver runs on;
+  player allowed the bye - what the reference solver runs on, and the engine
+  when no greedy pairing is found;
 - the **pruned** graph: the full graph less the edges that provably belong to
-  no optimum (safe pruning, below) - what the engine runs on.
+  no optimum (safe pruning, below) - what both routes to the optimum run on
+  (:mod:`pairings.engine.route`): listed here (:func:`pruned_edges`), or walked
+  by the compiled scan with the same limits (:class:`pairings.engine.scan.PairScan`).
 
 Notes
 -----
@@ -54,10 +57,9 @@ from typing import Collection, Iterator, Sequence
 import numpy as np
 from numpy.typing import NDArray
 
-from pairings.engine import blossom, canonical, certificate, solver, weights
+from pairings.engine import weights
 from pairings.engine.criteria import Cost, Field
-from pairings.engine.vector import WIDTH, AnyArray, Arrays, IntArray
-from pairings.errors import NoPairingError
+from pairings.engine.vector import WIDTH, Arrays, IntArray
 from pairings.state import PlayerId
 
 Pair = tuple[PlayerId, PlayerId]
@@ -71,15 +73,6 @@ RANK_INDEX = 10
 """Position of ``rank_order`` in a cost tuple."""
 CHUNK = 512
 """Rows of players costed at once (bounds the arrays' memory)."""
-SPARSE_WINDOW = 3
-"""Start the sparse graph with the pairs at most this far from the rank-order ideal."""
-SPARSE_ROUNDS = 8
-SPARSE_BEST = 3
-"""... and each player's three heaviest edges."""
-SPARSE_CLASS = 4
-"""... and, per side-wish class, this many players either side of each player's ideal partner."""
-SPARSE_ADD = 2
-"""Violated edges added per player and round (the most violated first)."""
 
 
 class Graph:
@@ -113,6 +106,27 @@ class Graph:
         return [(i, j, enc.weight(c)) for (i, j), c in zip(self.edges, self.costs)]
 
 
+def _lexicographic_rank(rows: IntArray) -> IntArray:
+    """Per row of non-negative integers, a number that orders the rows as their tuples do.
+
+    The rows read as mixed-radix numbers (radix: a column's maximum plus one)
+    when those fit an int64, else their ranks in a lexicographic sort.
+    """
+    if len(rows) == 0:
+        return np.zeros(0, dtype=np.int64)
+    place, places = 1, []
+    for top in reversed(rows.max(axis=0).tolist()):
+        places.append(place)
+        place *= int(top) + 1
+    if place < 2**63:
+        return rows @ np.array(places[::-1], dtype=np.int64)
+    order = np.lexsort(rows.T[::-1])
+    ranked = rows[order]
+    rank = np.zeros(len(rows), dtype=np.int64)
+    rank[order] = np.concatenate([[0], np.cumsum((ranked[1:] != ranked[:-1]).any(axis=1))])
+    return rank
+
+
 def _pairs(fld: Field, players: Sequence[PlayerId], max_gap: int | None) -> Iterator[tuple[int, int]]:
     """Index pairs (i < j) not forbidden, at most ``max_gap`` units apart (None: any)."""
     units = [fld.units[p] for p in players]
@@ -135,45 +149,86 @@ def full_graph(fld: Field, players: Sequence[PlayerId], no_bye: Collection[Playe
     return g
 
 
-def greedy(fld: Field, players: Sequence[PlayerId], no_bye: Collection[PlayerId]
+def greedy(fld: Field, players: Sequence[PlayerId], no_bye: Collection[PlayerId], arrays: Arrays | None = None
            ) -> tuple[list[Cost], list[tuple[int, int]]] | None:
     """A feasible full pairing built greedily in rank order: its costs and index pairs, or None.
 
     The bye goes to a player with an unavoidable H3 break when one is allowed it
     (:meth:`Field.forced`), else to the cheapest bye, lowest-ranked first (pair
     ``(i, len(players))``); then each player, top down, takes the cheapest of the next ``GREEDY_WINDOW``
-    free players (all of them when none of those is free of hard-rule relaxations).
+    free players (all of them when none of those is free of hard-rule relaxations), the first of
+    equally cheap ones. ``arrays`` are the players' (:class:`Arrays`), when the caller has them.
     """
-    index = {p: k for k, p in enumerate(players)}
-    free = list(players)
+    n = len(players)
+    free = list(range(n))
     out: list[Cost] = []
     pairs: list[tuple[int, int]] = []
-    if len(free) % 2:
-        allowed = [p for p in free if p not in no_bye]
+    if n % 2:
+        allowed = [k for k in free if players[k] not in no_bye]
         if not allowed:
             return None
         # A player who breaks H3 on any board is best off on the bye (H3 outranks the bye's rules).
-        by_cost = min(reversed(allowed), key=lambda p: (not fld.forced(p), fld.bye(p)))
-        out.append(fld.bye(by_cost))
-        pairs.append((index[by_cost], len(players)))
+        by_cost = min(reversed(allowed), key=lambda k: (not fld.forced(players[k]), fld.bye(players[k])))
+        out.append(fld.bye(players[by_cost]))
+        pairs.append((by_cost, n))
         free.remove(by_cost)
+    ahead = _Ahead(Arrays(fld, players) if arrays is None else arrays, 2 * GREEDY_WINDOW)
     while free:
-        p = free.pop(0)
-        best: tuple[Cost, int] | None = None
-        for scope in (free[:GREEDY_WINDOW], free):
-            for k, q in enumerate(scope):
-                if fld.forbidden(p, q):
-                    continue
-                cost = fld.pair(p, q)[1]
-                if best is None or cost < best[0]:
-                    best = (cost, k)
-            if best is not None and not any(best[0][:HARD]):
-                break
+        i = free.pop(0)
+        best = ahead.cheapest(i, free[:GREEDY_WINDOW])
+        if best is None or any(best[0][:HARD]):
+            best = ahead.cheapest(i, free)
         if best is None:
             return None
         out.append(best[0])
-        pairs.append((index[p], index[free.pop(best[1])]))
+        pairs.append((i, free.pop(best[1])))
     return out, pairs
+
+
+class _Ahead:
+    """The costs of each player's pairs with the next ``reach`` players, costed at once for :func:`greedy`.
+
+    :meth:`Arrays.costs` gives the rows :meth:`Field.pair` gives (the tests
+    compare them pair by pair); each row's rank in the lexicographic order of
+    all of them makes a comparison one integer comparison. Pairs further ahead
+    are costed when asked for.
+    """
+
+    def __init__(self, arrays: Arrays, reach: int) -> None:
+        n = arrays.n
+        first = np.arange(n, dtype=np.int64)
+        counts = np.clip(n - 1 - first, 0, reach)
+        i = np.repeat(first, counts)
+        j = i + 1 + np.arange(len(i), dtype=np.int64) - np.repeat(np.cumsum(counts) - counts, counts)
+        rows = arrays.costs(i, j)
+        self.arrays = arrays
+        self.reach = reach
+        self.rows = rows
+        self.rank: list[int] = _lexicographic_rank(rows).tolist()
+        self.ok: list[bool] = arrays.allowed(i, j).tolist()
+        self.base: list[int] = (np.cumsum(counts) - counts - first - 1).tolist()
+        """Row of the pair ``(i, j)``: ``base[i] + j``."""
+
+    def cheapest(self, i: int, scope: Sequence[int]) -> tuple[Cost, int] | None:
+        """The first of the cheapest allowed pairs of ``i`` with ``scope`` (increasing, after ``i``): its
+        cost and place in ``scope``; None when every one is on the do-not-pair list."""
+        if not scope:
+            return None
+        if scope[-1] - i <= self.reach:
+            base, rank, ok = self.base[i], self.rank, self.ok
+            best, least = -1, 0
+            for k, j in enumerate(scope):
+                row = base + j
+                if ok[row] and (best < 0 or rank[row] < least):
+                    best, least = k, rank[row]
+            return None if best < 0 else (tuple(self.rows[base + scope[best]].tolist()), best)
+        a = self.arrays
+        js = np.array(scope, dtype=np.int64)
+        iis = np.full(len(js), i, dtype=np.int64)
+        costs: list[Cost] = [tuple(r) for r in a.costs(iis, js).tolist()]
+        allowed = a.allowed(iis, js).tolist()
+        found = [(c, k) for k, (c, yes) in enumerate(zip(costs, allowed)) if yes]
+        return min(found) if found else None
 
 
 @dataclass(frozen=True)
@@ -193,9 +248,13 @@ class Bound:
     """What a bye edge's expanded cost must not exceed: ``C(F)`` (``totals`` when empty)."""
 
 
-def greedy_bound(fld: Field, players: Sequence[PlayerId], no_bye: Collection[PlayerId]) -> Bound | None:
-    """The safe-pruning bound of a greedy pairing; None when no greedy pairing is found."""
-    found = greedy(fld, players, no_bye)
+def greedy_bound(fld: Field, players: Sequence[PlayerId], no_bye: Collection[PlayerId],
+                 arrays: Arrays | None = None) -> Bound | None:
+    """The safe-pruning bound of a greedy pairing; None when no greedy pairing is found.
+
+    ``arrays`` are the players' (:class:`Arrays`), when the caller has them.
+    """
+    found = greedy(fld, players, no_bye, arrays)
     return None if found is None else bound_of(fld, players, no_bye, *found)
 
 
@@ -270,10 +329,10 @@ class Pruned:
     v: IntArray
     costs: IntArray
     arrays: Arrays
-    """The players' arrays (for :func:`ideal_partners`)."""
+    """The players' arrays (for :func:`pairings.engine.sparse.ideal_partners`)."""
 
 
-def _index_pairs(units: IntArray, max_gap: int | None, rows: range) -> tuple[IntArray, IntArray]:
+def index_pairs(units: IntArray, max_gap: int | None, rows: range) -> tuple[IntArray, IntArray]:
     """Index pairs ``i < j`` with ``i`` in ``rows``, at most ``max_gap`` units apart (None: any)."""
     n = len(units)
     first = np.arange(rows.start, rows.stop, dtype=np.int64)
@@ -310,19 +369,20 @@ def _not_above(rows: IntArray, bound: Sequence[int], levels: int, forced: IntArr
 
 
 def pruned_edges(fld: Field, players: Sequence[PlayerId], no_bye: Collection[PlayerId],
-                 bound: Bound | None = None) -> Pruned | None:
+                 bound: Bound | None = None, arrays: Arrays | None = None) -> Pruned | None:
     """The full graph less the edges that cannot be in any optimum (module Notes), as arrays.
 
     None when no greedy pairing is found (the caller then uses the full graph).
-    ``bound`` is :func:`greedy_bound`'s, when the caller has it already.
+    ``bound`` is :func:`greedy_bound`'s and ``arrays`` the players' :class:`Arrays`, when the caller
+    has them already.
     """
-    bound = bound if bound is not None else greedy_bound(fld, players, no_bye)
+    arrays = Arrays(fld, players) if arrays is None else arrays
+    bound = bound if bound is not None else greedy_bound(fld, players, no_bye, arrays)
     if bound is None:
         return None
-    arrays = Arrays(fld, players)
     us, vs, cs = [], [], []
     for lo in range(0, len(players), CHUNK):
-        i, j, rows = admissible(arrays, *_index_pairs(arrays.units, bound.max_gap,
+        i, j, rows = admissible(arrays, *index_pairs(arrays.units, bound.max_gap,
                                                       range(lo, min(lo + CHUNK, len(players)))), bound)
         us.append(i)
         vs.append(j)
@@ -333,240 +393,3 @@ def pruned_edges(fld: Field, players: Sequence[PlayerId], no_bye: Collection[Pla
     cs.append(brows.astype(np.int32))
     n = len(players)
     return Pruned(n + n % 2, np.concatenate(us), np.concatenate(vs), np.concatenate(cs), arrays)
-
-
-def ideal_partners(a: Arrays, near: int = SPARSE_CLASS, wide: int | None = None) -> tuple[IntArray, IntArray]:
-    """Pairs ``i < j`` of one score group where ``j`` is near ``i``'s rank-order ideal within its side class.
-
-    For each player and each side-wish class (first, second, none) of its
-    score group, the ``near`` players of that class on each side of the
-    ideal position (group rank plus or minus half the group, rules.md S6),
-    or the ``wide`` ones (default ``near``) when the class is compatible with
-    the player's own wish (no wish, or not the same side). Side preferences
-    (S4) outrank the rank order, so a player's partner in an optimum is
-    usually a compatible one near the ideal, not the nearest one; where the
-    wishes are unevenly spread over the group, several places away.
-    Floaters: the last ``2 * near`` players of a group with the first
-    ``2 * near`` of each class of the next group down.
-    """
-    n = a.n
-    if n == 0:
-        return np.zeros(0, dtype=np.int64), np.zeros(0, dtype=np.int64)
-    span = n + 1
-    cls = a.want + 1
-    key = (a.units * 3 + cls) * span + a.grank
-    order = np.argsort(key, kind="stable")
-    sorted_key = key[order]
-    half = a.gsize // 2
-    rows = np.arange(n, dtype=np.int64)
-    us, vs = [], []
-    wide = near if wide is None else wide
-    for c in range(3):
-        block = (a.units * 3 + c) * span
-        lo_pos = np.searchsorted(sorted_key, block, side="left")
-        hi_pos = np.searchsorted(sorted_key, block + span, side="left")
-        reach = np.where((a.want != 0) & (a.want == c - 1), near, wide)
-        for target in (a.grank + half, a.grank - half):
-            at = np.searchsorted(sorted_key, block + np.clip(target, 0, n), side="left")
-            for off in range(-max(near, wide), max(near, wide)):
-                pos = at + off
-                ok = (pos >= lo_pos) & (pos < hi_pos) & (off < reach) & (-off <= reach)
-                j = order[np.where(ok, pos, 0)]
-                us.append(rows[ok])
-                vs.append(j[ok])
-    # Floaters: the last 2 * near of a group with the first 2 * near of each class of the next one.
-    end = rows - a.grank + a.gsize
-    floater = (a.grank >= a.gsize - 2 * near) & (end < n)
-    below = a.units[np.minimum(end, n - 1)]
-    for c in range(3):
-        block = (below * 3 + c) * span
-        lo_pos = np.searchsorted(sorted_key, block, side="left")
-        hi_pos = np.searchsorted(sorted_key, block + span, side="left")
-        for off in range(2 * near):
-            pos = lo_pos + off
-            ok = floater & (pos < hi_pos)
-            us.append(rows[ok])
-            vs.append(order[pos[ok]])
-    i, j = np.concatenate(us), np.concatenate(vs)
-    keep = i != j
-    return np.minimum(i, j)[keep], np.maximum(i, j)[keep]
-
-
-def seed_mask(pr: Pruned) -> NDArray[np.bool_]:
-    """The pruned edges that are :func:`ideal_partners` pairs."""
-    keys = pr.u * pr.n + pr.v
-    order = np.argsort(keys, kind="stable")
-    i, j = ideal_partners(pr.arrays)
-    wanted = np.unique(i * pr.n + j)
-    at = np.searchsorted(keys[order], wanted)
-    hit = at < len(order)
-    hit[hit] = keys[order][at[hit]] == wanted[hit]
-    out = np.zeros(len(keys), dtype=bool)
-    out[order[at[hit]]] = True
-    return out
-
-
-@dataclass(frozen=True)
-class Route:
-    """How the engine's matching was found (for tests and the benchmark)."""
-
-    certified: bool
-    """True: sparse subgraph plus a dual certificate on every pruned edge; False: the fallback."""
-    rounds: int
-    """Sparse solves made."""
-    sparse_edges: int
-    pruned: int = 0
-    """Pruned edges the certificate covered (0: not counted)."""
-
-
-def _best_per_vertex(u: IntArray, v: IntArray, score: AnyArray, among: NDArray[np.bool_],
-                     k: int) -> NDArray[np.bool_]:
-    """Edges of ``among`` that are among the ``k`` highest-``score`` edges at one of their ends."""
-    idx = np.flatnonzero(among)
-    order = idx[np.argsort(-score[idx], kind="stable")]
-    ends = np.concatenate([u[order], v[order]])
-    edge = np.concatenate([order, order])
-    pos = np.tile(np.arange(len(order)), 2)
-    s = np.lexsort((pos, ends))
-    ends = ends[s]
-    place = np.arange(len(s)) - np.searchsorted(ends, ends, side="left")
-    out = np.zeros(len(u), dtype=bool)
-    out[edge[s][place < k]] = True
-    return out
-
-
-def certified_matching(n: int, u: IntArray, v: IntArray, w: AnyArray, rank: IntArray,
-                       window: int = SPARSE_WINDOW, rounds: int = SPARSE_ROUNDS, *,
-                       seed: NDArray[np.bool_] | None = None
-                       ) -> tuple[list[tuple[int, int]], Route, blossom.Dual | None]:
-    """A maximum-weight perfect matching of the edges ``(u, v, w)``, certified when possible, and its dual.
-
-    Start from the edges with ``rank <= window`` (each player's partners
-    around the rank-order ideal, and every bye edge); solve them (compiled
-    solver, then :func:`blossom.perfect_matching` warm-started from its
-    answer, for the dual; later rounds warm-start the blossom from the
-    previous round's matching and dual alone);
-    certify on every edge (:mod:`certificate`); add the
-    edges with negative reduced cost (or, when the subgraph has no perfect
-    matching, widen the window) and repeat. After ``rounds`` solves, the
-    compiled solver runs on all edges (still exact, only slower; no dual).
-    """
-    split = certificate.limbs(w)
-    score = w if split is None or w.dtype != object else split[0] * 2.0**certificate.SHIFT + split[1]
-    mask = (rank <= window) | _best_per_vertex(u, v, score, np.ones(len(u), dtype=bool), SPARSE_BEST)
-    if seed is not None:
-        mask |= seed
-    last: tuple[list[tuple[int, int]], blossom.Dual] | None = None
-    for attempt in range(1, rounds + 1):
-        idx = np.flatnonzero(mask)
-        sub = list(zip(u[idx].tolist(), v[idx].tolist(), w[idx].tolist()))
-        where = {(a, b): k for k, (a, b, _) in enumerate(sub)}
-        if last is None:  # later rounds start from the previous round's matching and dual instead
-            found = solver.matching(n, sub)
-            if 2 * len(found) < n:
-                window *= 4
-                mask |= rank <= window
-                continue
-            result = blossom.perfect_matching(n, sub, [where[p] for p in found])
-        else:
-            result = blossom.perfect_matching(n, sub, [where[p] for p in last[0]], last[1])
-        if result is None:  # cannot happen after a perfect matching was found; stay exact anyway
-            break
-        pairs, dual = last = result
-        rc = certificate.reduced_costs(u, v, w, dual, split)
-        bad = rc < 0
-        if not bad.any() and certificate.certify(n, u, v, w, pairs, dual, split):
-            return pairs, Route(True, attempt, len(idx), len(u)), dual
-        mask |= _best_per_vertex(u, v, -rc, bad, SPARSE_ADD)
-    edges = list(zip(u.tolist(), v.tolist(), w.tolist()))
-    return solver.matching(n, edges), Route(False, rounds, len(u)), None
-
-
-def _all_rematches(rematch: Sequence[int]) -> bool:
-    return len(rematch) > 0 and all(rematch)
-
-
-def engine_matching(fld: Field, players: Sequence[PlayerId], no_bye: Collection[PlayerId]
-                    ) -> tuple[list[tuple[int, int]], Route | None, bool]:
-    """The engine's path: index pairs, how they were found, and whether every pruned pair is a rematch.
-
-    With the compiled kernels, the implicit certified solve (:mod:`implicit`);
-    else, or when it cannot certify, the listed pruned pairs and the certified
-    sparse solve; the full graph when no greedy pairing exists. Whatever the
-    path, a full pairing is the canonical optimum (:mod:`canonical`).
-    """
-    from pairings.engine import implicit  # it builds on this module
-
-    bound = greedy_bound(fld, players, no_bye)
-    if bound is None:
-        g = full_graph(fld, players, no_bye)
-        real = [c[0] for (i, j), c in zip(g.edges, g.costs) if j != g.bye_vertex]
-        return solve(g, False), None, _all_rematches(real)
-    if implicit.available():
-        solved = implicit.implicit_matching(fld, players, no_bye, bound)
-        if solved is not None:
-            return solved.pairs, solved.route, solved.every_pair_a_rematch
-    pr = pruned_edges(fld, players, no_bye, bound)
-    assert pr is not None
-    w = weights.weight_array(pr.costs, pr.n)
-    pairs, route, dual = certified_matching(pr.n, pr.u, pr.v, w, pr.costs[:, RANK_INDEX], seed=seed_mask(pr))
-    if 2 * len(pairs) == pr.n:
-        pairs = canonical.settle(pr.n, pr.u, pr.v, w, pairs, dual)
-    return pairs, route, _all_rematches(pr.costs[pr.v != len(players), 0].tolist())
-
-
-def solve(g: Graph, reference: bool) -> list[tuple[int, int]]:
-    """A maximum-cardinality optimum of ``g`` (networkx when ``reference``), canonical when it is a full pairing."""
-    wedges = g.weighted()
-    found = solver.reference_matching(g.n, wedges) if reference else solver.matching(g.n, wedges)
-    if 2 * len(found) < g.n:
-        return found  # someone is left without an opponent: the caller refuses the round
-    u = np.array([i for i, _ in g.edges], dtype=np.int64)
-    v = np.array([j for _, j in g.edges], dtype=np.int64)
-    ws = [x for _, _, x in wedges]
-    w = np.array(ws, dtype=np.int64 if max(ws, default=0) < 2**62 else object)
-    return canonical.settle(g.n, u, v, w, found)
-
-
-def optimal_pairs(fld: Field, players: Sequence[PlayerId], no_bye: Collection[PlayerId],
-                  reference: bool = False) -> tuple[list[Sided], PlayerId | None]:
-    """The optimal pairs of ``players`` (rank order) and the pairing bye, if any.
-
-    ``reference`` runs networkx on the full graph instead of the engine's path.
-
-    Raises
-    ------
-    NoPairingError
-        When everyone to pair has met everyone, or the do-not-pair list or the
-        no-bye list leaves players without an opponent.
-    """
-    if not players:
-        return [], None
-    if reference:
-        g = full_graph(fld, players, no_bye)
-        rematches = _all_rematches([c[0] for (i, j), c in zip(g.edges, g.costs) if j != g.bye_vertex])
-        matched = solve(g, True)
-    else:
-        matched, _, rematches = engine_matching(fld, players, no_bye)
-    if len(players) > 1 and rematches:
-        raise NoPairingError(
-            f"round {fld.round}: every player to pair has already met every other "
-            f"(max meetings {fld.max_meetings}); no Swiss round can be paired"
-        )
-    covered = {v for e in matched for v in e}
-    missing = [players[i] for i in range(len(players)) if i not in covered]
-    if missing:
-        names = ", ".join(fld.state.players[p].name for p in missing)
-        raise NoPairingError(
-            f"round {fld.round}: no pairing gives {names} an opponent: the do-not-pair list "
-            "or the no-bye list leaves no legal partner"
-        )
-    out: list[Sided] = []
-    bye: PlayerId | None = None
-    for i, j in matched:
-        if j == len(players):
-            bye = players[i]
-        else:
-            p, q = players[i], players[j]
-            out.append((fld.pair(p, q)[0], (p, q)))
-    return out, bye

@@ -14,7 +14,7 @@ log. The engine's final tie-break, below every criterion of rules.md, is:
 
 That is the lexicographic minimum of the partner sequence, a total order on
 pairings, so the optimum it picks is unique; sides and board numbers follow
-from the pairs by rules (:meth:`Field.allocate`, :func:`draft.assemble`), so
+from the pairs by rules (:meth:`Field.allocate`, :func:`boards.assemble`), so
 the whole draft is. Vertices here are numbered in that rank order (the
 candidate graphs' players are in rank order and the bye vertex is last), so a
 partner's rank is its vertex number.

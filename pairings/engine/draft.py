@@ -19,81 +19,17 @@ from __future__ import annotations
 
 from typing import Iterable, Sequence
 
-from pairings.engine import berger, candidates
+from pairings.engine import berger, route
+from pairings.engine.boards import Pair, assemble
 from pairings.engine.criteria import Field
-from pairings.engine.types import (
-    CRITERIA, ENGINE_VERSION, Draft, DraftBoard, Overrides, cost_map, total_cost,
-)
+from pairings.engine.types import Draft, DraftBoard, Overrides
 from pairings.errors import NoPairingError
-from pairings.points import ZERO
-from pairings.state import Bye, ByeKind, EventState, PlayerId, Side, System
-
-Pair = tuple[PlayerId, PlayerId]
+from pairings.state import Bye, ByeKind, EventState, PlayerId, System
 
 
 def _field_players(state: EventState, round_number: int, absent: Iterable[PlayerId]) -> list[PlayerId]:
     gone = set(absent)
     return [p for p in state.available(round_number) if p not in gone]
-
-
-def _other_byes(state: EventState, round_number: int, players: Iterable[PlayerId],
-                absent: Iterable[PlayerId]) -> list[Bye]:
-    """Requested byes and absences of the round, then unpaired available players as absences."""
-    s = state.settings
-    out: list[Bye] = []
-    asked = state.requests.get(round_number, {})
-    for pid in state.initial_rank():
-        kind = asked.get(pid)
-        if kind is not None:
-            out.append(Bye(pid, kind, s.requested_bye_points if kind is ByeKind.REQUESTED else ZERO))
-    for pid in absent:
-        if pid not in asked:
-            out.append(Bye(pid, ByeKind.ABSENCE, ZERO))
-    return out
-
-
-def assemble(state: EventState, fld: Field, pairs: Sequence[tuple[Pair | None, Pair]],
-             bye: PlayerId | None, *, pinned: Iterable[Pair] = (), changed: Iterable[Pair] = (),
-             absent: Iterable[PlayerId] = ()) -> Draft:
-    """Number the boards, settle open sides by the lot and compute costs and flags.
-
-    ``pairs`` holds ``(sides or None, pair)``: sides None means neither player
-    has a preference and the round's lot decides (rules.md: the lot gives board
-    1's higher-ranked player a side; boards alternate).
-    """
-    pinned_set = {frozenset(p) for p in pinned}
-    changed_set = {frozenset(p) for p in changed}
-    ordered = sorted(pairs, key=lambda x: (-max(fld.units[p] for p in x[1]), min(fld.index[p] for p in x[1])))
-    boards: list[DraftBoard] = []
-    costs = []
-    gaps: list[int] = []
-    for number, (sides, (p, q)) in enumerate(ordered, 1):
-        if sides is None:
-            hi, lo = (p, q) if fld.index[p] < fld.index[q] else (q, p)
-            side = fld.lot if number % 2 else fld.lot.other
-            sides = (hi, lo) if side is Side.FIRST else (lo, hi)
-        _, cost = fld.pair(sides[0], sides[1], sides)
-        flags = fld.flags(p, q, cost)
-        key = frozenset((p, q))
-        if key in pinned_set:
-            flags += ("pinned",)
-        if key in changed_set:
-            flags += ("changed",)
-        boards.append(DraftBoard(number, sides[0], sides[1], cost_map(cost), flags))
-        costs.append(cost_map(cost))
-        gaps.append(cost[3])
-    byes: list[Bye] = []
-    bye_cost = cost_map((0,) * len(CRITERIA))
-    if bye is not None:
-        bye_cost = cost_map(fld.bye(bye))
-        gaps.append(bye_cost["score_gap"])
-        byes.append(Bye(bye, ByeKind.PAIRING, state.settings.bye_points))
-    byes += _other_byes(state, fld.round, fld.order, absent)
-    return Draft(
-        round=fld.round, boards=tuple(boards), byes=tuple(byes), cost=total_cost(costs + [bye_cost]),
-        engine_version=ENGINE_VERSION, gaps=tuple(sorted(gaps, reverse=True)), bye_cost=bye_cost,
-        unit=float(fld.unit),
-    )
 
 
 def _check_overrides(state: EventState, round_number: int, players: list[PlayerId], ov: Overrides) -> None:
@@ -152,7 +88,7 @@ def draft_round(state: EventState, overrides: Overrides = Overrides(), *, refere
             f"round {rnd}: forcing {state.players[overrides.bye].name} onto the bye leaves "
             f"an odd number of players ({len(free)}) for the boards"
         )
-    pairs, bye = candidates.optimal_pairs(fld, free, overrides.no_bye, reference)
+    pairs, bye = route.optimal_pairs(fld, free, overrides.no_bye, reference)
     bye = overrides.bye if overrides.bye is not None else bye
     return assemble(state, fld, pinned + pairs, bye, pinned=overrides.pinned, absent=overrides.absent)
 

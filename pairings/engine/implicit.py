@@ -12,19 +12,17 @@ matching and optimal dual come from the compiled blossom
 Notes
 -----
 **Exactness.** The answer is returned only with a certificate over every
-pruned edge (LP duality over Edmonds' perfect-matching polytope, see
-:mod:`pairings.engine.certificate`): the sparse matching and its dual pass
-:func:`certificate.certify` on the sparse edges (dual feasible there, equal
-objectives), the bye edges are all in the sparse graph, and the scan finds no
-pruned player pair with a negative reduced cost. Otherwise the violated pairs
-are added and the solve repeats; after ``SOLVES`` solves the caller
-falls back to the listed path. The weights are :func:`weights.bounding`'s
+pruned edge, from the repeated solve both routes share
+(:func:`pairings.engine.sparse.certify`): the bye edges are all in the sparse
+graph, and the scan prices every pruned player pair under the dual. When no
+certificate is reached the caller takes the listed route
+(:mod:`pairings.engine.listed`). The weights are :func:`weights.bounding`'s
 over the :func:`net` cost rows, with radices from the pairs' maxima and
 :func:`shares`: another valid mixed-radix encoding of the same lexicographic
 order, so the optimum is the same lexicographic optimum. Among optima of equal
-cost the answer is then made canonical (:mod:`pairings.engine.canonical`) on the
+cost the answer is then made canonical (:func:`sparse.canonical_optimum`) on the
 pairs tight under the certified dual: the sparse graph's, and every pruned pair
-the certifying scan found tight (:meth:`scan.PairScan.check`), so both paths
+the certifying scan found tight (:meth:`scan.PairScan.check`), so both routes
 return the same pairs.
 """
 
@@ -35,70 +33,19 @@ from typing import Collection, Sequence
 
 import numpy as np
 
-from pairings.engine import blossom, candidates, canonical, certificate, scan, weights
+from pairings.engine import blossom, candidates, scan, sparse, weights
 from pairings.engine.criteria import ABSOLUTE, MILD, STRONG, Field
 from pairings.engine.types import CRITERIA
-from pairings.engine.vector import WIDTH, AnyArray, Arrays, IntArray
+from pairings.engine.vector import WIDTH, Arrays, IntArray
 from pairings.state import PlayerId
 
-SPARSE_WIDE = 12
-"""Players of a compatible side-wish class this near the rank-order ideal join the first sparse graph
-(:func:`candidates.ideal_partners`; ``candidates.SPARSE_CLASS`` of the player's own wish)."""
 RESTRICTED_GAPS = (1, 2)
 """Score gaps tried first when the greedy bound is weak (:func:`implicit_matching`)."""
-SOLVES = 12
-"""Sparse solves before the caller falls back to the listed path."""
 
 
 def available() -> bool:
     """True when both compiled kernels are installed."""
     return scan.available() and blossom.compiled()
-
-
-@dataclass(frozen=True)
-class Solved:
-    pairs: list[tuple[int, int]]
-    """The canonical optimum (:mod:`pairings.engine.canonical`)."""
-    route: candidates.Route
-    every_pair_a_rematch: bool
-    """The pruned player pairs exist and all are rematches (the engine then refuses the round)."""
-    bound: candidates.Bound
-    """The limits the certificate covered (the greedy bound, or :func:`candidates.restricted` ones)."""
-
-
-class _Sparse:
-    """The growing sparse graph: edges, cost rows and weights, without duplicates."""
-
-    def __init__(self, arrays: Arrays, enc: weights.Encoder) -> None:
-        self.arrays = arrays
-        self.enc = enc
-        self.n = arrays.n + arrays.n % 2
-        self.keys: set[int] = set()
-        self.u: list[IntArray] = []
-        self.v: list[IntArray] = []
-        self.w: list[AnyArray] = []
-
-    def add(self, i: IntArray, j: IntArray, rows: IntArray | None = None) -> None:
-        """Add the pairs not yet present, weighed by their cost rows (:func:`net` of them)."""
-        keys = i * self.n + j
-        fresh = np.array([k not in self.keys for k in keys.tolist()], dtype=bool)
-        if not fresh.any():
-            return
-        i, j, keys = i[fresh], j[fresh], keys[fresh]
-        _, first = np.unique(keys, return_index=True)
-        i, j = i[first], j[first]
-        self.keys.update(keys[first].tolist())
-        self.u.append(i)
-        self.v.append(j)
-        rows = self.arrays.costs(i, j) if rows is None else rows[fresh][first]
-        self.w.append(weights.encode(self.enc, net(self.arrays, i, j, rows)))
-
-    def edges(self) -> tuple[IntArray, IntArray, AnyArray]:
-        w = self.w
-        if not w:
-            return np.zeros(0, dtype=np.int64), np.zeros(0, dtype=np.int64), np.zeros(0, dtype=np.int64)
-        dtype = object if any(x.dtype == object for x in w) else np.int64
-        return np.concatenate(self.u), np.concatenate(self.v), np.concatenate([x.astype(dtype) for x in w])
 
 
 def net(arrays: Arrays, i: IntArray, j: IntArray, rows: IntArray) -> IntArray:
@@ -144,16 +91,29 @@ def shares(a: Arrays) -> dict[int, int]:
     }
 
 
-def _start(fld: Field, players: Sequence[PlayerId], no_bye: Collection[PlayerId], arrays: Arrays,
-           bound: candidates.Bound) -> tuple[scan.PairScan, scan.Stats, _Sparse, int] | None:
-    """The scan of the pairs within ``bound``, the first sparse graph and its bye edges' count.
+@dataclass(frozen=True)
+class Started:
+    """The scan of the pairs within a bound and the first sparse graph (:func:`start`)."""
+
+    pairscan: scan.PairScan
+    stats: scan.Stats
+    graph: sparse.SparseGraph
+    enc: weights.Encoder
+    """The weights of the pairs (:func:`weights.bounding` over the :func:`net` cost rows)."""
+    byes: int
+    """Bye edges within the bound (all of them in the sparse graph)."""
+
+    def pricing(self, dual: blossom.Dual) -> sparse.Priced:
+        """Every pruned player pair priced under ``dual`` by one walk of the scan."""
+        found = self.pairscan.check(self.enc, dual, sparse.SPARSE_ADD)
+        return sparse.Priced(found.i, found.j, found.count, found.tight_i, found.tight_j)
+
+
+def start(fld: Field, players: Sequence[PlayerId], no_bye: Collection[PlayerId], arrays: Arrays,
+          bound: candidates.Bound) -> Started | None:
+    """The scan of the pairs within ``bound`` and the first sparse graph (:mod:`sparse`, Notes).
 
     None when values go beyond the kernels' integers.
-
-    The first sparse graph: the bye edges, each player's compatible partners
-    near the rank-order ideal (:func:`candidates.ideal_partners`), each
-    player's heaviest pairs, and the bound's own pairing, if any (so that the
-    sparse graph has a full pairing).
     """
     n = arrays.n
     try:
@@ -166,62 +126,22 @@ def _start(fld: Field, players: Sequence[PlayerId], no_bye: Collection[PlayerId]
         bye_columns = [k for k in range(WIDTH) if stats.maxima[k] == 0]
         enc = weights.bounding(maxima, set(stats.gaps) | bye_gaps, n + n % 2, bye_gaps, bye_columns,
                                shares(arrays))
-        sparse = _Sparse(arrays, enc)
-        sparse.add(bu, bv, brows)
-        near = candidates.ideal_partners(arrays, candidates.SPARSE_CLASS, SPARSE_WIDE)
-        i, j, rows = candidates.admissible(arrays, *near, bound)
-        sparse.add(i, j, rows)
-        sparse.add(*pairscan.heaviest(enc, candidates.SPARSE_BEST))
+
+        def weigh(i: IntArray, j: IntArray, rows: IntArray | None = None) -> IntArray:
+            return weights.encode(enc, net(arrays, i, j, arrays.costs(i, j) if rows is None else rows))
+
+        graph = sparse.SparseGraph(n + n % 2, weigh)
+        graph.add(bu, bv, weigh(bu, bv, brows))
+        i, j, rows = candidates.admissible(arrays, *sparse.ideal_partners(arrays, sparse.SPARSE_CLASS,
+                                                                          sparse.SPARSE_WIDE), bound)
+        graph.add(i, j, weigh(i, j, rows))
+        graph.add(*pairscan.heaviest(enc, sparse.SPARSE_BEST))
     except ValueError:
         return None
     own = np.array(bound.pairs, dtype=np.int64).reshape(-1, 2)
     own = own[own[:, 1] < n]  # its bye edge is among the bye edges
-    sparse.add(own[:, 0], own[:, 1])  # within the bound by the bound's own argument
-    return pairscan, stats, sparse, len(bu)
-
-
-Certified = tuple[list[tuple[int, int]], blossom.Dual, int, scan.Checked]
-"""An optimum, its certified dual, the sparse solves made and the scan under that dual."""
-
-
-def _certified(sparse: _Sparse, pairscan: scan.PairScan) -> Certified | None:
-    """The sparse solve repeated until its dual holds on every pair of the scan.
-
-    None when no certificate is reached within ``SOLVES`` solves (or values leave the kernels' range).
-    """
-    last: tuple[list[tuple[int, int]], blossom.Dual] | None = None
-    for attempt in range(1, SOLVES + 1):
-        u, v, w = sparse.edges()
-        if last is None:
-            result = blossom.perfect_matching_arrays(sparse.n, u, v, w)
-        else:
-            result = blossom.perfect_matching_arrays(sparse.n, u, v, w, last[0], last[1])
-        if result is None:  # the sparse graph has no full pairing (possible within restricted limits)
-            return None
-        pairs, dual = last = result
-        try:
-            found = pairscan.check(sparse.enc, dual, candidates.SPARSE_ADD)
-        except ValueError:
-            return None
-        if found.count == 0 and certificate.certify(sparse.n, u, v, w, pairs, dual):
-            return pairs, dual, attempt, found
-        sparse.add(found.i, found.j)
-    return None
-
-
-def _canonical(sparse: _Sparse, checked: scan.Checked, pairs: list[tuple[int, int]], dual: blossom.Dual
-               ) -> list[tuple[int, int]]:
-    """The canonical optimum among the pruned pairs and bye edges tight under the certified ``dual``.
-
-    Every bye edge is in the sparse graph; the pruned player pairs outside it
-    are those the certifying scan found tight (``checked``).
-    """
-    u, v, w = sparse.edges()
-    keep = canonical.tight(u, v, w, dual)
-    keys = np.unique(np.concatenate([u[keep] * sparse.n + v[keep],
-                                     checked.tight_i * sparse.n + checked.tight_j]))
-    tu, tv = keys // sparse.n, keys % sparse.n
-    return canonical.canonical(sparse.n, tu, tv, canonical.depths(sparse.n, tu, tv, dual), pairs)
+    graph.add(own[:, 0], own[:, 1])  # within the bound by the bound's own argument
+    return Started(pairscan, stats, graph, enc, len(bu))
 
 
 def _proves_itself(fld: Field, players: Sequence[PlayerId], no_bye: Collection[PlayerId],
@@ -235,8 +155,8 @@ def _proves_itself(fld: Field, players: Sequence[PlayerId], no_bye: Collection[P
 
 
 def implicit_matching(fld: Field, players: Sequence[PlayerId], no_bye: Collection[PlayerId],
-                      bound: candidates.Bound) -> Solved | None:
-    """The optimal index pairs of ``players`` with their certificate route; None: use the listed path.
+                      bound: candidates.Bound, arrays: Arrays | None = None) -> sparse.Solved | None:
+    """The optimal index pairs of ``players`` with their certificate route; None: take the listed route.
 
     When ``bound`` (the greedy pairing's) is weak, tries the
     :func:`candidates.restricted` limits first (no avoidable hard-rule
@@ -245,23 +165,22 @@ def implicit_matching(fld: Field, players: Sequence[PlayerId], no_bye: Collectio
     optimum when the safe-pruning bound it proves itself
     (:func:`candidates.bound_of`) relaxes no hard rule and floats at most
     ``g`` units: every pair that bound keeps lies within the limits, where
-    nothing beats it.
+    nothing beats it. ``arrays`` are the players' (:class:`Arrays`), when the caller has them.
     """
-    arrays = Arrays(fld, players)
+    arrays = Arrays(fld, players) if arrays is None else arrays
     tries = [candidates.restricted(g) for g in RESTRICTED_GAPS if bound.max_gap is None or g < bound.max_gap]
     tries.append(bound)
     for limits in tries:
-        started = _start(fld, players, no_bye, arrays, limits)
+        started = start(fld, players, no_bye, arrays, limits)
         if started is None:
             continue
-        pairscan, stats, sparse, byes = started
-        found = _certified(sparse, pairscan)
+        found = sparse.certify(started.graph, started.pricing)
         if found is None:
             continue
-        pairs, dual, attempts, checked = found
-        if limits is not bound and not _proves_itself(fld, players, no_bye, pairs, limits.levels):
+        if limits is not bound and not _proves_itself(fld, players, no_bye, found.pairs, limits.levels):
             continue
-        pairs = _canonical(sparse, checked, pairs, dual)
-        route = candidates.Route(True, attempts, sum(len(x) for x in sparse.u), stats.count + byes)
-        return Solved(pairs, route, stats.count > 0 and stats.rematch_free == 0, limits)
+        pairs = sparse.canonical_optimum(started.graph, found)
+        stats = started.stats
+        route = sparse.Route("implicit", True, found.solves, started.graph.size(), stats.count + started.byes)
+        return sparse.Solved(pairs, route, stats.count > 0 and stats.rematch_free == 0, limits)
     return None

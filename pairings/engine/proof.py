@@ -14,8 +14,10 @@ code is:
 2. **A dual** (the producer: not trusted). The compiled blossom
    (:func:`blossom.perfect_matching_arrays`, warm-started from ``M``) solves a
    sparse graph of those pairs; pairs the dual violates are added until it
-   holds on all of them. Without the compiled kernels the pruned pairs are
-   listed and solved whole.
+   holds on all of them (the engine's own repeated solve,
+   :func:`pairings.engine.sparse.certify`, on the sparse graph
+   :func:`implicit.start` builds). Without the compiled kernels the pruned
+   pairs are listed and solved whole.
 3. **The check** (trusted, independent of the producer):
    :func:`certificate.check` verifies in numpy, on the sparse graph's edges
    (every bye edge among them), that the dual is feasible and that ``M``
@@ -39,14 +41,10 @@ from __future__ import annotations
 from dataclasses import dataclass
 from typing import Collection, Sequence
 
-from pairings.engine import blossom, candidates, certificate, implicit, weights
+from pairings.engine import blossom, candidates, certificate, implicit, sparse, weights
 from pairings.engine.criteria import Field
 from pairings.engine.vector import AnyArray, Arrays, IntArray
 from pairings.state import PlayerId
-
-SOLVES = 12
-"""Sparse solves before the proof gives up (the caller then re-solves with networkx)."""
-
 
 @dataclass(frozen=True)
 class Proof:
@@ -67,7 +65,7 @@ def prove(fld: Field, players: Sequence[PlayerId], no_bye: Collection[PlayerId],
     """Prove ``matched`` (index pairs of ``players`` in rank order, a full pairing) optimal, or not.
 
     None when no certificate is reached (values beyond the kernels' integers,
-    or no dual within ``SOLVES`` solves): the caller then re-solves.
+    or no dual within ``sparse.SOLVES`` solves): the caller then re-solves.
     """
     n = len(players)
     own = [(min(i, j), max(i, j)) for i, j in matched]
@@ -90,26 +88,16 @@ def _verdict(n: int, u: IntArray, v: IntArray, w: AnyArray, own: list[tuple[int,
 
 def _by_scan(fld: Field, players: Sequence[PlayerId], no_bye: Collection[PlayerId],
              own: list[tuple[int, int]], bound: candidates.Bound) -> Proof | None:
-    started = implicit._start(fld, players, no_bye, Arrays(fld, players), bound)
+    """Steps 2 and 3 with the compiled scan: the repeated sparse solve started from ``M`` (:mod:`sparse`)."""
+    started = implicit.start(fld, players, no_bye, Arrays(fld, players), bound)
     if started is None:
         return _listed(fld, players, no_bye, own, bound)
-    pairscan, stats, sparse, byes = started
-    warm: list[tuple[int, int]] = own
-    dual: blossom.Dual | None = None
-    for _ in range(SOLVES):
-        u, v, w = sparse.edges()
-        solved = blossom.perfect_matching_arrays(sparse.n, u, v, w, warm, dual)
-        if solved is None:
-            return None
-        warm, dual = solved
-        try:
-            i, j, count = pairscan.violated(sparse.enc, dual, candidates.SPARSE_ADD)
-        except ValueError:
-            return None
-        if count == 0:
-            return _verdict(sparse.n, u, v, w, own, warm, dual, stats.count + byes, "pair scan")
-        sparse.add(i, j)
-    return None
+    found = sparse.certify(started.graph, started.pricing, warm=own)
+    if found is None:
+        return None
+    u, v, w = started.graph.edges()
+    return _verdict(started.graph.n, u, v, w, own, found.pairs, found.dual, started.stats.count + started.byes,
+                    "pair scan")
 
 
 def _listed(fld: Field, players: Sequence[PlayerId], no_bye: Collection[PlayerId],

@@ -1,20 +1,21 @@
-"""The one module that talks to the external maximum-weight matching solvers.
+"""The independent reference solvers: maximum-weight matching by libraries outside the engine.
 
-The engine's own solve is its Edmonds blossom (:mod:`pairings.engine.blossom`,
-which also returns the dual its certificate needs). Two external solvers of
-the same problem (a maximum-weight matching among the matchings of maximum
-cardinality) are called from here only:
+The engine finds its optimum on its own (its Edmonds blossom,
+:mod:`pairings.engine.blossom`, on the route of :mod:`pairings.engine.route`)
+and never calls this module. The checks do, so that a result is confirmed by
+code that shares nothing with the engine's solve:
 
-- ``reference``: networkx ``max_weight_matching`` (pure Python, exact Python
-  integers of any size): the independent solver of ``draft_round(...,
-  reference=True)``, ``pairings verify --deep`` and the tests;
-- ``fast``: rustworkx ``max_weight_matching`` (compiled) when installed and
-  every weight fits its 128-bit signed integers (otherwise the reference):
-  the listed path's first sparse solve and fallback, the full graph when no
-  greedy pairing exists, and Berge's maximum cardinality in ``verify``.
+- :func:`reference_matching`: networkx ``max_weight_matching`` (pure Python,
+  exact Python integers of any size, a maximum-weight matching among those of
+  maximum cardinality) for ``draft_round(..., reference=True)``,
+  ``pairings verify --deep`` (and small fields) and the tests;
+- :func:`maximum_cardinality`: the size of a maximum matching, for Berge's
+  certificate in ``pairings verify``: rustworkx (compiled) when installed,
+  else networkx.
 
-networkx is imported on first use only, so that drafting a round does not pay
-for it. Vertices are ``0..n-1``; edges are ``(u, v, weight)`` with integer weights.
+Both libraries are imported on first use only, so that drafting a round does
+not pay for them. Vertices are ``0..n-1``; edges are ``(u, v, weight)`` with
+integer weights.
 
 References
 ----------
@@ -27,20 +28,9 @@ maximum if and only if it admits no augmenting path.
 
 from __future__ import annotations
 
-from typing import Any, Sequence
+from typing import Sequence
 
 Edge = tuple[int, int, int]
-_I128 = 2**127 - 1
-
-_rx: Any
-try:  # optional compiled back end
-    import rustworkx as _rx
-except ImportError:  # pragma: no cover - depends on the environment
-    _rx = None
-
-
-def fast_available() -> bool:
-    return _rx is not None
 
 
 def _normalise(pairs: object) -> list[tuple[int, int]]:
@@ -57,20 +47,16 @@ def reference_matching(n: int, edges: Sequence[Edge]) -> list[tuple[int, int]]:
     return _normalise(nx.max_weight_matching(g, maxcardinality=True))
 
 
-def matching(n: int, edges: Sequence[Edge]) -> list[tuple[int, int]]:
-    """Maximum-cardinality maximum-weight matching with the fastest exact back end."""
-    if _rx is None or not edges or max(w for _, _, w in edges) > _I128 // max(n, 1):
-        return reference_matching(n, edges)
-    g = _rx.PyGraph()
-    g.add_nodes_from(range(n))
-    g.add_edges_from(list(edges))
-    return _normalise(_rx.max_weight_matching(g, max_cardinality=True, weight_fn=lambda w: w))
-
-
 def maximum_cardinality(n: int, edges: Sequence[tuple[int, int]]) -> int:
-    """Size of a maximum matching (unit weights), for Berge's certificate."""
-    unit = [(u, v, 1) for u, v in edges]
-    return len(matching(n, unit))
+    """Size of a maximum matching (unit weights), for Berge's certificate: rustworkx if installed, else networkx."""
+    try:
+        import rustworkx as rx
+    except ImportError:  # the optional extra is not installed: the slower exact reference
+        return len(reference_matching(n, [(u, v, 1) for u, v in edges]))
+    g = rx.PyGraph()
+    g.add_nodes_from(range(n))
+    g.add_edges_from([(u, v, 1) for u, v in edges])
+    return len(rx.max_weight_matching(g, max_cardinality=True, weight_fn=lambda w: w))
 
 
 def matching_weight(edges: Sequence[Edge], pairs: Sequence[tuple[int, int]]) -> int:

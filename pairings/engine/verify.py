@@ -27,7 +27,7 @@ to the earlier rounds), so later rounds never change the verdict.
 
 from __future__ import annotations
 
-from dataclasses import dataclass, replace
+from dataclasses import replace
 from types import MappingProxyType
 from typing import Callable
 
@@ -35,32 +35,13 @@ from pairings.engine import proof
 from pairings.engine.criteria import Field
 from pairings.engine.draft import draft_round, rebuild
 from pairings.engine.explain import _overrides_of, compare
-from pairings.engine.types import Draft, DraftBoard, Overrides
+from pairings.engine.roundcheck import RoundCheck, stored_boards
+from pairings.engine.types import Draft, Overrides
 from pairings.errors import InputError, NoPairingError
 from pairings.state import ByeKind, EventState, PlayerId, Round, System
 
 DEEP_BELOW = 300
 """Fields smaller than this are also re-solved with networkx on the full graph (a few seconds at most)."""
-
-
-@dataclass(frozen=True)
-class RoundCheck:
-    round: int
-    breaches: tuple[str, ...]
-    notes: tuple[str, ...]
-    optimal: bool | None
-    """Engine rounds: True when the reference optimum has the same cost; None otherwise."""
-    certified: bool
-    """Berge: no augmenting path in the allowed graph."""
-
-    @property
-    def ok(self) -> bool:
-        return not self.breaches and self.optimal is not False
-
-    def lines(self) -> list[str]:
-        n = len(self.breaches)
-        head = f"round {self.round}: " + ("ok" if self.ok else f"{n} breach{'es' if n != 1 else ''}")
-        return [head, *(f"  breach: {b}" for b in self.breaches), *(f"  {n}" for n in self.notes)]
 
 
 def state_before(state: EventState, round_number: int) -> EventState:
@@ -182,7 +163,7 @@ def _optimum_confirmed(state: EventState, before: EventState, rnd: int, notes: l
     """The dual certificate's verdict, and networkx's when it runs (small fields, ``deep``, no certificate)."""
     stored = state.round(rnd)
     assert stored is not None
-    drafted = Draft(rnd, _as_boards(stored), stored.byes, MappingProxyType({}), "")
+    drafted = Draft(rnd, stored_boards(stored), stored.byes, MappingProxyType({}), "")
     ov = _overrides_of(before, drafted)
     pairs = [(b.first, b.second) for b in drafted.boards]
     bye = next((y.player for y in stored.byes if y.kind is ByeKind.PAIRING), None)
@@ -239,7 +220,3 @@ def _certificate(before: EventState, rnd: int, drafted: Draft, ov: Overrides, by
     notes.append(f"dual certificate ({where}) proves a cheaper pairing: stored round is "
                  f"{compare(best, mine).describe()}")
     return False, len(fld.order)
-
-
-def _as_boards(stored: Round) -> tuple[DraftBoard, ...]:
-    return tuple(DraftBoard(g.board, g.first, g.second, MappingProxyType({}), g.flags) for g in stored.games)

@@ -34,6 +34,8 @@ _PADDING = 0.8
 _PAPER = {"a4": "A4", "letter": "Letter"}
 _SLIP_NAME = 80
 """Characters of a name kept on a result slip; longer names end in an ellipsis."""
+_PLAYER_BY_PLAYER = ("crosstable", "grid")
+"""The sheets with a column per round or per player (text columns narrower, landscape when wide)."""
 
 
 @cache
@@ -88,7 +90,7 @@ class _Document(FPDF):
 def _table(pdf: _Document, table: Table, size: float) -> None:
     shown = table.printed_columns()
     kinds = [table.columns[i].kind for i in shown]
-    cross = pdf.sheet.kind in ("crosstable", "grid")
+    cross = pdf.sheet.kind in _PLAYER_BY_PLAYER
     empty = [all(row[i] in (None, "") for row in table.rows) for i in shown]
     # A text column left empty on every row (a note nobody needs) gives its width to the names.
     widths = [0.9 if k == "text" and blank else 1.3 if cross and k == "text" else _WEIGHT[k]
@@ -164,7 +166,7 @@ def _slips(pdf: _Document) -> None:
 
 def render_pdf(sheet: Sheet, now: datetime, paper: str = "a4") -> bytes:
     """The sheet as PDF bytes, on A4 or Letter (``paper``)."""
-    wide = sheet.kind in ("crosstable", "grid") and sum(len(t.columns) for t in sheet.tables) > 12
+    wide = sheet.kind in _PLAYER_BY_PLAYER and sum(len(t.columns) for t in sheet.tables) > 12
     pdf = _Document(sheet, landscape=wide, paper=paper)
     pdf.set_creation_date(now)
     pdf.alias_nb_pages()

@@ -10,7 +10,7 @@ the organiser was looking at, so a decision made on a stale screen is refused.
 
 from __future__ import annotations
 
-from typing import TYPE_CHECKING, Callable, Sequence
+from typing import Callable, Protocol, Sequence, runtime_checkable
 
 from rich.cells import cell_len
 from textual import events
@@ -24,12 +24,24 @@ from textual.widgets import Label
 
 from pairings.events import Event
 from pairings.state import EventState, Result
+from pairings.store import EventStore
+from pairings.tui.offload import Offload
 from pairings.tui.text import RESULT_WORDS, cell, round_status, short_result
 
-if TYPE_CHECKING:
-    from pairings.tui.app import DeskApp
-
 Action = Callable[[EventState], Sequence[Event]]
+
+
+@runtime_checkable
+class Desk(Protocol):
+    """What a place needs of the app it runs in (:class:`pairings.tui.app.DeskApp` is one)."""
+
+    store: EventStore
+    state: EventState
+    offload: Offload
+
+    def apply(self, action: Action, done: str, base: int) -> bool:
+        """Append what ``action`` returns, made on the state at head ``base``; False when refused."""
+        ...
 
 
 SHORT_LABELS = {
@@ -191,10 +203,8 @@ class Place(Screen[None]):
         """Head of the state on screen (-1: nothing shown yet)."""
 
     @property
-    def desk(self) -> "DeskApp":
-        from pairings.tui.app import DeskApp
-
-        assert isinstance(self.app, DeskApp)
+    def desk(self) -> Desk:
+        assert isinstance(self.app, Desk)
         return self.app
 
     @property

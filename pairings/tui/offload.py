@@ -5,7 +5,7 @@ compiled kernels (the blossom and the pair scan) let go of the interpreter
 lock while they run, but the Python around them (the field, the bounds, sides,
 boards, explanations) and the printouts hold it, so in a worker thread a
 large job still takes turns with the screen and keys wait.
-From :data:`PROCESS_FROM` players on, :class:`Offload` therefore runs the job
+From :data:`PROCESS_FROM` registered players on, :class:`Offload` therefore runs the job
 in a child process (a fresh interpreter running :func:`main`): the child gets the
 event file's path and the job on its standard input, opens the file itself,
 folds the log up to the job's head (the very state the organiser decided on,

@@ -20,7 +20,7 @@ from hypothesis import strategies as st
 
 from tests.engine.engine_support import (Edges, assert_optimal_dual, checked_perfect, columns, networkx_perfect,
                                          weight)
-from pairings.engine import blossom, candidates, certificate
+from pairings.engine import blossom, candidates, certificate, sparse
 from pairings.engine.blossom import Dual, perfect_matching, perfect_matching_arrays
 from pairings.engine.criteria import Field
 from pairings.engine.weights import weight_array
@@ -88,7 +88,7 @@ def test_kernel_equals_networkx_and_its_dual_certifies(seed: int) -> None:
 @settings(max_examples=200, deadline=None, suppress_health_check=[HealthCheck.too_slow])
 @given(st.integers(0, 10**9))
 def test_carried_dual_and_previous_pairs_as_warm_start(seed: int) -> None:
-    # As candidates.certified_matching does: solve a subset, then all edges from that dual and matching.
+    # As sparse.certify does: solve a subset, then more edges from that dual and matching.
     rng = random.Random(seed)
     n, edges, _ = random_graph(seed)
     chosen = networkx_perfect(n, edges)
@@ -177,7 +177,7 @@ def test_python_only_fixture_switches_the_kernel_off(python_only: None) -> None:
 
 
 def engine_sparse(n: int, seed: int) -> tuple[int, Any, Any, Any, Any] | None:
-    """The engine's pruned graph and its first sparse mask, as candidates.certified_matching builds them."""
+    """The engine's pruned graph and a sparse mask of it: the pairs near the rank-order ideal and the heaviest."""
     state = fold(enumerate(simulate_events(n, 9, 4, seed, withdrawals=0.02, requested_byes=0.03), 1))
     rnd = state.next_round_number
     fld = Field(state, rnd, state.available(rnd))
@@ -188,8 +188,8 @@ def engine_sparse(n: int, seed: int) -> tuple[int, Any, Any, Any, Any] | None:
     rank = pr.costs[:, candidates.RANK_INDEX]
     split = certificate.limbs(w)
     score = w if split is None or w.dtype != object else split[0] * 2.0**certificate.SHIFT + split[1]
-    mask = (rank <= candidates.SPARSE_WINDOW) | candidates.seed_mask(pr) | candidates._best_per_vertex(
-        pr.u, pr.v, score, np.ones(len(pr.u), dtype=bool), candidates.SPARSE_BEST)
+    mask = (rank <= 3) | sparse.best_per_vertex(pr.u, pr.v, score, np.ones(len(pr.u), dtype=bool),
+                                                sparse.SPARSE_BEST)
     return pr.n, pr.u, pr.v, w, mask
 
 

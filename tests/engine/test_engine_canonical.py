@@ -11,14 +11,14 @@ byes), boards, sides, board numbers and byes compared.
 from __future__ import annotations
 
 import random
-from typing import Iterator, Sequence
+from typing import Any, Iterator, Sequence
 
 import numpy as np
 import pytest
 
 from tests.engine.engine_support import announce, new_event, play, random_history, state_of
 from pairings import events as ev
-from pairings.engine import blossom, canonical, draft_round, solver
+from pairings.engine import blossom, canonical, draft_round, implicit, route
 from pairings.engine.berger import berger_rounds
 from pairings.engine.criteria import Field
 from pairings.engine.types import CRITERIA, Draft
@@ -217,25 +217,36 @@ def _drawn(draft: Draft) -> tuple[object, ...]:
 FIELDS = 300
 
 
-def test_every_route_drafts_the_same_round(monkeypatch: pytest.MonkeyPatch) -> None:
-    # The whole engine (draft_round) with the compiled kernels and rustworkx, then with the pure-Python
-    # blossom, no scan kernel (the listed path) and networkx: identical boards, sides, numbers and byes.
+def _draft_or_none(state: EventState) -> tuple[object, ...] | None:
+    try:
+        return _drawn(draft_round(state))
+    except NoPairingError:
+        return None
+
+
+@pytest.mark.skipif(not implicit.available(), reason="compiled kernels not built")
+def test_both_routes_draft_the_same_round(monkeypatch: pytest.MonkeyPatch) -> None:
+    # The whole engine (draft_round) on the implicit route (compiled scan and blossom), then on the
+    # listed route with the compiled blossom, then with its pure-Python twin: identical boards, sides,
+    # numbers and byes (the canonical tie-break among equal-cost optima, canonical.py).
     logs = [*_swiss_fields(FIELDS - 60), *_round_robin_fields(60)]
-    drafted: list[tuple[EventState, tuple[object, ...] | None]] = []
-    for log in logs:
-        state = fold(enumerate(log, 1))
-        try:
-            drafted.append((state, _drawn(draft_round(state))))
-        except NoPairingError:
-            drafted.append((state, None))
-    monkeypatch.setattr(blossom, "USE_COMPILED", False)
-    monkeypatch.setattr(solver, "_rx", None)
-    compared = 0
-    for state, fast in drafted:
-        try:
-            slow = _drawn(draft_round(state))
-        except NoPairingError:
-            slow = None
-        assert slow == fast
-        compared += fast is not None
-    assert compared >= 280
+    states = [fold(enumerate(log, 1)) for log in logs]
+    taken: list[str] = []
+    choose = implicit.implicit_matching
+
+    def implicit_seen(*args: Any) -> Any:
+        found = choose(*args)
+        taken.append("implicit" if found is not None else "listed")
+        return found
+
+    monkeypatch.setattr(implicit, "implicit_matching", implicit_seen)
+    drafted = [(state, _draft_or_none(state)) for state in states]
+    assert taken.count("implicit") >= 200, f"{taken.count('implicit')} of {len(taken)} on the implicit route"
+    monkeypatch.setattr(route, "USE_IMPLICIT", False)
+    for python_blossom in (False, True):
+        monkeypatch.setattr(blossom, "USE_COMPILED", not python_blossom)
+        compared = 0
+        for state, fast in drafted:
+            assert _draft_or_none(state) == fast
+            compared += fast is not None
+        assert compared >= 280

@@ -17,7 +17,7 @@ from hypothesis import strategies as st
 from tests.engine.engine_support import (
     Edges, checked_perfect, columns, networkx_perfect, random_history, state_of, weight,
 )
-from pairings.engine import candidates, draft_round, implicit, solver
+from pairings.engine import candidates, draft_round, listed, route, solver, sparse
 from pairings.engine.blossom import Dual, perfect_matching
 from pairings.engine.certificate import certify, reduced_costs
 from pairings.engine.criteria import Field
@@ -121,23 +121,21 @@ def test_vector_costs_equal_field_pair(n: int, played: int, seed: int, rough: bo
                          [*fields(100, 5), *(pytest.param(*f, marks=pytest.mark.full) for f in fields(20, 6, 150, 300))])
 def test_certified_path_equals_full_graph_path(n: int, played: int, seed: int, rough: bool) -> None:
     fld, order = field_of(n, played, seed, rough)
-    pr = candidates.pruned_edges(fld, order, ())
-    if pr is None or len(order) < 2:
+    bound = candidates.greedy_bound(fld, order, ())
+    if bound is None or len(order) < 2:
         return
+    pr = candidates.pruned_edges(fld, order, (), bound)
+    assert pr is not None
     w = weight_array(pr.costs, pr.n)
     enc = encoder([tuple(r) for r in pr.costs.tolist()], pr.n)  # once: it reads every row
     assert w.tolist() == [enc.weight(tuple(r)) for r in pr.costs.tolist()]
-    pairs, route, _ = candidates.certified_matching(pr.n, pr.u, pr.v, w, pr.costs[:, candidates.RANK_INDEX])
+    solved = listed.listed_matching(fld, order, (), bound)
     edges = list(zip(pr.u.tolist(), pr.v.tolist(), w.tolist()))
-    full = solver.matching(pr.n, edges)
-    if 2 * len(full) < pr.n:
-        return  # no perfect matching: the engine reports NoPairingError either way
-    assert weight(edges, pairs) == weight(edges, full)
-    if route.certified:
-        assert route.sparse_edges <= len(edges)
-    seeded, _, _ = candidates.certified_matching(pr.n, pr.u, pr.v, w, pr.costs[:, candidates.RANK_INDEX],
-                                                 seed=candidates.seed_mask(pr))
-    assert weight(edges, seeded) == weight(edges, full)
+    full = networkx_perfect(pr.n, edges)  # networkx as independent solver on every pruned pair
+    assert full is not None  # the greedy pairing is a full pairing of the pruned pairs
+    assert weight(edges, solved.pairs) == weight(edges, full)
+    if solved.route.certified:
+        assert solved.route.sparse_edges <= len(edges)
 
 
 def simulated_pruned(n: int, seed: int) -> tuple[EventState, Field, list[str], candidates.Pruned, Any]:
@@ -152,37 +150,43 @@ def simulated_pruned(n: int, seed: int) -> tuple[EventState, Field, list[str], c
 
 
 def test_fallback_engages_and_stays_exact(monkeypatch: pytest.MonkeyPatch) -> None:
-    # One sparse round only on a 160-player field whose first sparse optimum fails the
-    # certificate: the compiled solver on every pruned edge must take over, same cost vector.
-    # (300 players show the same; the networkx reference draft costs five times as much there.)
-    state, fld, order, pr, w = simulated_pruned(160, 2)
-    rank = pr.costs[:, candidates.RANK_INDEX]
-    _, first, _ = candidates.certified_matching(pr.n, pr.u, pr.v, w, rank)
-    assert first.certified and first.rounds > 1  # the first sparse solve alone was not optimal
-    _, route, _ = candidates.certified_matching(pr.n, pr.u, pr.v, w, rank, rounds=1)
-    assert not route.certified
-    monkeypatch.setattr(candidates, "SPARSE_ROUNDS", 1)
-    monkeypatch.setattr(implicit, "available", lambda: False)  # the listed path (implicit: its own test)
-    # Without the side-class seed edges, which make this field certify in one round.
-    monkeypatch.setattr(candidates, "seed_mask", lambda pr: np.zeros(len(pr.u), dtype=bool))
-    monkeypatch.setattr(candidates.certified_matching, "__defaults__", (candidates.SPARSE_WINDOW, 1))
-    _, used, _ = candidates.engine_matching(fld, order, ())
-    assert used is not None and not used.certified
+    # Without the side-class seed and with one heaviest pair per player, the first sparse optimum
+    # of a 160-player field fails the certificate; with one solve only, the blossom on every
+    # listed pair must take over, same cost vector.
+    state, fld, order, _, _ = simulated_pruned(160, 2)
+    monkeypatch.setattr(sparse, "ideal_partners", lambda a, near=0, wide=0: (a.units[:0], a.units[:0]))
+    monkeypatch.setattr(sparse, "SPARSE_BEST", 1)
+    bound = candidates.greedy_bound(fld, order, ())
+    assert bound is not None
+    first = listed.listed_matching(fld, order, (), bound)
+    assert first.route.certified and first.route.rounds > 1  # the first sparse solve alone was not optimal
+    monkeypatch.setattr(sparse, "SOLVES", 1)
+    monkeypatch.setattr(route, "USE_IMPLICIT", False)  # the listed route (implicit: its own test)
+    again, used, _ = route.engine_matching(fld, order, ())
+    assert used is not None and used.path == "listed" and not used.certified
+    assert again == first.pairs  # the same canonical optimum
     assert draft_round(state).key() == draft_round(state, reference=True).key()
 
 
 @pytest.mark.full
 @pytest.mark.parametrize("seed", range(3))
 def test_certified_path_at_1000(seed: int) -> None:
-    _, _, _, pr, w = simulated_pruned(1000, seed)
-    pairs, route, _ = candidates.certified_matching(pr.n, pr.u, pr.v, w, pr.costs[:, candidates.RANK_INDEX])
+    rx = pytest.importorskip("rustworkx")  # rustworkx as independent (compiled) solver
+    _, fld, order, pr, w = simulated_pruned(1000, seed)
+    bound = candidates.greedy_bound(fld, order, ())
+    assert bound is not None
+    solved = listed.listed_matching(fld, order, (), bound)
     edges = list(zip(pr.u.tolist(), pr.v.tolist(), w.tolist()))
-    assert route.certified
-    assert weight(edges, pairs) == weight(edges, solver.matching(pr.n, edges))
+    assert solved.route.certified
+    g = rx.PyGraph()
+    g.add_nodes_from(range(pr.n))
+    g.add_edges_from(edges)
+    full = rx.max_weight_matching(g, max_cardinality=True, weight_fn=lambda x: x)
+    assert weight(edges, solved.pairs) == weight(edges, list(full))
 
 
 def ideal_partners_by_hand(a: Arrays, near: int, wide: int) -> set[tuple[int, int]]:
-    """Brute force, player by player, of the rule in candidates.ideal_partners' docstring."""
+    """Brute force, player by player, of the rule in sparse.ideal_partners' docstring."""
     out = set()
     n = a.n
     for i in range(n):
@@ -208,7 +212,7 @@ def test_ideal_partners_equal_brute_force(n: int, played: int, seed: int, rough:
     fld, order = field_of(n, played, seed, rough)
     a = Arrays(fld, order)
     for near, wide in ((1, 1), (2, 2), (4, 4), (1, 3), (2, 7)):
-        i, j = candidates.ideal_partners(a, near, wide)
+        i, j = sparse.ideal_partners(a, near, wide)
         assert set(zip(i.tolist(), j.tolist())) == ideal_partners_by_hand(a, near, wide)
 
 
@@ -234,3 +238,53 @@ def test_reduced_costs_equal_python_integers(seed: int, top: int) -> None:
     for (a, b, wt), rc in zip(edges, got):
         exact = y2[a] + y2[b] - 2 * wt + 2 * sum(z for m, z in blossoms if a in m and b in m)
         assert rc == max(-2**62, min(2**62, exact))
+
+
+def greedy_pair_by_pair(fld: Field, order: list[str]) -> tuple[list[tuple[int, ...]], list[tuple[int, int]]] | None:
+    """candidates.greedy's rule, read from its docstring, with Field.pair one pair at a time."""
+    index = {p: k for k, p in enumerate(order)}
+    free = list(order)
+    out: list[tuple[int, ...]] = []
+    pairs: list[tuple[int, int]] = []
+    if len(free) % 2:
+        bye = min(reversed(free), key=lambda p: (not fld.forced(p), fld.bye(p)))
+        out.append(fld.bye(bye))
+        pairs.append((index[bye], len(order)))
+        free.remove(bye)
+    while free:
+        p = free.pop(0)
+        found = None
+        for scope in (free[:candidates.GREEDY_WINDOW], free):
+            costs = [(fld.pair(p, q)[1], k) for k, q in enumerate(scope) if not fld.forbidden(p, q)]
+            found = min(costs) if costs else None
+            if found is not None and not any(found[0][:candidates.HARD]):
+                break
+        if found is None:
+            return None
+        out.append(found[0])
+        pairs.append((index[p], index[free.pop(found[1])]))
+    return out, pairs
+
+
+@pytest.mark.parametrize("window", [candidates.GREEDY_WINDOW, 3])
+@pytest.mark.parametrize(("n", "played", "seed", "rough"), [*fields(30, 13, 2, 400), *fields(15, 14)])
+def test_greedy_equals_pair_by_pair(n: int, played: int, seed: int, rough: bool, window: int,
+                                    monkeypatch: pytest.MonkeyPatch) -> None:
+    # A window of 3 also takes the costs of pairs beyond the ones costed in bulk (candidates._Ahead).
+    monkeypatch.setattr(candidates, "GREEDY_WINDOW", window)
+    fld, order = field_of(n, played, seed, rough)
+    assert candidates.greedy(fld, order, ()) == greedy_pair_by_pair(fld, order)
+
+
+@pytest.mark.parametrize("seed", range(40))
+def test_most_paired_is_a_maximum_matching(seed: int) -> None:
+    # networkx's maximum-cardinality matching as the independent reference for its size.
+    rng = random.Random(seed)
+    n = rng.choice([2, 5, 8, 11, 16])
+    p = rng.choice([0.1, 0.25, 0.5])
+    edges = [(i, j) for i in range(n) for j in range(i + 1, n) if rng.random() < p]
+    u = np.array([i for i, _ in edges], dtype=np.int64)
+    v = np.array([j for _, j in edges], dtype=np.int64)
+    pairs = route.most_paired(n, u, v)
+    assert set(pairs) <= set(edges) and len({x for pair in pairs for x in pair}) == 2 * len(pairs)
+    assert len(pairs) == len(solver.reference_matching(n, [(i, j, 1) for i, j in edges]))

@@ -13,7 +13,7 @@ import pytest
 
 from tests.engine.engine_support import random_history, state_of
 from tests.engine.test_engine_certified import field_of, fields
-from pairings.engine import candidates, draft_round, implicit
+from pairings.engine import candidates, draft_round, implicit, route, sparse
 from pairings.engine.criteria import Field
 from pairings.errors import NoPairingError
 from pairings.fold import fold
@@ -24,7 +24,7 @@ pytestmark = pytest.mark.skipif(not implicit.available(), reason="compiled kerne
 
 
 def _listed(monkeypatch: pytest.MonkeyPatch) -> None:
-    monkeypatch.setattr(implicit, "available", lambda: False)
+    monkeypatch.setattr(route, "USE_IMPLICIT", False)
 
 
 @pytest.mark.parametrize(("n", "played", "seed", "rough"), fields(120, 11, 2, 90))
@@ -74,8 +74,8 @@ def test_violated_pairs_are_added_until_the_certificate_holds(monkeypatch: pytes
     # 160 players; 400 gave 7, at 14 times the reference's cost).
     state = fold(enumerate(simulate_events(160, 9, 4, 5), 1))
     reference = draft_round(state, reference=True).key()
-    monkeypatch.setattr(candidates, "ideal_partners", lambda a, near=0, wide=0: (a.units[:0], a.units[:0]))
-    monkeypatch.setattr(candidates, "SPARSE_BEST", 1)
+    monkeypatch.setattr(sparse, "ideal_partners", lambda a, near=0, wide=0: (a.units[:0], a.units[:0]))
+    monkeypatch.setattr(sparse, "SPARSE_BEST", 1)
     rnd = state.next_round_number
     fld = Field(state, rnd, state.available(rnd))
     order = list(fld.order)
@@ -85,7 +85,7 @@ def test_violated_pairs_are_added_until_the_certificate_holds(monkeypatch: pytes
     assert solved is not None and solved.route.certified and solved.route.rounds > 1
     assert draft_round(state).key() == reference
     # One round only: no certificate, so the engine falls back to the listed path, still exact.
-    monkeypatch.setattr(implicit, "SOLVES", 1)
+    monkeypatch.setattr(sparse, "SOLVES", 1)
     assert implicit.implicit_matching(fld, order, (), bound) is None
     assert draft_round(state).key() == reference
 

@@ -159,3 +159,23 @@ def test_round_robin_from_the_berger_tables() -> None:
         play(log, draft, rng)
         assert verify_round(state_of(log), r).ok
     assert len(met) == 10  # every pair of 5 met once (FIDE C.05 Annex 1)
+
+
+def test_without_a_greedy_pairing_the_full_graph_is_solved() -> None:
+    # Four players, rank order p1..p4 (ratings). The greedy pairing gives p1 the first of its
+    # equally cheap partners, p2, and p3-p4 is forbidden: no greedy pairing, but p1-p4 and p2-p3
+    # pair everyone (worked by hand), as networkx on the full graph confirms.
+    state = state_of(new_event([2400, 2300, 2200, 2100]))
+    ov = Overrides(forbidden=(("p00003", "p00004"), ("p00001", "p00003")))
+    draft = draft_round(state, ov)
+    assert {frozenset((b.first, b.second)) for b in draft.boards} == \
+        {frozenset(("p00001", "p00004")), frozenset(("p00002", "p00003"))}
+    assert draft_round(state, ov, reference=True).key() == draft.key()
+
+
+def test_a_player_without_a_legal_partner_is_named() -> None:
+    # p1 may meet nobody: a maximum matching (route.most_paired) leaves p1 and one other unpaired.
+    state = state_of(new_event([2400, 2300, 2200, 2100]))
+    ov = Overrides(forbidden=(("p00001", "p00002"), ("p00001", "p00003"), ("p00001", "p00004")))
+    with pytest.raises(NoPairingError, match="no pairing gives Player 00001, Player 0000[234] an opponent"):
+        draft_round(state, ov)

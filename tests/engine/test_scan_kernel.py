@@ -1,7 +1,7 @@
 """The compiled pair scan against the numpy path it replaces.
 
 Reference: the materialised pruned graph (candidates.pruned_edges, less its bye
-edges), weights.weight_array, candidates._best_per_vertex, and reduced costs in
+edges), weights.weight_array, sparse.best_per_vertex, and reduced costs in
 Python integers (checked against certificate.reduced_costs where they are not
 clipped). Duals come from blossom.perfect_matching on a sparse subgraph, so real
 nested blossoms appear, and from random laminar families.
@@ -17,7 +17,7 @@ import numpy as np
 import pytest
 
 from tests.engine.engine_support import random_history, state_of
-from pairings.engine import candidates, certificate, implicit, scan, weights
+from pairings.engine import candidates, certificate, implicit, scan, sparse, weights
 from pairings.engine.blossom import Dual, perfect_matching
 from pairings.engine.criteria import Field
 from pairings.engine.vector import WIDTH, Arrays
@@ -110,7 +110,7 @@ def check_heaviest(c: Case, k: int) -> None:
         return
     i, j = c.scan.heaviest(c.enc, k)
     assert list(zip(i.tolist(), j.tolist())) == \
-        pairs_of(c.u, c.v, candidates._best_per_vertex(c.u, c.v, c.w, np.ones(len(c.u), dtype=bool), k))
+        pairs_of(c.u, c.v, sparse.best_per_vertex(c.u, c.v, c.w, np.ones(len(c.u), dtype=bool), k))
     # The encoder's weight is the one weight_array gives (the reference's scores).
     some = range(0, len(c.u), max(1, len(c.u) // 50))
     assert [c.enc.weight(tuple(c.costs[x].tolist())) for x in some] == [int(c.w[x]) for x in some]
@@ -125,7 +125,7 @@ def check_violated(c: Case, dual: Dual, k: int) -> None:
     bad = np.array([x < 0 for x in rc.tolist()], dtype=bool)
     i, j, count = c.scan.violated(c.enc, dual, k)
     assert count == int(bad.sum())
-    assert list(zip(i.tolist(), j.tolist())) == pairs_of(c.u, c.v, candidates._best_per_vertex(c.u, c.v, -rc, bad, k))
+    assert list(zip(i.tolist(), j.tolist())) == pairs_of(c.u, c.v, sparse.best_per_vertex(c.u, c.v, -rc, bad, k))
     # The same walk's tight pairs (canonical.py reads them): exactly the rows with a zero reduced cost.
     found = c.scan.check(c.enc, dual, k)
     zero = np.array([x == 0 for x in rc.tolist()], dtype=bool)
@@ -136,15 +136,15 @@ def sparse_dual(c: Case) -> Dual | None:
     """The dual of blossom.perfect_matching on the engine's first sparse subgraph."""
     pr = c.pruned
     w = weights.weight_array(pr.costs, pr.n)
-    mask = (pr.costs[:, candidates.RANK_INDEX] <= candidates.SPARSE_WINDOW) | candidates.seed_mask(pr)
+    rank = pr.costs[:, candidates.RANK_INDEX]
+    mask = rank <= 3
     for _ in range(4):
-        # No warm start: the dual is optimal without one, and weights beyond rustworkx's integers would
-        # send a warm-start solve to networkx (seconds at 1,000 players).
         idx = np.flatnonzero(mask)
-        result = perfect_matching(pr.n, list(zip(pr.u[idx].tolist(), pr.v[idx].tolist(), w[idx].tolist())))
+        sub = list(zip(pr.u[idx].tolist(), pr.v[idx].tolist(), w[idx].tolist()))
+        result = perfect_matching(pr.n, sub)
         if result is not None:
             return result[1]
-        mask |= pr.costs[:, candidates.RANK_INDEX] <= 4 * candidates.SPARSE_WINDOW
+        mask |= rank <= 12
         mask[::2] = True
     return None
 

@@ -32,7 +32,7 @@ from dataclasses import dataclass, replace
 from typing import Iterable, Mapping, Sequence
 
 from pairings.engine.criteria import Field
-from pairings.engine.draft import assemble
+from pairings.engine.boards import assemble
 from pairings.engine.dutch.bracket import BracketSolver, completable
 from pairings.engine.dutch.colours import Colours, allocate, breaks, missed
 from pairings.engine.dutch.criteria import Bracket, Costs

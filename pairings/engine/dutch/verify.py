@@ -28,7 +28,7 @@ from pairings.engine.dutch.rounds import draft_dutch
 from pairings.engine.explain import _overrides_of
 from pairings.engine.solver import maximum_cardinality
 from pairings.engine.types import Draft
-from pairings.engine.verify import RoundCheck, _as_boards
+from pairings.engine.roundcheck import RoundCheck, stored_boards
 from pairings.errors import NoPairingError
 from pairings.state import ByeKind, EventState, PlayerId
 
@@ -82,7 +82,7 @@ def _complete(ent: Entrants, made: int, notes: list[str]) -> bool:
 def _first_best(state: EventState, before: EventState, rnd: int, notes: list[str]) -> bool:
     stored = state.round(rnd)
     assert stored is not None
-    shown = Draft(rnd, _as_boards(stored), stored.byes, MappingProxyType({}), "")
+    shown = Draft(rnd, stored_boards(stored), stored.byes, MappingProxyType({}), "")
     try:
         again = draft_dutch(before, _overrides_of(before, shown))
     except NoPairingError as e:
