@@ -20,7 +20,7 @@ from __future__ import annotations
 from typing import Iterable, Sequence
 
 from pairings.engine import berger, candidates
-from pairings.engine.criteria import Field
+from pairings.engine.criteria import GAP, Field
 from pairings.engine.types import (
     CRITERIA, ENGINE_VERSION, Draft, DraftBoard, Overrides, cost_map, total_cost,
 )
@@ -80,7 +80,7 @@ def assemble(state: EventState, fld: Field, pairs: Sequence[tuple[Pair | None, P
             flags += ("changed",)
         boards.append(DraftBoard(number, sides[0], sides[1], cost_map(cost), flags))
         costs.append(cost_map(cost))
-        gaps.append(cost[3])
+        gaps.append(cost[GAP])
     byes: list[Bye] = []
     bye_cost = cost_map((0,) * len(CRITERIA))
     if bye is not None:
