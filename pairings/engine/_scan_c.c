@@ -13,8 +13,11 @@
  * The blossom sum is P[lca(owner[i], owner[j])] in the laminar blossom tree (Euler tour plus a
  * sparse table of depth minima: constant time per pair). Exact integers: int32 cost columns,
  * __int128 place values, weights, duals and reduced costs (the Python wrapper bounds them).
- * The order of the cost columns is not fixed here: prepare takes each criterion's column (the layout of
- * pairings.costs, whose names are ROLE_NAMES below), so the one table there decides the priority order.
+ * The priority order of the criteria is not fixed here: prepare takes each criterion's column in the
+ * cost row (the layout of pairings.costs, for the names ROLE_NAMES below). A pair's row is built in the
+ * kernel's own order (the roles, then zeros for the pairing bye's own criteria), so costing and weighing
+ * read fixed places; only the bound test walks the row in the table's order (slot), and the column
+ * maxima go back in it.
  * Two threads take interleaved blocks of rows; per-vertex lists are merged under the total order
  * (key, i, j), so the answer does not depend on the threads.
  */
@@ -68,9 +71,9 @@ typedef struct {
     int64_t *forbid;
     Py_ssize_t nforbid;
     int64_t levels;    /* greedy pairing's largest gap (the bound's gap levels) */
-    int width;         /* cost columns */
-    int col[ROLES];    /* each criterion's column */
-    int pref[4];       /* the column of a missed preference by strength (1..3) */
+    int width;               /* cost columns */
+    int col[ROLES];          /* each role's column in the table's order */
+    int8_t slot[MAX_WIDTH];  /* per table column: its place in the kernel's row (a role, or a zero slot) */
     int64_t *bound;    /* expanded bound, levels + width - 1 entries */
     int8_t *gapcmp;    /* per gap 0..levels: -1 below the bound, +1 above, 0 equal over the gap columns */
     int64_t span;      /* units[0] - units[n - 1] */
@@ -98,8 +101,9 @@ typedef struct {
     int mode;
     int part, parts;
     int k;
-    /* weights */
-    const i128 *place;
+    /* weights: the encoder's place values by place in the row (score_gap's 0) and by score gap (spread) */
+    const i128 *cplace;
+    const i128 *gplace;
     int64_t elevels;
     i128 top;
     /* reduced costs */
@@ -180,11 +184,11 @@ static inline int first_of(const Scan *s, int64_t i, int64_t j) {
     return i_wins == (a->want == FIRST);
 }
 
-/* Cost row of pair i < j, as vector.Arrays.costs (the rematch flag is given). */
+/* Cost row of pair i < j, as vector.Arrays.costs, in the kernel's order (the rematch flag is given). */
 static inline void cost_row(const Scan *s, int64_t i, int64_t j, int rematch, int32_t *c) {
     const Player *a = &s->p[i], *b = &s->p[j];
-    memset(c, 0, sizeof(int32_t) * s->width);
-    c[s->col[ROLE_REMATCH]] = rematch;
+    memset(c, 0, sizeof(int32_t) * MAX_WIDTH);
+    c[ROLE_REMATCH] = rematch;
     if (s->sides && (a->want != 0 || b->want != 0)) {
         const Player *f, *g;
         if (first_of(s, i, j)) {
@@ -194,40 +198,44 @@ static inline void cost_row(const Scan *s, int64_t i, int64_t j, int rematch, in
             f = b;
             g = a;
         }
-        c[s->col[ROLE_SIDE_RULE]] = f->breaks_first + g->breaks_second;
+        c[ROLE_SIDE_RULE] = f->breaks_first + g->breaks_second;
         if (f->miss_first)
-            c[s->pref[f->miss_first]] += 1;
+            c[ROLE_PREF_MILD - 1 + f->miss_first] += 1;
         if (g->miss_second)
-            c[s->pref[g->miss_second]] += 1;
+            c[ROLE_PREF_MILD - 1 + g->miss_second] += 1;
     }
     int32_t gap = a->units - b->units;
-    c[s->col[ROLE_SCORE_GAP]] = gap;
+    c[ROLE_SCORE_GAP] = gap;
     if (gap > 0) {
-        c[s->col[ROLE_FLOAT_REPEAT]] = a->down1 + b->up1;
-        c[s->col[ROLE_FLOAT_REPEAT_2]] = a->down2 + b->up2;
-        c[s->col[ROLE_RANK_ORDER]] = b->grank + (a->gsize - 1 - a->grank);
+        c[ROLE_FLOAT_REPEAT] = a->down1 + b->up1;
+        c[ROLE_FLOAT_REPEAT_2] = a->down2 + b->up2;
+        c[ROLE_RANK_ORDER] = b->grank + (a->gsize - 1 - a->grank);
     } else {
         int32_t d = b->grank - a->grank - a->gsize / 2;
-        c[s->col[ROLE_RANK_ORDER]] = d < 0 ? -d : d;
+        c[ROLE_RANK_ORDER] = d < 0 ? -d : d;
     }
 }
 
-/* candidates._not_above: the expanded row is lexicographically <= the bound. */
+/* candidates._not_above: the expanded row, walked in the table's order, is lexicographically <= the bound. */
 static inline int not_above(const Scan *s, const int32_t *c) {
     const int64_t *b = s->bound;
     const int gi = s->col[ROLE_SCORE_GAP];
-    for (int k = 0; k < gi; k++)
-        if (c[k] != b[k])
-            return c[k] < b[k];
-    if (c[gi] > s->levels)
+    for (int k = 0; k < gi; k++) {
+        int32_t v = c[s->slot[k]];
+        if (v != b[k])
+            return v < b[k];
+    }
+    if (c[ROLE_SCORE_GAP] > s->levels)
         return 0;
-    int8_t r = s->gapcmp[c[gi]];
+    int8_t r = s->gapcmp[c[ROLE_SCORE_GAP]];
     if (r)
         return r < 0;
     const int64_t after = s->levels - 1; /* column k > gi sits at expanded position k - 1 + levels */
-    for (int k = gi + 1; k < s->width; k++)
-        if (c[k] != b[after + k])
-            return c[k] < b[after + k];
+    for (int k = gi + 1; k < s->width; k++) {
+        int32_t v = c[s->slot[k]];
+        if (v != b[after + k])
+            return v < b[after + k];
+    }
     return 1;
 }
 
@@ -237,8 +245,7 @@ static inline int not_above(const Scan *s, const int32_t *c) {
 static inline int admitted(const Scan *s, int64_t i, int64_t j, int32_t *c) {
     if (s->sides) {
         const Player *a = &s->p[i], *b = &s->p[j];
-        c[s->col[ROLE_SIDE_RULE]] -=
-            (a->breaks_first & a->breaks_second) + (b->breaks_first & b->breaks_second);
+        c[ROLE_SIDE_RULE] -= (a->breaks_first & a->breaks_second) + (b->breaks_first & b->breaks_second);
     }
     return not_above(s, c);
 }
@@ -280,24 +287,21 @@ static void keep_tight(Work *w, int64_t key) {
 }
 
 static inline i128 encoded(Work *w, const int32_t *c) {
-    const i128 *pl = w->place;
-    const int gi = w->s->col[ROLE_SCORE_GAP], width = w->s->width;
+    const i128 *cplace = w->cplace;
     i128 total = 0;
-    for (int k = 0; k < gi; k++)
+    /* Unrolled: each role's test is its own branch, predicted role by role (score_gap's place is 0). */
+#pragma GCC unroll 16
+    for (int k = 0; k < ROLES; k++)
         if (c[k])
-            total += (i128)c[k] * pl[k];
-    int32_t gap = c[gi];
+            total += (i128)c[k] * cplace[k];
+    int32_t gap = c[ROLE_SCORE_GAP];
     if (gap) {
         if (gap > w->elevels) {
             w->error = 1;
             return 0;
         }
-        total += pl[gi + w->elevels - gap];
+        total += w->gplace[gap];
     }
-    const int64_t after = w->elevels - 1; /* column k > gi sits at expanded position k - 1 + levels */
-    for (int k = gi + 1; k < width; k++)
-        if (c[k])
-            total += (i128)c[k] * pl[after + k];
     return total;
 }
 
@@ -323,11 +327,12 @@ static void visit(Work *w, int64_t i, int64_t j, const int32_t *c) {
     switch (w->mode) {
     case MODE_STATS:
         w->count++;
-        w->rematch_free += c[s->col[ROLE_REMATCH]] == 0;
-        for (int k = 0; k < s->width; k++)
+        w->rematch_free += c[ROLE_REMATCH] == 0;
+#pragma GCC unroll 16
+        for (int k = 0; k < ROLES; k++) /* by role; the zero slots stay 0 */
             if (c[k] > w->maxima[k])
                 w->maxima[k] = c[k];
-        w->gaps[c[s->col[ROLE_SCORE_GAP]]] = 1;
+        w->gaps[c[ROLE_SCORE_GAP]] = 1;
         break;
     case MODE_HEAVIEST: {
         i128 key = encoded(w, c);
@@ -402,7 +407,7 @@ static int run_all(Work *works, int parts) {
     a->error |= b->error;
     for (int64_t t = 0; t < b->ntight && !a->error; t++)
         keep_tight(a, b->tight[t]);
-    for (int k = 0; k < a->s->width; k++)
+    for (int k = 0; k < ROLES; k++)
         if (b->maxima[k] > a->maxima[k])
             a->maxima[k] = b->maxima[k];
     if (a->gaps)
@@ -526,10 +531,14 @@ static PyObject *prepare(PyObject *self, PyObject *args) {
     s->words = words;
     s->levels = levels;
     s->width = (int)width;
-    for (int r = 0; r < ROLES; r++)
+    memset(s->slot, -1, sizeof(s->slot));
+    for (int r = 0; r < ROLES; r++) {
         s->col[r] = (int)((const int64_t *)layout.buf)[r];
-    for (int strength = 1; strength <= 3; strength++)
-        s->pref[strength] = s->col[ROLE_PREF_MILD + strength - 1];
+        s->slot[s->col[r]] = (int8_t)r;
+    }
+    for (int k = 0, zero = ROLES; k < width; k++)
+        if (s->slot[k] < 0)
+            s->slot[k] = (int8_t)zero++; /* a column no role claims (0 on every pair): a zero slot */
     s->nrematch = rematch.len / 8;
     s->nforbid = forbid.len / 8;
     s->p = calloc(n ? n : 1, sizeof(Player));
@@ -653,8 +662,8 @@ static PyObject *stats(PyObject *self, PyObject *args) {
     Work *w = &works[0];
     PyObject *maxima = PyTuple_New(s->width), *gaps = PyList_New(0), *out = NULL;
     if (maxima && gaps) {
-        for (int k = 0; k < s->width; k++)
-            PyTuple_SET_ITEM(maxima, k, PyLong_FromLongLong(w->maxima[k]));
+        for (int k = 0; k < s->width; k++) /* in the table's order */
+            PyTuple_SET_ITEM(maxima, k, PyLong_FromLongLong(w->maxima[s->slot[k]]));
         for (int64_t g = 0; g <= s->span; g++)
             if (w->gaps[g]) {
                 PyObject *x = PyLong_FromLongLong(g);
@@ -692,6 +701,30 @@ static int int128_ok(Py_buffer *buf, Py_ssize_t count, const char *what) {
     return buffer_of(buf, count, 16, what) == 0;
 }
 
+static i128 int128_at(const void *buf, int64_t index) {
+    i128 x;
+    memcpy(&x, (const char *)buf + 16 * index, 16);
+    return x;
+}
+
+/* The encoder's place values (weights.Encoder.place: the expanded components in the table's order,
+ * score_gap's levels L..1 in its place) spread for encoded: role[r] for role r (0 for score_gap) and
+ * the returned level[g] for a gap of g units (level[0] = 0). NULL when out of memory. */
+static i128 *spread(const Scan *s, const void *place, int64_t elevels, i128 *role) {
+    int gi = s->col[ROLE_SCORE_GAP];
+    for (int r = 0; r < ROLES; r++) {
+        int k = s->col[r];
+        role[r] = k < gi ? int128_at(place, k) : k == gi ? 0 : int128_at(place, elevels - 1 + k);
+    }
+    i128 *level = malloc(sizeof(i128) * (elevels + 1));
+    if (level != NULL) {
+        level[0] = 0;
+        for (int64_t g = 1; g <= elevels; g++)
+            level[g] = int128_at(place, gi + elevels - g);
+    }
+    return level;
+}
+
 /* heaviest(capsule, parts, k, elevels, place (16-byte values), top (16 bytes)) -> bytes of keys */
 static PyObject *heaviest(PyObject *self, PyObject *args) {
     PyObject *capsule;
@@ -703,6 +736,7 @@ static PyObject *heaviest(PyObject *self, PyObject *args) {
     PyObject *out = NULL;
     Scan *s = scan_of(capsule);
     Work works[2];
+    i128 cplace[ROLES], *gplace = NULL;
     parts = parts > 1 ? 2 : 1;
     memset(works, 0, sizeof(works));
     if (s == NULL || k < 1 || elevels < 0 || !int128_ok(&place, elevels + s->width - 1, "place") || !int128_ok(&top, 1, "top")) {
@@ -710,12 +744,14 @@ static PyObject *heaviest(PyObject *self, PyObject *args) {
             PyErr_SetString(PyExc_ValueError, "bad heaviest arguments");
         goto done;
     }
-    if (works_init(works, parts, s, MODE_HEAVIEST, k)) {
+    gplace = spread(s, place.buf, elevels, cplace);
+    if (gplace == NULL || works_init(works, parts, s, MODE_HEAVIEST, k)) {
         PyErr_NoMemory();
         goto done;
     }
     for (int t = 0; t < parts; t++) {
-        works[t].place = place.buf;
+        works[t].cplace = cplace;
+        works[t].gplace = gplace;
         works[t].elevels = elevels;
     }
     Py_BEGIN_ALLOW_THREADS
@@ -726,6 +762,7 @@ static PyObject *heaviest(PyObject *self, PyObject *args) {
     else
         out = collect(&works[0]);
 done:
+    free(gplace);
     works_free(works, parts);
     PyBuffer_Release(&place);
     PyBuffer_Release(&top);
@@ -815,6 +852,7 @@ static PyObject *by_dual(PyObject *capsule, int parts, int k, Py_ssize_t elevels
     PyObject *out = NULL, *keys = NULL, *tight = NULL;
     Scan *s = scan_of(capsule);
     Work works[2];
+    i128 cplace[ROLES], *gplace = NULL;
     Tree tree;
     memset(&tree, 0, sizeof(tree));
     memset(works, 0, sizeof(works));
@@ -841,14 +879,16 @@ static PyObject *by_dual(PyObject *capsule, int parts, int k, Py_ssize_t elevels
     tree.nodes = nodes;
     tree.owner = own;
     tree.prefix = prefix->buf;
-    if (build_tree(&tree, par, nodes) || works_init(works, parts, s, MODE_VIOLATED, k)) {
+    gplace = spread(s, place->buf, elevels, cplace);
+    if (gplace == NULL || build_tree(&tree, par, nodes) || works_init(works, parts, s, MODE_VIOLATED, k)) {
         PyErr_NoMemory();
         goto done;
     }
     i128 topv;
     memcpy(&topv, top->buf, 16);
     for (int t = 0; t < parts; t++) {
-        works[t].place = place->buf;
+        works[t].cplace = cplace;
+        works[t].gplace = gplace;
         works[t].elevels = elevels;
         works[t].top = topv;
         works[t].y2 = y2->buf;
@@ -871,6 +911,7 @@ static PyObject *by_dual(PyObject *capsule, int parts, int k, Py_ssize_t elevels
 done:
     Py_XDECREF(keys);
     Py_XDECREF(tight);
+    free(gplace);
     tree_free(&tree);
     works_free(works, parts);
     return out;
