@@ -82,7 +82,9 @@ class Encoder:
         """``sum_k c_k * M_k`` over the expanded components, without building them."""
         place = self.place
         gap = cost[GAP_INDEX]
-        total = sum(v * m for v, m in zip(cost[:GAP_INDEX], place))
+        total = 0
+        for k in range(GAP_INDEX):
+            total += cost[k] * place[k]
         if gap:
             total += place[GAP_INDEX + self.levels - gap]
         k = GAP_INDEX + self.levels
