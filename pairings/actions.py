@@ -12,6 +12,7 @@ from __future__ import annotations
 from typing import TYPE_CHECKING, Iterable, Mapping, Sequence
 
 from pairings import events as ev
+from pairings.costs import CRITERIA
 from pairings.errors import (
     AmbiguousPlayerError, DuplicatePlayerError, HardRuleError, InputError, NoPairingError, NoShowError,
     RoundStateError, UnknownPlayerError,
@@ -483,7 +484,7 @@ def publish(state: EventState, accept: str = "") -> list[ev.Event]:
     return (accepted if breaches else []) + [ev.RoundPublished(round=rnd.number)]
 
 
-_HARD_COSTS = {"H1": "rematch", "H2": "repeat_bye", "H3": "side_rule"}
+_HARD_COSTS = {c.rule: c.key for c in CRITERIA if c.hard}
 """The engine's cost criteria that count the relaxations of each hard rule (H5 is never relaxed)."""
 
 

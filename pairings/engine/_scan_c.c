@@ -13,6 +13,11 @@
  * The blossom sum is P[lca(owner[i], owner[j])] in the laminar blossom tree (Euler tour plus a
  * sparse table of depth minima: constant time per pair). Exact integers: int32 cost columns,
  * __int128 place values, weights, duals and reduced costs (the Python wrapper bounds them).
+ * The priority order of the criteria is not fixed here: prepare takes each criterion's column in the
+ * cost row (the layout of pairings.costs, for the names ROLE_NAMES below). A pair's row is built in the
+ * kernel's own order (the roles, then zeros for the pairing bye's own criteria), so costing and weighing
+ * read fixed places; only the bound test walks the row in the table's order (slot), and the column
+ * maxima go back in it.
  * Two threads take interleaved blocks of rows; per-vertex lists are merged under the total order
  * (key, i, j), so the answer does not depend on the threads.
  */
@@ -25,8 +30,7 @@
 
 typedef __int128 i128;
 
-#define WIDTH 11
-#define GAP_INDEX 3
+#define MAX_WIDTH 16
 #define FIRST 1
 #define SECOND (-1)
 #define BLOCK 16
@@ -34,12 +38,23 @@ typedef __int128 i128;
 
 enum { MODE_STATS, MODE_HEAVIEST, MODE_VIOLATED };
 
+/* The criteria this kernel costs (the others, the pairing bye's own, are 0 on every pair). The three
+ * preferences are in strength order (criteria.MILD, STRONG, ABSOLUTE = 1, 2, 3). */
+enum {
+    ROLE_REMATCH, ROLE_SIDE_RULE, ROLE_SCORE_GAP, ROLE_PREF_MILD, ROLE_PREF_STRONG, ROLE_PREF_ABSOLUTE,
+    ROLE_FLOAT_REPEAT, ROLE_FLOAT_REPEAT_2, ROLE_RANK_ORDER, ROLES
+};
+static const char *const ROLE_NAMES[ROLES] = {
+    "rematch", "side_rule", "score_gap", "pref_mild", "pref_strong", "pref_absolute",
+    "float_repeat", "float_repeat_2", "rank_order",
+};
+
 typedef struct {
     int32_t units, grank, gsize, abs_sd;
     int8_t want, strength;
     uint8_t breaks_first, breaks_second;
     uint8_t down1, up1, down2, up2;
-    uint8_t miss_first;  /* cost column (5..7) raised when this player gets the first side, 0: none */
+    uint8_t miss_first;  /* strength (1..3) of the wish missed when this player gets the first side, 0: none */
     uint8_t miss_second; /* ... when it gets the second side */
 } Player;
 
@@ -56,7 +71,10 @@ typedef struct {
     int64_t *forbid;
     Py_ssize_t nforbid;
     int64_t levels;    /* greedy pairing's largest gap (the bound's gap levels) */
-    int64_t *bound;    /* expanded bound, levels + 10 entries */
+    int width;               /* cost columns */
+    int col[ROLES];          /* each role's column in the table's order */
+    int8_t slot[MAX_WIDTH];  /* per table column: its place in the kernel's row (a role, or a zero slot) */
+    int64_t *bound;    /* expanded bound, levels + width - 1 entries */
     int8_t *gapcmp;    /* per gap 0..levels: -1 below the bound, +1 above, 0 equal over the gap columns */
     int64_t span;      /* units[0] - units[n - 1] */
 } Scan;
@@ -83,8 +101,9 @@ typedef struct {
     int mode;
     int part, parts;
     int k;
-    /* weights */
-    const i128 *place;
+    /* weights: the encoder's place values by place in the row (score_gap's 0) and by score gap (spread) */
+    const i128 *cplace;
+    const i128 *gplace;
     int64_t elevels;
     i128 top;
     /* reduced costs */
@@ -92,7 +111,7 @@ typedef struct {
     const Tree *tree;
     /* outputs */
     int64_t count, rematch_free;
-    int64_t maxima[WIDTH];
+    int64_t maxima[MAX_WIDTH];
     uint8_t *gaps;
     Entry *entries;  /* n * k */
     int32_t *filled; /* n */
@@ -165,11 +184,11 @@ static inline int first_of(const Scan *s, int64_t i, int64_t j) {
     return i_wins == (a->want == FIRST);
 }
 
-/* Cost row of pair i < j, as vector.Arrays.costs (the rematch flag is given). */
+/* Cost row of pair i < j, as vector.Arrays.costs, in the kernel's order (the rematch flag is given). */
 static inline void cost_row(const Scan *s, int64_t i, int64_t j, int rematch, int32_t *c) {
     const Player *a = &s->p[i], *b = &s->p[j];
-    memset(c, 0, sizeof(int32_t) * WIDTH);
-    c[0] = rematch;
+    memset(c, 0, sizeof(int32_t) * MAX_WIDTH);
+    c[ROLE_REMATCH] = rematch;
     if (s->sides && (a->want != 0 || b->want != 0)) {
         const Player *f, *g;
         if (first_of(s, i, j)) {
@@ -179,39 +198,44 @@ static inline void cost_row(const Scan *s, int64_t i, int64_t j, int rematch, in
             f = b;
             g = a;
         }
-        c[1] = f->breaks_first + g->breaks_second;
+        c[ROLE_SIDE_RULE] = f->breaks_first + g->breaks_second;
         if (f->miss_first)
-            c[f->miss_first] += 1;
+            c[ROLE_PREF_MILD - 1 + f->miss_first] += 1;
         if (g->miss_second)
-            c[g->miss_second] += 1;
+            c[ROLE_PREF_MILD - 1 + g->miss_second] += 1;
     }
     int32_t gap = a->units - b->units;
-    c[3] = gap;
+    c[ROLE_SCORE_GAP] = gap;
     if (gap > 0) {
-        c[8] = a->down1 + b->up1;
-        c[9] = a->down2 + b->up2;
-        c[10] = b->grank + (a->gsize - 1 - a->grank);
+        c[ROLE_FLOAT_REPEAT] = a->down1 + b->up1;
+        c[ROLE_FLOAT_REPEAT_2] = a->down2 + b->up2;
+        c[ROLE_RANK_ORDER] = b->grank + (a->gsize - 1 - a->grank);
     } else {
         int32_t d = b->grank - a->grank - a->gsize / 2;
-        c[10] = d < 0 ? -d : d;
+        c[ROLE_RANK_ORDER] = d < 0 ? -d : d;
     }
 }
 
-/* candidates._not_above: the expanded row is lexicographically <= the bound. */
+/* candidates._not_above: the expanded row, walked in the table's order, is lexicographically <= the bound. */
 static inline int not_above(const Scan *s, const int32_t *c) {
     const int64_t *b = s->bound;
-    for (int k = 0; k < GAP_INDEX; k++)
-        if (c[k] != b[k])
-            return c[k] < b[k];
-    if (c[GAP_INDEX] > s->levels)
+    const int gi = s->col[ROLE_SCORE_GAP];
+    for (int k = 0; k < gi; k++) {
+        int32_t v = c[s->slot[k]];
+        if (v != b[k])
+            return v < b[k];
+    }
+    if (c[ROLE_SCORE_GAP] > s->levels)
         return 0;
-    int8_t r = s->gapcmp[c[GAP_INDEX]];
+    int8_t r = s->gapcmp[c[ROLE_SCORE_GAP]];
     if (r)
         return r < 0;
-    b += GAP_INDEX + s->levels;
-    for (int k = GAP_INDEX + 1; k < WIDTH; k++)
-        if (c[k] != b[k - GAP_INDEX - 1])
-            return c[k] < b[k - GAP_INDEX - 1];
+    const int64_t after = s->levels - 1; /* column k > gi sits at expanded position k - 1 + levels */
+    for (int k = gi + 1; k < s->width; k++) {
+        int32_t v = c[s->slot[k]];
+        if (v != b[after + k])
+            return v < b[after + k];
+    }
     return 1;
 }
 
@@ -221,7 +245,7 @@ static inline int not_above(const Scan *s, const int32_t *c) {
 static inline int admitted(const Scan *s, int64_t i, int64_t j, int32_t *c) {
     if (s->sides) {
         const Player *a = &s->p[i], *b = &s->p[j];
-        c[1] -= (a->breaks_first & a->breaks_second) + (b->breaks_first & b->breaks_second);
+        c[ROLE_SIDE_RULE] -= (a->breaks_first & a->breaks_second) + (b->breaks_first & b->breaks_second);
     }
     return not_above(s, c);
 }
@@ -263,20 +287,21 @@ static void keep_tight(Work *w, int64_t key) {
 }
 
 static inline i128 encoded(Work *w, const int32_t *c) {
-    const i128 *pl = w->place;
-    i128 total = (i128)c[0] * pl[0] + (i128)c[1] * pl[1] + (i128)c[2] * pl[2];
-    int32_t gap = c[GAP_INDEX];
+    const i128 *cplace = w->cplace;
+    i128 total = 0;
+    /* Unrolled: each role's test is its own branch, predicted role by role (score_gap's place is 0). */
+#pragma GCC unroll 16
+    for (int k = 0; k < ROLES; k++)
+        if (c[k])
+            total += (i128)c[k] * cplace[k];
+    int32_t gap = c[ROLE_SCORE_GAP];
     if (gap) {
         if (gap > w->elevels) {
             w->error = 1;
             return 0;
         }
-        total += pl[GAP_INDEX + w->elevels - gap];
+        total += w->gplace[gap];
     }
-    pl += GAP_INDEX + w->elevels;
-    for (int k = GAP_INDEX + 1; k < WIDTH; k++)
-        if (c[k])
-            total += (i128)c[k] * pl[k - GAP_INDEX - 1];
     return total;
 }
 
@@ -302,11 +327,12 @@ static void visit(Work *w, int64_t i, int64_t j, const int32_t *c) {
     switch (w->mode) {
     case MODE_STATS:
         w->count++;
-        w->rematch_free += c[0] == 0;
-        for (int k = 0; k < WIDTH; k++)
+        w->rematch_free += c[ROLE_REMATCH] == 0;
+#pragma GCC unroll 16
+        for (int k = 0; k < ROLES; k++) /* by role; the zero slots stay 0 */
             if (c[k] > w->maxima[k])
                 w->maxima[k] = c[k];
-        w->gaps[c[GAP_INDEX]] = 1;
+        w->gaps[c[ROLE_SCORE_GAP]] = 1;
         break;
     case MODE_HEAVIEST: {
         i128 key = encoded(w, c);
@@ -334,7 +360,7 @@ static void *run(void *arg) {
     Work *w = (Work *)arg;
     const Scan *s = w->s;
     int64_t n = s->n;
-    int32_t c[WIDTH];
+    int32_t c[MAX_WIDTH];
     for (int64_t lo = (int64_t)w->part * BLOCK; lo < n; lo += (int64_t)w->parts * BLOCK) {
         int64_t hi = lo + BLOCK < n ? lo + BLOCK : n;
         for (int64_t i = lo; i < hi; i++) {
@@ -381,7 +407,7 @@ static int run_all(Work *works, int parts) {
     a->error |= b->error;
     for (int64_t t = 0; t < b->ntight && !a->error; t++)
         keep_tight(a, b->tight[t]);
-    for (int k = 0; k < WIDTH; k++)
+    for (int k = 0; k < ROLES; k++)
         if (b->maxima[k] > a->maxima[k])
             a->maxima[k] = b->maxima[k];
     if (a->gaps)
@@ -406,7 +432,7 @@ static int buffer_of(Py_buffer *buf, Py_ssize_t count, Py_ssize_t itemsize, cons
 
 /* The caller's inputs, checked before anything is read through them: NULL when they hold, else why not.
  * The walk indexes players by the partner ranges (ends), the gap table by score differences (the rank
- * order: scores never rise), the cost row by the missed-preference columns, and searches the sorted keys. */
+ * order: scores never rise), the preference columns by the missed strengths, and searches the sorted keys. */
 static const char *bad_players(const int64_t *pl, const int64_t *ends, Py_ssize_t n) {
     for (Py_ssize_t i = 0; i < n; i++) {
         const int64_t *x = pl + 14 * i, *prev = pl + 14 * (i - 1);
@@ -422,8 +448,8 @@ static const char *bad_players(const int64_t *pl, const int64_t *ends, Py_ssize_
             if (x[k] != 0 && x[k] != 1)
                 return "a side-rule or float flag is neither 0 nor 1";
         for (int k = 12; k < 14; k++)
-            if (x[k] != 0 && (x[k] < 5 || x[k] > 7))
-                return "a missed-preference column is not 5, 6 or 7";
+            if (x[k] < 0 || x[k] > 3)
+                return "a missed-preference strength is not 0, 1, 2 or 3";
         if (ends[i] < 0 || ends[i] > n)
             return "a player's partner range ends outside the field";
     }
@@ -440,15 +466,32 @@ static const char *bad_keys(const int64_t *keys, Py_ssize_t count, Py_ssize_t n)
     return NULL;
 }
 
-/* prepare(n, players, ends, words, hfirst, hsecond, rematch, forbid, sides, levels, bound)
+/* The cost layout: width columns, each role's column (int64 x ROLES), distinct and inside the row. */
+static const char *bad_layout(Py_ssize_t width, const Py_buffer *layout) {
+    if (width < ROLES || width > MAX_WIDTH)
+        return "the cost row's width is outside what the scan handles";
+    if (layout->len != ROLES * 8)
+        return "the layout does not name a column for every criterion the scan costs";
+    const int64_t *col = layout->buf;
+    for (int r = 0; r < ROLES; r++) {
+        if (col[r] < 0 || col[r] >= width)
+            return "a criterion's column is outside the cost row";
+        for (int q = 0; q < r; q++)
+            if (col[q] == col[r])
+                return "two criteria share a column";
+    }
+    return NULL;
+}
+
+/* prepare(n, players, ends, words, hfirst, hsecond, rematch, forbid, sides, levels, bound, width, layout)
  * players: int64 n x 14 (units, grank, gsize, abs_sd, want, strength, breaks_first, breaks_second,
- * down1, up1, down2, up2, miss_first, miss_second). */
+ * down1, up1, down2, up2, miss_first, miss_second); layout: the column of each ROLE_NAMES entry. */
 static PyObject *prepare(PyObject *self, PyObject *args) {
-    Py_ssize_t n, words, levels;
+    Py_ssize_t n, words, levels, width;
     int sides;
-    Py_buffer players, ends, hfirst, hsecond, rematch, forbid, bound;
-    if (!PyArg_ParseTuple(args, "ny*y*ny*y*y*y*pny*", &n, &players, &ends, &words, &hfirst, &hsecond,
-                          &rematch, &forbid, &sides, &levels, &bound))
+    Py_buffer players, ends, hfirst, hsecond, rematch, forbid, bound, layout;
+    if (!PyArg_ParseTuple(args, "ny*y*ny*y*y*y*pny*ny*", &n, &players, &ends, &words, &hfirst, &hsecond,
+                          &rematch, &forbid, &sides, &levels, &bound, &width, &layout))
         return NULL;
     PyObject *out = NULL;
     Scan *s = calloc(1, sizeof(Scan));
@@ -456,21 +499,27 @@ static PyObject *prepare(PyObject *self, PyObject *args) {
         PyErr_NoMemory();
         goto done;
     }
+    const char *why = bad_layout(width, &layout);
+    if (why != NULL) {
+        PyErr_SetString(PyExc_ValueError, why);
+        goto done;
+    }
+    Py_ssize_t expanded = levels + width - 1; /* the bound: score_gap expanded into its levels */
     if (n < 0 || n >= (1 << 20) || words < 1 || words >= (1 << 16) || levels < 0 || levels >= (1 << 20) ||
         buffer_of(&players, n * 14, 8, "players") ||
         buffer_of(&ends, n, 8, "ends") || buffer_of(&hfirst, n * words, 8, "history") ||
-        buffer_of(&hsecond, n * words, 8, "history") || buffer_of(&bound, levels + 10, 8, "bound") ||
+        buffer_of(&hsecond, n * words, 8, "history") || buffer_of(&bound, expanded, 8, "bound") ||
         rematch.len % 8 || forbid.len % 8) {
         if (!PyErr_Occurred())
             PyErr_SetString(PyExc_ValueError, "bad scan arguments");
         goto done;
     }
-    const char *why = bad_players(players.buf, ends.buf, n);
+    why = bad_players(players.buf, ends.buf, n);
     if (why == NULL)
         why = bad_keys(rematch.buf, rematch.len / 8, n);
     if (why == NULL)
         why = bad_keys(forbid.buf, forbid.len / 8, n);
-    for (Py_ssize_t k = 0; why == NULL && k < levels + 10; k++)
+    for (Py_ssize_t k = 0; why == NULL && k < expanded; k++)
         if (((const int64_t *)bound.buf)[k] < 0)
             why = "a bound entry is negative";
     if (why != NULL) {
@@ -481,6 +530,15 @@ static PyObject *prepare(PyObject *self, PyObject *args) {
     s->sides = sides;
     s->words = words;
     s->levels = levels;
+    s->width = (int)width;
+    memset(s->slot, -1, sizeof(s->slot));
+    for (int r = 0; r < ROLES; r++) {
+        s->col[r] = (int)((const int64_t *)layout.buf)[r];
+        s->slot[s->col[r]] = (int8_t)r;
+    }
+    for (int k = 0, zero = ROLES; k < width; k++)
+        if (s->slot[k] < 0)
+            s->slot[k] = (int8_t)zero++; /* a column no role claims (0 on every pair): a zero slot */
     s->nrematch = rematch.len / 8;
     s->nforbid = forbid.len / 8;
     s->p = calloc(n ? n : 1, sizeof(Player));
@@ -489,7 +547,7 @@ static PyObject *prepare(PyObject *self, PyObject *args) {
     s->hsecond = malloc((n ? n : 1) * words * 8);
     s->rematch = malloc(rematch.len ? rematch.len : 8);
     s->forbid = malloc(forbid.len ? forbid.len : 8);
-    s->bound = malloc((levels + 10) * 8);
+    s->bound = malloc(expanded * 8);
     s->gapcmp = calloc(levels + 1, 1);
     if (!s->p || !s->end || !s->hfirst || !s->hsecond || !s->rematch || !s->forbid || !s->bound || !s->gapcmp) {
         PyErr_NoMemory();
@@ -519,10 +577,10 @@ static PyObject *prepare(PyObject *self, PyObject *args) {
     memcpy(s->hsecond, hsecond.buf, n * words * 8);
     memcpy(s->rematch, rematch.buf, rematch.len);
     memcpy(s->forbid, forbid.buf, forbid.len);
-    memcpy(s->bound, bound.buf, (levels + 10) * 8);
+    memcpy(s->bound, bound.buf, expanded * 8);
     for (Py_ssize_t g = 0; g <= levels; g++) {
         for (Py_ssize_t d = levels; d >= 1; d--) {
-            int64_t e = g == d, b = s->bound[GAP_INDEX + levels - d];
+            int64_t e = g == d, b = s->bound[s->col[ROLE_SCORE_GAP] + levels - d];
             if (e != b) {
                 s->gapcmp[g] = e < b ? -1 : 1;
                 break;
@@ -544,6 +602,7 @@ done:
     PyBuffer_Release(&rematch);
     PyBuffer_Release(&forbid);
     PyBuffer_Release(&bound);
+    PyBuffer_Release(&layout);
     return out;
 }
 
@@ -601,10 +660,10 @@ static PyObject *stats(PyObject *self, PyObject *args) {
     run_all(works, parts);
     Py_END_ALLOW_THREADS
     Work *w = &works[0];
-    PyObject *maxima = PyTuple_New(WIDTH), *gaps = PyList_New(0), *out = NULL;
+    PyObject *maxima = PyTuple_New(s->width), *gaps = PyList_New(0), *out = NULL;
     if (maxima && gaps) {
-        for (int k = 0; k < WIDTH; k++)
-            PyTuple_SET_ITEM(maxima, k, PyLong_FromLongLong(w->maxima[k]));
+        for (int k = 0; k < s->width; k++) /* in the table's order */
+            PyTuple_SET_ITEM(maxima, k, PyLong_FromLongLong(w->maxima[s->slot[k]]));
         for (int64_t g = 0; g <= s->span; g++)
             if (w->gaps[g]) {
                 PyObject *x = PyLong_FromLongLong(g);
@@ -642,6 +701,30 @@ static int int128_ok(Py_buffer *buf, Py_ssize_t count, const char *what) {
     return buffer_of(buf, count, 16, what) == 0;
 }
 
+static i128 int128_at(const void *buf, int64_t index) {
+    i128 x;
+    memcpy(&x, (const char *)buf + 16 * index, 16);
+    return x;
+}
+
+/* The encoder's place values (weights.Encoder.place: the expanded components in the table's order,
+ * score_gap's levels L..1 in its place) spread for encoded: role[r] for role r (0 for score_gap) and
+ * the returned level[g] for a gap of g units (level[0] = 0). NULL when out of memory. */
+static i128 *spread(const Scan *s, const void *place, int64_t elevels, i128 *role) {
+    int gi = s->col[ROLE_SCORE_GAP];
+    for (int r = 0; r < ROLES; r++) {
+        int k = s->col[r];
+        role[r] = k < gi ? int128_at(place, k) : k == gi ? 0 : int128_at(place, elevels - 1 + k);
+    }
+    i128 *level = malloc(sizeof(i128) * (elevels + 1));
+    if (level != NULL) {
+        level[0] = 0;
+        for (int64_t g = 1; g <= elevels; g++)
+            level[g] = int128_at(place, gi + elevels - g);
+    }
+    return level;
+}
+
 /* heaviest(capsule, parts, k, elevels, place (16-byte values), top (16 bytes)) -> bytes of keys */
 static PyObject *heaviest(PyObject *self, PyObject *args) {
     PyObject *capsule;
@@ -653,19 +736,22 @@ static PyObject *heaviest(PyObject *self, PyObject *args) {
     PyObject *out = NULL;
     Scan *s = scan_of(capsule);
     Work works[2];
+    i128 cplace[ROLES], *gplace = NULL;
     parts = parts > 1 ? 2 : 1;
     memset(works, 0, sizeof(works));
-    if (s == NULL || k < 1 || elevels < 0 || !int128_ok(&place, elevels + 10, "place") || !int128_ok(&top, 1, "top")) {
+    if (s == NULL || k < 1 || elevels < 0 || !int128_ok(&place, elevels + s->width - 1, "place") || !int128_ok(&top, 1, "top")) {
         if (!PyErr_Occurred())
             PyErr_SetString(PyExc_ValueError, "bad heaviest arguments");
         goto done;
     }
-    if (works_init(works, parts, s, MODE_HEAVIEST, k)) {
+    gplace = spread(s, place.buf, elevels, cplace);
+    if (gplace == NULL || works_init(works, parts, s, MODE_HEAVIEST, k)) {
         PyErr_NoMemory();
         goto done;
     }
     for (int t = 0; t < parts; t++) {
-        works[t].place = place.buf;
+        works[t].cplace = cplace;
+        works[t].gplace = gplace;
         works[t].elevels = elevels;
     }
     Py_BEGIN_ALLOW_THREADS
@@ -676,6 +762,7 @@ static PyObject *heaviest(PyObject *self, PyObject *args) {
     else
         out = collect(&works[0]);
 done:
+    free(gplace);
     works_free(works, parts);
     PyBuffer_Release(&place);
     PyBuffer_Release(&top);
@@ -765,12 +852,13 @@ static PyObject *by_dual(PyObject *capsule, int parts, int k, Py_ssize_t elevels
     PyObject *out = NULL, *keys = NULL, *tight = NULL;
     Scan *s = scan_of(capsule);
     Work works[2];
+    i128 cplace[ROLES], *gplace = NULL;
     Tree tree;
     memset(&tree, 0, sizeof(tree));
     memset(works, 0, sizeof(works));
     parts = parts > 1 ? 2 : 1;
     int64_t nodes = prefix->len / 16;
-    if (s == NULL || k < 1 || elevels < 0 || nodes < 1 || !int128_ok(place, elevels + 10, "place") ||
+    if (s == NULL || k < 1 || elevels < 0 || nodes < 1 || !int128_ok(place, elevels + s->width - 1, "place") ||
         !int128_ok(top, 1, "top") || !int128_ok(y2, s->n, "y2") || !int128_ok(prefix, nodes, "prefix") ||
         buffer_of(owner, s->n, 8, "owner") || buffer_of(parent, nodes - 1, 8, "parent")) {
         if (!PyErr_Occurred())
@@ -791,14 +879,16 @@ static PyObject *by_dual(PyObject *capsule, int parts, int k, Py_ssize_t elevels
     tree.nodes = nodes;
     tree.owner = own;
     tree.prefix = prefix->buf;
-    if (build_tree(&tree, par, nodes) || works_init(works, parts, s, MODE_VIOLATED, k)) {
+    gplace = spread(s, place->buf, elevels, cplace);
+    if (gplace == NULL || build_tree(&tree, par, nodes) || works_init(works, parts, s, MODE_VIOLATED, k)) {
         PyErr_NoMemory();
         goto done;
     }
     i128 topv;
     memcpy(&topv, top->buf, 16);
     for (int t = 0; t < parts; t++) {
-        works[t].place = place->buf;
+        works[t].cplace = cplace;
+        works[t].gplace = gplace;
         works[t].elevels = elevels;
         works[t].top = topv;
         works[t].y2 = y2->buf;
@@ -821,6 +911,7 @@ static PyObject *by_dual(PyObject *capsule, int parts, int k, Py_ssize_t elevels
 done:
     Py_XDECREF(keys);
     Py_XDECREF(tight);
+    free(gplace);
     tree_free(&tree);
     works_free(works, parts);
     return out;
@@ -856,4 +947,21 @@ static PyMethodDef methods[] = {
 
 static struct PyModuleDef module = {PyModuleDef_HEAD_INIT, "_scan_c", NULL, -1, methods};
 
-PyMODINIT_FUNC PyInit__scan_c(void) { return PyModule_Create(&module); }
+/* The module, with ROLES: the names of the criteria prepare's layout gives a column for, in its order. */
+PyMODINIT_FUNC PyInit__scan_c(void) {
+    PyObject *m = PyModule_Create(&module), *roles = PyTuple_New(ROLES);
+    if (m == NULL || roles == NULL)
+        goto fail;
+    for (int r = 0; r < ROLES; r++) {
+        PyObject *name = PyUnicode_FromString(ROLE_NAMES[r]);
+        if (name == NULL)
+            goto fail;
+        PyTuple_SET_ITEM(roles, r, name);
+    }
+    if (PyModule_AddObject(m, "ROLES", roles) == 0)
+        return m;
+fail:
+    Py_XDECREF(roles);
+    Py_XDECREF(m);
+    return NULL;
+}

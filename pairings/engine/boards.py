@@ -8,7 +8,7 @@ from __future__ import annotations
 
 from typing import Iterable, Sequence
 
-from pairings.engine.criteria import Field
+from pairings.engine.criteria import GAP, Field
 from pairings.engine.types import CRITERIA, ENGINE_VERSION, Draft, DraftBoard, cost_map, total_cost
 from pairings.state import Bye, ByeKind, EventState, PlayerId, Side
 from pairings.points import ZERO
@@ -61,7 +61,7 @@ def assemble(state: EventState, fld: Field, pairs: Sequence[tuple[Pair | None, P
             flags += ("changed",)
         boards.append(DraftBoard(number, sides[0], sides[1], cost_map(cost), flags))
         costs.append(cost_map(cost))
-        gaps.append(cost[3])
+        gaps.append(cost[GAP])
     byes: list[Bye] = []
     bye_cost = cost_map((0,) * len(CRITERIA))
     if bye is not None:

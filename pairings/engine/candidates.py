@@ -57,19 +57,18 @@ from typing import Collection, Iterator, Sequence
 import numpy as np
 from numpy.typing import NDArray
 
+from pairings.costs import LAYOUT
 from pairings.engine import weights
-from pairings.engine.criteria import Cost, Field
+from pairings.engine.criteria import RANK_ORDER, SIDE_RULE, Cost, Field
 from pairings.engine.vector import WIDTH, Arrays, IntArray
 from pairings.state import PlayerId
 
 Pair = tuple[PlayerId, PlayerId]
 Sided = tuple[Pair | None, Pair]
-HARD = 3
-"""Cost tuple positions 0..2 are the hard-rule relaxations (H1, H3, H2)."""
-SIDE_RULE = 1
-"""Position of ``side_rule`` (H3) in a cost tuple."""
+HARD = LAYOUT.hard
+"""Cost tuple positions ``0 .. HARD - 1`` are the hard-rule relaxations (H1, H3, H2)."""
 GREEDY_WINDOW = 24
-RANK_INDEX = 10
+RANK_INDEX = RANK_ORDER
 """Position of ``rank_order`` in a cost tuple."""
 CHUNK = 512
 """Rows of players costed at once (bounds the arrays' memory)."""
@@ -281,8 +280,10 @@ def bound_of(fld: Field, players: Sequence[PlayerId], no_bye: Collection[PlayerI
         byes = forced if fld.forced(players[bye[0]]) and totals[SIDE_RULE] == 0 else allowed
         least = [min(col) for col in zip(*(enc.expand(fld.bye(p)) for p in byes))]
         pair_totals = [t - m for t, m in zip(totals, least)]
-    gaps = [d for d in range(enc.levels, 0, -1) if pair_totals[HARD + enc.levels - d]]
-    max_gap = max(gaps, default=0) if not any(pair_totals[:HARD]) else None
+    gap = weights.GAP_INDEX
+    gaps = [d for d in range(enc.levels, 0, -1) if pair_totals[gap + enc.levels - d]]
+    # Only when nothing above the gap levels is allowed does F's largest gap bound every kept pair's.
+    max_gap = max(gaps, default=0) if not any(pair_totals[:gap]) else None
     return Bound(tuple(pair_totals), enc.levels, max_gap, tuple(pairs), tuple(totals))
 
 

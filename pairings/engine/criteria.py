@@ -4,9 +4,9 @@ A :class:`Field` holds everything the rules need about the players to pair in
 one round: scores in integer scoring units, score groups, ranks, side
 preferences and float history. :meth:`Field.pair` returns the pair's sides
 (allocated per rules.md "Side allocation") and its cost tuple in
-:data:`~pairings.engine.types.CRITERIA` order; :meth:`Field.bye` the cost of
-giving one player the pairing bye. Hard rule H4 (availability) is the choice of
-the field; H5 (do-not-pair) is :meth:`Field.forbidden`, never relaxed.
+:data:`pairings.costs.LAYOUT` order (each value placed by its criterion's name);
+:meth:`Field.bye` the cost of giving one player the pairing bye. Hard rule H4
+(availability) is the choice of the field; H5 (do-not-pair) is :meth:`Field.forbidden`, never relaxed.
 
 References
 ----------
@@ -23,11 +23,17 @@ from fractions import Fraction
 from math import gcd, lcm
 from typing import Iterable
 
+from pairings.costs import LAYOUT
 from pairings.engine.acceleration import virtual_points
 from pairings.state import EventState, Float, PlayerId, Side
 
 ABSOLUTE, STRONG, MILD, NONE = 3, 2, 1, 0
 Cost = tuple[int, ...]
+"""A cost tuple in :data:`pairings.costs.LAYOUT` order."""
+REMATCH, SIDE_RULE, REPEAT_BYE, GAP, BYE_RANK, RANK_ORDER = (
+    LAYOUT.column(k) for k in ("rematch", "side_rule", "repeat_bye", "score_gap", "bye_rank", "rank_order"))
+PREF_ABSOLUTE, PREF_STRONG, PREF_MILD, FLOAT_REPEAT, FLOAT_REPEAT_2 = (
+    LAYOUT.column(k) for k in ("pref_absolute", "pref_strong", "pref_mild", "float_repeat", "float_repeat_2"))
 
 
 def score_unit(state: EventState) -> Fraction:
@@ -233,29 +239,29 @@ class Field:
         else:
             half = self.group_size[self.units[hi]] // 2
             rank = abs(self.group_rank[lo] - self.group_rank[hi] - half)
-        return alloc, (rematch, side_rule, 0, gap, 0, absolute, strong, mild, f1, f2, rank)
+        cost = [0] * LAYOUT.width
+        cost[REMATCH], cost[SIDE_RULE], cost[GAP] = rematch, side_rule, gap
+        cost[PREF_ABSOLUTE], cost[PREF_STRONG], cost[PREF_MILD] = absolute, strong, mild
+        cost[FLOAT_REPEAT], cost[FLOAT_REPEAT_2], cost[RANK_ORDER] = f1, f2, rank
+        return alloc, tuple(cost)
 
     def bye(self, p: PlayerId) -> Cost:
         """Cost of the pairing bye for ``p``: a pair against a virtual lowest-score player (S2)."""
         repeat = 1 if self.unplayed_point[p] else 0
         f1 = 1 if self.prev_float[p] is Float.DOWN else 0
         f2 = 1 if self.prev_float_2[p] is Float.DOWN else 0
-        below = len(self.order) - 1 - self.index[p]
-        return (0, 0, repeat, self.units[p] - self.min_units, below, 0, 0, 0, f1, f2, 0)
+        cost = [0] * LAYOUT.width
+        cost[REPEAT_BYE], cost[GAP] = repeat, self.units[p] - self.min_units
+        cost[BYE_RANK] = len(self.order) - 1 - self.index[p]  # players ranked below
+        cost[FLOAT_REPEAT], cost[FLOAT_REPEAT_2] = f1, f2
+        return tuple(cost)
 
     def flags(self, p: PlayerId, q: PlayerId, cost: Cost) -> tuple[str, ...]:
-        """Board flags in the vocabulary of shared/naming.md."""
+        """Board flags (:data:`pairings.costs.FLAGS`, in their order): each raised by its criteria's costs."""
         out = []
-        if cost[0]:
-            out.append("rematch")
-        if cost[1]:
-            out.append("side")
-        if cost[3]:
-            out.append(f"gap {_points(cost[3] * self.unit)}")
-        if cost[8]:
-            out.append("float")
-        if cost[5] or cost[6]:
-            out.append("pref")
+        for word, columns in LAYOUT.flags:
+            if any(cost[k] for k in columns):
+                out.append(f"gap {_points(cost[GAP] * self.unit)}" if GAP in columns else word)
         return tuple(out)
 
 

@@ -8,24 +8,13 @@ from fractions import Fraction
 from types import MappingProxyType
 from typing import Mapping
 
+from pairings.costs import LAYOUT
 from pairings.engine.criteria import ABSOLUTE, MILD, STRONG, Field
 from pairings.engine.draft import draft_round
 from pairings.engine.types import CRITERIA, Draft, Overrides
 from pairings.errors import NoPairingError
 from pairings.state import ByeKind, EventState, PlayerId, System
 
-_WORDS: dict[str, tuple[str, str]] = {
-    "rematch": ("rematch", "rematches"),
-    "side_rule": ("side rule relaxed", "side rules relaxed"),
-    "repeat_bye": ("repeated bye", "repeated byes"),
-    "bye_rank": ("place higher for the bye", "places higher for the bye"),
-    "pref_absolute": ("absolute side preference missed", "absolute side preferences missed"),
-    "pref_strong": ("side preference missed", "side preferences missed"),
-    "pref_mild": ("mild side preference missed", "mild side preferences missed"),
-    "float_repeat": ("repeated float", "repeated floats"),
-    "float_repeat_2": ("float repeated from two rounds before", "floats repeated from two rounds before"),
-    "rank_order": ("step from rank order", "steps from rank order"),
-}
 _STRENGTH = {ABSOLUTE: "absolute", STRONG: "strong", MILD: "mild"}
 
 
@@ -48,8 +37,9 @@ class CostDelta:
     def describe(self) -> str:
         """E.g. ``"+1 floater, +2 side preferences missed"``; ``"no change"``."""
         parts: list[str] = []
-        for name in CRITERIA:
-            if name == "score_gap":
+        for criterion in LAYOUT.criteria:
+            name = criterion.key
+            if criterion.words is None:  # score_gap: floaters, then pairs level by level
                 floaters = sum(self.gap_levels.values())
                 if floaters:
                     parts.append(f"{floaters:+d} floater{'s' if abs(floaters) != 1 else ''}")
@@ -61,7 +51,7 @@ class CostDelta:
                 continue
             d = self.changes[name]
             if d:
-                one, many = _WORDS[name]
+                one, many = criterion.words
                 parts.append(f"{d:+d} {one if abs(d) == 1 else many}")
         return ", ".join(parts) if parts else "no change"
 

@@ -34,7 +34,7 @@ from typing import Collection, Sequence
 import numpy as np
 
 from pairings.engine import blossom, candidates, scan, sparse, weights
-from pairings.engine.criteria import ABSOLUTE, MILD, STRONG, Field
+from pairings.engine.criteria import ABSOLUTE, MILD, SIDE_RULE, STRONG, Field
 from pairings.engine.types import CRITERIA
 from pairings.engine.vector import WIDTH, Arrays, IntArray
 from pairings.state import PlayerId
@@ -65,8 +65,8 @@ def net(arrays: Arrays, i: IntArray, j: IntArray, rows: IntArray) -> IntArray:
         return out
     bye = j == arrays.n
     jj = np.where(bye, 0, j)
-    out[:, candidates.SIDE_RULE] -= np.where(bye, 0, arrays.forced[i] + arrays.forced[jj])
-    out[:, candidates.SIDE_RULE] += np.where(bye, 1 - arrays.forced[i], 0)
+    out[:, SIDE_RULE] -= np.where(bye, 0, arrays.forced[i] + arrays.forced[jj])
+    out[:, SIDE_RULE] += np.where(bye, 1 - arrays.forced[i], 0)
     return out
 
 
@@ -150,8 +150,9 @@ def _proves_itself(fld: Field, players: Sequence[PlayerId], no_bye: Collection[P
     n = len(players)
     costs = [fld.bye(players[i]) if j == n else fld.pair(players[i], players[j])[1] for i, j in pairs]
     own = candidates.bound_of(fld, players, no_bye, costs, pairs)
-    hard = candidates.HARD
-    return not any(own.totals[:hard]) and not any(own.bye_totals[:hard]) and own.levels <= gap
+    # Nothing above the gap levels allowed: then no kept pair floats beyond the bound's levels.
+    return not any(own.totals[:weights.GAP_INDEX]) and not any(own.bye_totals[:candidates.HARD]) \
+        and own.levels <= gap
 
 
 def implicit_matching(fld: Field, players: Sequence[PlayerId], no_bye: Collection[PlayerId],

@@ -20,7 +20,7 @@ import numpy as np
 from numpy.typing import NDArray
 
 from pairings.engine import blossom, candidates, canonical, certificate, sparse, weights
-from pairings.engine.criteria import Field
+from pairings.engine.criteria import REMATCH, Field
 from pairings.engine.vector import AnyArray, Arrays, IntArray
 from pairings.state import PlayerId
 
@@ -68,7 +68,7 @@ def listed_matching(fld: Field, players: Sequence[PlayerId], no_bye: Collection[
         first[rows[hit]] = True
     graph = sparse.SparseGraph(n, weigh)
     graph.add(pr.u[first], pr.v[first], w[first])
-    rematches = _all_rematches(pr.costs[pr.v != len(players), 0])
+    rematches = _all_rematches(pr.costs[pr.v != len(players), REMATCH])
     found = sparse.certify(graph, pricing)
     if found is not None:
         route = sparse.Route("listed", True, found.solves, graph.size(), len(pr.u))

@@ -24,7 +24,7 @@ import numpy as np
 
 from pairings.engine import blossom, candidates, canonical, implicit, listed, solver
 from pairings.engine.candidates import Graph, Sided
-from pairings.engine.criteria import Field
+from pairings.engine.criteria import REMATCH, Field
 from pairings.engine.sparse import Route
 from pairings.engine.vector import Arrays, IntArray
 from pairings.errors import NoPairingError
@@ -54,7 +54,7 @@ def engine_matching(fld: Field, players: Sequence[PlayerId], no_bye: Collection[
 
 
 def _every_pair_a_rematch(g: Graph) -> bool:
-    rematch = [c[0] for (_, j), c in zip(g.edges, g.costs) if j != g.bye_vertex]
+    rematch = [c[REMATCH] for (_, j), c in zip(g.edges, g.costs) if j != g.bye_vertex]
     return len(rematch) > 0 and all(rematch)
 
 

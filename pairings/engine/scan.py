@@ -43,6 +43,7 @@ from typing import Any, Sequence
 
 import numpy as np
 
+from pairings.costs import LAYOUT
 from pairings.engine import certificate, weights
 from pairings.engine.blossom import Dual
 from pairings.engine.criteria import ABSOLUTE, MILD
@@ -64,13 +65,25 @@ MAX_PLAYERS = 2**20
 """Cost columns stay below this, so a column times a place value stays far inside 128 bits."""
 THREADS = 2
 """Threads of one scan (interleaved row blocks; the answer does not depend on them)."""
-PREF_COLUMN = 8
-"""``8 - strength`` is the cost column of a missed preference (5: absolute, 6: strong, 7: mild)."""
 
 
 def available() -> bool:
     """True when the compiled kernel imported."""
     return _scan_c is not None
+
+
+def layout() -> bytes:
+    """The kernel's cost row layout: the column (:data:`pairings.costs.LAYOUT`) of each criterion it costs.
+
+    ``_scan_c.ROLES`` names them in the order the kernel reads. ``ValueError``
+    when the table has a criterion the kernel does not cost and that is not
+    the pairing bye's own (0 on every pair): its scan would be wrong.
+    """
+    roles = tuple(_scan_c.ROLES)
+    missing = [c.key for c in LAYOUT.criteria if c.key not in roles and not c.bye_only]
+    if missing:
+        raise ValueError(f"the scan kernel does not cost {', '.join(missing)}")
+    return _int64([LAYOUT.column(name) for name in roles])
 
 
 @dataclass(frozen=True)
@@ -84,7 +97,7 @@ class Stats:
     gaps: frozenset[int]
     """Score gaps (cost column ``weights.GAP_INDEX``) present among them."""
     rematch_free: int
-    """How many of them are not rematches (``cost[0] == 0``)."""
+    """How many of them are not rematches (a zero ``rematch`` column)."""
 
 
 def _int128(values: Sequence[int], what: str, limit: int = LIMIT) -> bytes:
@@ -173,9 +186,9 @@ class PairScan:
         self.threads = threads
         self._stats: Stats | None = None
         want, strength = a.want, a.strength
-        graded = (strength >= MILD) & (strength <= ABSOLUTE)
-        miss_first = np.where((want == SECOND) & graded, PREF_COLUMN - strength, 0)
-        miss_second = np.where((want == FIRST) & graded, PREF_COLUMN - strength, 0)
+        graded = (strength >= MILD) & (strength <= ABSOLUTE)  # the strength of a preference a side misses
+        miss_first = np.where((want == SECOND) & graded, strength, 0)
+        miss_second = np.where((want == FIRST) & graded, strength, 0)
         players = np.stack([a.units, a.grank, a.gsize, a.abs_sd, want, strength,
                             a.breaks_first, a.breaks_second, a.down1, a.up1, a.down2, a.up2,
                             miss_first, miss_second], axis=1) if n else np.zeros((0, 14))
@@ -185,7 +198,7 @@ class PairScan:
         words, first, second = _history_bits(a.history, n)
         self._scan = _scan_c.prepare(n, _int64(players), _int64(ends), words, first, second,
                                      _int64(a.rematch_keys), _int64(a.forbidden_keys), bool(a.fld.sides),
-                                     levels, _int64([int(b) for b in bound]))
+                                     levels, _int64([int(b) for b in bound]), WIDTH, layout())
 
     def stats(self) -> Stats:
         count, maxima, gaps, free = _scan_c.stats(self._scan, self.threads)

@@ -11,25 +11,14 @@ from dataclasses import dataclass, field
 from types import MappingProxyType
 from typing import Mapping
 
+from pairings.costs import LAYOUT
 from pairings.state import Bye, PlayerId
 
 ENGINE_VERSION = "1.3"
 """Recorded with every draft; bumped whenever the same log could yield a different draft."""
 
-CRITERIA: tuple[str, ...] = (
-    "rematch",          # H1 relaxed: the pair has met max_meetings times already
-    "side_rule",        # H3 relaxed: players ending with |SD| > 2 or a third same side in a row
-    "repeat_bye",       # H2 relaxed: a pairing bye for a player who already scored without playing
-    "score_gap",        # S2: score difference of the pair, in scoring units (Field.unit)
-    "bye_rank",         # S3: players ranked below the one given the pairing bye
-    "pref_absolute",    # S4: absolute side preferences missed
-    "pref_strong",      # S4: strong side preferences missed
-    "pref_mild",        # S4: mild side preferences missed
-    "float_repeat",     # S5: players floating in the same direction as last round
-    "float_repeat_2",   # S5: ... as two rounds before
-    "rank_order",       # S6: distance from the top-half/bottom-half ideal
-)
-"""Criterion keys in strict priority order (highest first)."""
+CRITERIA: tuple[str, ...] = LAYOUT.keys
+"""Criterion keys in strict priority order (highest first), from :data:`pairings.costs.CRITERIA`."""
 
 
 def _frozen(values: Mapping[str, int]) -> Mapping[str, int]:

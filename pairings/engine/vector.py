@@ -16,15 +16,19 @@ from typing import Any, Sequence
 import numpy as np
 from numpy.typing import NDArray
 
-from pairings.engine.criteria import ABSOLUTE, MILD, STRONG, Field
+from pairings.costs import LAYOUT
+from pairings.engine.criteria import (
+    ABSOLUTE, FLOAT_REPEAT, FLOAT_REPEAT_2, GAP, MILD, PREF_ABSOLUTE, PREF_MILD, PREF_STRONG, RANK_ORDER, REMATCH,
+    SIDE_RULE, STRONG, Field,
+)
 from pairings.state import Float, PlayerId, Side
 
 IntArray = NDArray[np.int64]
 AnyArray = NDArray[Any]
 """Exact integers: int64, or Python integers (dtype object) when they do not fit."""
 FIRST, SECOND = 1, -1
-WIDTH = 11
-"""Length of a cost tuple (``len(CRITERIA)``)."""
+WIDTH = LAYOUT.width
+"""Length of a cost tuple."""
 
 
 def _side(s: Side | None) -> int:
@@ -101,26 +105,26 @@ class Arrays:
         return np.where(i_first != j_first, i_first < j_first, first)
 
     def costs(self, i: IntArray, j: IntArray) -> IntArray:
-        """Cost tuples (rows, :data:`CRITERIA` order) of pairs ``i < j``, as :meth:`Field.pair`."""
+        """Cost tuples (rows, :data:`pairings.costs.LAYOUT` order) of pairs ``i < j``, as :meth:`Field.pair`."""
         fld = self.fld
         out = np.zeros((len(i), WIDTH), dtype=np.int64)
-        out[:, 0] = np.isin(i * self.n + j, self.rematch_keys)
+        out[:, REMATCH] = np.isin(i * self.n + j, self.rematch_keys)
         if fld.sides:
             first = self.first_of(i, j)
             open_ = (self.want[i] == 0) & (self.want[j] == 0)
             f, s = np.where(first, i, j), np.where(first, j, i)
             rule = self.breaks_first[f].astype(np.int64) + self.breaks_second[s]
-            out[:, 1] = np.where(open_, 0, rule)
-            for col, level in ((5, ABSOLUTE), (6, STRONG), (7, MILD)):
+            out[:, SIDE_RULE] = np.where(open_, 0, rule)
+            for col, level in ((PREF_ABSOLUTE, ABSOLUTE), (PREF_STRONG, STRONG), (PREF_MILD, MILD)):
                 missed = ((self.want[f] == SECOND) & (self.strength[f] == level)).astype(np.int64) \
                     + ((self.want[s] == FIRST) & (self.strength[s] == level))
                 out[:, col] = np.where(open_, 0, missed)
         gap = self.units[i] - self.units[j]
-        out[:, 3] = gap
+        out[:, GAP] = gap
         floating = gap > 0
-        out[:, 8] = np.where(floating, self.down1[i] + self.up1[j], 0)
-        out[:, 9] = np.where(floating, self.down2[i] + self.up2[j], 0)
+        out[:, FLOAT_REPEAT] = np.where(floating, self.down1[i] + self.up1[j], 0)
+        out[:, FLOAT_REPEAT_2] = np.where(floating, self.down2[i] + self.up2[j], 0)
         across = self.grank[j] + (self.gsize[i] - 1 - self.grank[i])
         inside = np.abs(self.grank[j] - self.grank[i] - self.gsize[i] // 2)
-        out[:, 10] = np.where(floating, across, inside)
+        out[:, RANK_ORDER] = np.where(floating, across, inside)
         return out

@@ -32,7 +32,7 @@ from types import MappingProxyType
 from typing import Callable
 
 from pairings.engine import proof
-from pairings.engine.criteria import Field
+from pairings.engine.criteria import REMATCH, REPEAT_BYE, SIDE_RULE, Field
 from pairings.engine.draft import draft_round, rebuild
 from pairings.engine.explain import _overrides_of, compare
 from pairings.engine.roundcheck import RoundCheck, stored_boards
@@ -117,11 +117,11 @@ def _breaches(before: EventState, stored: Round, name: Callable[[PlayerId], str]
         a, b = name(g.first), name(g.second)
         if fld.forbidden(g.first, g.second):
             breaches.append(f"H5: board {g.board} pairs {a} and {b}, on the do-not-pair list")
-        if cost[0]:
+        if cost[REMATCH]:
             breaches.append(f"H1: board {g.board}: {a} and {b} have met before")
-        if cost[1]:
+        if cost[SIDE_RULE]:
             breaches.append(f"H3: board {g.board}: a side rule is broken ({a} - {b})")
-    if pairing_bye is not None and fld.bye(pairing_bye)[2]:
+    if pairing_bye is not None and fld.bye(pairing_bye)[REPEAT_BYE]:
         breaches.append(f"H2: {name(pairing_bye)} gets a second pairing bye or one after an unplayed point")
     return tuple(breaches), fld
 
@@ -133,10 +133,10 @@ def _berge(fld: Field, pairs: list[tuple[PlayerId, PlayerId]], bye: PlayerId | N
 
     def legal(a: PlayerId, b: PlayerId) -> bool:
         cost = fld.pair(a, b)[1]
-        return not fld.forbidden(a, b) and not cost[0] and not cost[1]
+        return not fld.forbidden(a, b) and not cost[REMATCH] and not cost[SIDE_RULE]
 
     boards = sum(1 for a, b in pairs if legal(a, b))
-    legal_bye = bye is not None and not fld.bye(bye)[2]
+    legal_bye = bye is not None and not fld.bye(bye)[REPEAT_BYE]
     mine = boards + (1 if legal_bye else 0)
     made = f"{boards} legal board{'s' if boards != 1 else ''}" + (" and a legal pairing bye" if legal_bye else "")
     if 2 * mine == len(players) + len(players) % 2:
@@ -148,7 +148,7 @@ def _berge(fld: Field, pairs: list[tuple[PlayerId, PlayerId]], bye: PlayerId | N
     allowed = [(i, j) for i in range(len(players)) for j in range(i + 1, len(players))
                if legal(players[i], players[j])]
     if len(players) % 2:
-        allowed += [(i, bye_vertex) for i, p in enumerate(players) if not fld.bye(p)[2]]
+        allowed += [(i, bye_vertex) for i, p in enumerate(players) if not fld.bye(p)[REPEAT_BYE]]
     best = maximum_cardinality(len(players) + 1, allowed)
     if mine == best:
         notes.append(f"Berge certificate: {made}, and no augmenting path exists in the "

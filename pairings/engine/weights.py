@@ -2,11 +2,12 @@
 
 Notes
 -----
-**Components.** A pair's cost tuple (``CRITERIA`` order) is expanded into the
-components ``rematch, side_rule, repeat_bye, gap_L, ..., gap_1, bye_rank,
-pref_absolute, pref_strong, pref_mild, float_repeat, float_repeat_2,
-rank_order``, where ``gap_d`` is 1 when the pair's score gap is ``d`` units
-(``L`` is the largest gap among the candidate edges). Comparing the per-level
+**Components.** A pair's cost tuple (:data:`pairings.costs.LAYOUT` order) is
+expanded into components: ``score_gap`` becomes ``gap_L, ..., gap_1`` in its
+place (with the default order ``rematch, side_rule, repeat_bye, gap_L, ...,
+gap_1, bye_rank, pref_absolute, ..., rank_order``), where ``gap_d`` is 1 when
+the pair's score gap is ``d`` units (``L`` is the largest gap among the
+candidate edges). Comparing the per-level
 counts ``(c_L, ..., c_1)`` highest level first is the same as comparing the
 sorted-largest-first gap lists lexicographically (rules.md S2), because all
 maximum-cardinality matchings have the same number of pairs: at the highest
@@ -50,13 +51,15 @@ from typing import Collection, Mapping, Sequence
 import numpy as np
 from numpy.typing import NDArray
 
+from pairings.costs import LAYOUT
 from pairings.engine.criteria import Cost
 from pairings.engine.vector import AnyArray
 
-GAP_INDEX = 3
+GAP_INDEX = LAYOUT.gap
 """Position of ``score_gap`` in a cost tuple."""
-BYE_ONLY = (2, 4)
-"""Positions of ``repeat_bye`` and ``bye_rank``: non-zero only on bye edges (:meth:`Field.pair` leaves them 0)."""
+BYE_ONLY = LAYOUT.bye_only
+"""Positions of the criteria non-zero only on bye edges (``repeat_bye``, ``bye_rank``: :meth:`Field.pair`
+leaves them 0)."""
 
 
 @dataclass(frozen=True, slots=True)
@@ -79,7 +82,9 @@ class Encoder:
         """``sum_k c_k * M_k`` over the expanded components, without building them."""
         place = self.place
         gap = cost[GAP_INDEX]
-        total = cost[0] * place[0] + cost[1] * place[1] + cost[2] * place[2]
+        total = 0
+        for k in range(GAP_INDEX):
+            total += cost[k] * place[k]
         if gap:
             total += place[GAP_INDEX + self.levels - gap]
         k = GAP_INDEX + self.levels

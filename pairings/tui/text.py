@@ -13,6 +13,7 @@ from typing import Iterable
 from rich.cells import cell_len
 from rich.text import Text
 
+from pairings.costs import FLAG_MEANINGS
 from pairings.points import Points, points_text
 from pairings.state import EventState, Game, PlayerId, Result, Round, RoundState
 from pairings.text import plain
@@ -82,21 +83,10 @@ def describe_round(rnd: Round) -> str:
     return f"complete, {len(rnd.games)} boards"
 
 
-FLAG_WORDS: dict[str, str] = {
-    "rematch": "the two have met before",
-    "side": "a side rule could not be kept",
-    "gap": "score difference of the pair",
-    "float": "floats in the same direction as last round",
-    "pref": "a side preference was missed",
-    "pinned": "kept as the organiser pinned it",
-    "changed": "the organiser overrode the engine here",
-}
-"""What each board flag means (shared/naming.md), for the Why panel and the publish check."""
-
-
 def flag_words(flag: str) -> str:
+    """The flag with what it means (:data:`pairings.costs.FLAGS`), for the Why panel and the publish check."""
     head = flag.split()[0] if flag else flag
-    meaning = FLAG_WORDS.get(head)
+    meaning = FLAG_MEANINGS.get(head)
     return f"{flag}: {meaning}" if meaning else flag
 
 

@@ -11,7 +11,7 @@ import pytest
 from tests.engine.engine_support import new_event, play, random_history, simulate, state_of
 from pairings import events as ev
 from pairings.engine import draft_round
-from pairings.engine.criteria import Cost, Field
+from pairings.engine.criteria import GAP, Cost, Field
 from pairings.engine.types import CRITERIA
 from pairings.engine.weights import encoder
 from pairings.errors import NoPairingError
@@ -34,7 +34,7 @@ def pairings_of(items: list[str]) -> Iterator[list[tuple[str, str]]]:
 def key_of(costs: list[Cost]) -> tuple[object, ...]:
     """Lexicographic key of a whole pairing, straight from rules.md S1-S6."""
     sums = [sum(c[k] for c in costs) for k in range(len(CRITERIA))]
-    gaps = tuple(sorted((c[3] for c in costs), reverse=True))
+    gaps = tuple(sorted((c[GAP] for c in costs), reverse=True))
     return tuple(gaps if name == "score_gap" else sums[k] for k, name in enumerate(CRITERIA))
 
 

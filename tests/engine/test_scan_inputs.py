@@ -8,6 +8,7 @@ import numpy as np
 import pytest
 
 from pairings.engine import scan
+from pairings.engine.vector import WIDTH
 from pairings.engine.scan import _scan_c  # type: ignore[attr-defined]
 
 pytestmark = pytest.mark.skipif(not scan.available(), reason="the scan kernel is not built")
@@ -19,7 +20,8 @@ def _args(**change: Any) -> tuple[Any, ...]:
     """``_scan_c.prepare`` arguments for four players in two score groups, with ``change`` applied.
 
     Columns of a player row: units, grank, gsize, abs_sd, want, strength, breaks_first,
-    breaks_second, down1, up1, down2, up2, miss_first, miss_second (see ``scan.PairScan``).
+    breaks_second, down1, up1, down2, up2, miss_first, miss_second (see ``scan.PairScan``); then the
+    cost row's width and each criterion's column (``scan.layout``).
     """
     rows = np.zeros((4, 14), dtype=np.int64)
     rows[:, 0] = [2, 2, 0, 0]
@@ -29,10 +31,11 @@ def _args(**change: Any) -> tuple[Any, ...]:
         rows[i, k] = value
     ends = np.array(change.get("ends", [4, 4, 4, 4]), dtype=np.int64)
     rematch = np.array(change.get("rematch", [1, 11]), dtype=np.int64)
-    bound = np.array(change.get("bound", [2**40] * (LEVELS + 10)), dtype=np.int64)
+    bound = np.array(change.get("bound", [2**40] * (LEVELS + WIDTH - 1)), dtype=np.int64)
     history = bytes(4 * 8)
+    layout = scan.layout() if "layout" not in change else np.array(change["layout"], dtype=np.int64).tobytes()
     return (4, rows.tobytes(), ends.tobytes(), 1, history, history, rematch.tobytes(), b"", True, LEVELS,
-            bound.tobytes())
+            bound.tobytes(), change.get("width", WIDTH), layout)
 
 
 def test_valid_inputs_scan() -> None:
@@ -57,8 +60,14 @@ def test_valid_inputs_scan() -> None:
     ({"rematch": [11, 1]}, "sorted"),
     ({"rematch": [1, 1]}, "sorted"),
     ({"rematch": [1, 16]}, "outside the field"),
-    ({"bound": [2**40] * (LEVELS + 9) + [-1]}, "negative"),
-    ({"bound": [2**40] * (LEVELS + 9)}, "bound"),          # one entry short
+    ({"bound": [2**40] * (LEVELS + WIDTH - 2) + [-1]}, "negative"),
+    ({"bound": [2**40] * (LEVELS + WIDTH - 2)}, "bound"),  # one entry short
+    ({"width": 17}, "width"),
+    ({"width": 3}, "width"),                               # fewer columns than criteria the scan costs
+    ({"layout": list(range(8))}, "every criterion"),
+    ({"layout": [0, 1, 2, 3, 4, 5, 6, 7, WIDTH]}, "outside the cost row"),
+    ({"layout": [0, 1, 2, 3, 4, 5, 6, 7, -1]}, "outside the cost row"),
+    ({"layout": [0, 1, 2, 3, 4, 5, 6, 7, 7]}, "share a column"),
 ])
 def test_caller_errors_raise_value_error(change: dict[str, Any], says: str) -> None:
     with pytest.raises(ValueError, match=says):

@@ -19,7 +19,7 @@ import pytest
 from tests.engine.engine_support import random_history, state_of
 from pairings.engine import candidates, certificate, implicit, scan, sparse, weights
 from pairings.engine.blossom import Dual, perfect_matching
-from pairings.engine.criteria import Field
+from pairings.engine.criteria import REMATCH, Field
 from pairings.engine.vector import WIDTH, Arrays
 from pairings.fold import fold
 from pairings.simulate import simulate_events
@@ -95,7 +95,7 @@ def check_stats(c: Case) -> None:
     assert st.count == len(c.u)
     assert st.maxima == (tuple(int(x) for x in c.costs.max(axis=0)) if len(c.u) else (0,) * WIDTH)
     assert st.gaps == frozenset(c.costs[:, weights.GAP_INDEX].tolist())
-    assert st.rematch_free == int((c.costs[:, 0] == 0).sum())
+    assert st.rematch_free == int((c.costs[:, REMATCH] == 0).sum())
 
 
 def fits(c: Case) -> bool:
