@@ -19,7 +19,7 @@ import pytest
 
 from tests.engine.engine_support import random_history, state_of
 from pairings import costs
-from pairings.engine import candidates, draft_round
+from pairings.engine import draft_round, route
 from pairings.engine.criteria import GAP, Cost, Field
 from pairings.errors import NoPairingError
 
@@ -66,7 +66,7 @@ def test_draft_is_optimal_per_networkx(seed: int) -> None:
     fld = Field(state, rnd, state.available(rnd))
     order = list(fld.order)
     try:
-        pairs, bye = candidates.optimal_pairs(fld, order, (), reference=True)
+        pairs, bye = route.optimal_pairs(fld, order, (), reference=True)
     except NoPairingError:
         with pytest.raises(NoPairingError):
             draft_round(state)
