@@ -50,7 +50,7 @@ PRUNE_WINDOW = 2
 PRUNE_BEST = 4
 """... plus each vertex's heaviest edges."""
 PRUNE_ADD = 4
-"""Per vertex, the most violated edges added after a failed certificate."""
+"""Per vertex, the most violated edges added after the first failed certificate (doubled after each)."""
 PRUNE_ROUNDS = 6
 """Pruned solves before the full graph is solved instead."""
 ROW_PAIRS = 1 << 22
@@ -357,14 +357,14 @@ def certified(n: int, u: IntArray, v: IntArray, w: AnyArray, seed: NDArray[np.bo
     reduced cost, with the subgraph's own certificate (dual objective equal
     to the matching's weight), proves the matching optimal on all edges
     (:mod:`pairings.engine.certificate`). Else add each vertex's most
-    violated edges and repeat; after :data:`PRUNE_ROUNDS` solves (or a
+    violated edges (twice as many each time) and repeat; after :data:`PRUNE_ROUNDS` solves (or a
     subgraph without a perfect matching) the whole graph is solved.
     """
     if PRUNE and len(u) > 4 * n:
         score = w if w.dtype != object else w.astype(float)
         mask = seed | _best_per_vertex(u, v, score, np.ones(len(u), dtype=bool), PRUNE_BEST)
         start: tuple[Sequence[tuple[int, int]], blossom.Dual | None] = ((), None)
-        for _ in range(PRUNE_ROUNDS):
+        for attempt in range(PRUNE_ROUNDS):
             idx = np.flatnonzero(mask)
             found = blossom.perfect_matching_arrays(n, u[idx], v[idx], w[idx], *start)
             if found is None:
@@ -374,6 +374,6 @@ def certified(n: int, u: IntArray, v: IntArray, w: AnyArray, seed: NDArray[np.bo
             bad = rc < 0
             if not bad.any() and certify(n, u[idx], v[idx], w[idx], pairs, dual):
                 return found
-            mask |= _best_per_vertex(u, v, -rc, bad, PRUNE_ADD)
+            mask |= _best_per_vertex(u, v, -rc, bad, PRUNE_ADD << attempt)
             start = (pairs, dual)
     return blossom.perfect_matching_arrays(n, u, v, w)
