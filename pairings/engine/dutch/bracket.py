@@ -37,7 +37,10 @@ Method (ours; the criteria are C.04.3's):
   (4) "the S2-to-S1 group holds the lowest differing BSN": a reward likewise;
   then the transpositions, lexicographic in the partners' BSNs, a block of S1
   places at a time (digit base ``len(S2) + 1``), each block's pairs fixed
-  before the next. Digits that would pass the compiled kernel's integers are
+  before the next; an S1 player whose partner in the current (optimal)
+  matching is the first of his possible partners is fixed without a solve,
+  and a term below each block's digits pairs the later S1 players in BSN
+  order so that most of them are. Digits that would pass the compiled kernel's integers are
   avoided by the block sizes; the pure-Python blossom takes any size.
 - A last bracket that cannot be paired without pairing MDPs with each other
   is paired as one homogeneous group (the collapsed last bracket: our reading

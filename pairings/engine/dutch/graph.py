@@ -20,9 +20,12 @@ this module builds them and solves them at scale (ours):
   every edge, marks the full graph's optimal face as an unpruned solve's does
   (complementary slackness holds for every optimal dual). Edges with negative
   reduced cost are added and the solve repeated, warm-started.
-- **Tie-break solves** run on the tight edges only, warm-started from the
-  current matching (an optimal one, which the next solve mostly keeps), with
-  64-bit weights whenever they fit.
+- **Tie-break solves** run on the tight edges only. Those whose weights fit
+  64 bits (the exchange steps) are pruned and certified the same way, seeded
+  with the current matching (an optimal one, which the next solve mostly
+  keeps); the transpositions' wide digits are solved on every tight edge,
+  warm-started from the current matching (pruning them cost more than it saved
+  when measured: the seed cannot see the digits' order in floating point).
 """
 
 from __future__ import annotations
