@@ -63,13 +63,13 @@ def test_the_narrow_pruning_needs_the_certificate(monkeypatch: pytest.MonkeyPatc
     monkeypatch.setattr(graph, "PRUNE_BEST", 1)
     monkeypatch.setattr(graph, "PRUNE_ADD", 1)
     solves: list[int] = []
+    repeats: list[int] = []
     real = graph.blossom.perfect_matching_arrays
+    certified = graph.certified
 
     def counted(*args: object, **kw: object) -> object:
         solves.append(1)
         return real(*args, **kw)  # type: ignore[arg-type]
-
-    certified = graph.certified
 
     def rounds(*args: object) -> object:
         solves.clear()
@@ -77,7 +77,6 @@ def test_the_narrow_pruning_needs_the_certificate(monkeypatch: pytest.MonkeyPatc
         repeats.append(len(solves))
         return out
 
-    repeats: list[int] = []
     monkeypatch.setattr(graph.blossom, "perfect_matching_arrays", counted)
     monkeypatch.setattr(graph, "certified", rounds)
     draft_round(_state(60, 4, 3))
