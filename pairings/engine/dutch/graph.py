@@ -139,8 +139,9 @@ class BracketGraph:
     Built once per form (:mod:`.bracket`): *compact*, the members and
     float places; *fast*, the members and the next score group, doubled (its
     leftovers cost C.7, :func:`.criteria.next_float_costs`); *exact*, the
-    PPB's form (no next group, no C.7), the members and every lower player,
-    joined at no cost below the bracket, and a bye vertex when the count is odd.
+    PPB's form (no next group, no C.7), the members and every lower player (a
+    member matched to one floats; two lower players meet at no cost here), and
+    a bye vertex for the PAB-eligible when the count is odd.
     :meth:`optimise` solves the quality layers and keeps the optimal dual;
     afterwards every edge carries a penalty (1 if its reduced cost is not
     zero, plus 1 for each blossom with a positive dual it crosses). By
