@@ -168,7 +168,9 @@ def _weights(w: Sequence[int] | NDArray[Any], bound: int = WEIGHT_BOUND) -> byte
         return _int128_bytes(np.array(values, dtype=np.int64))
     if top >= bound or low <= -bound:
         return None
-    return b"".join(int(x).to_bytes(16, "little", signed=True) for x in values)
+    exact = np.array(values, dtype=object)
+    low_limb = (exact & (2**64 - 1)).astype(np.uint64).view(np.int64)
+    return np.stack([low_limb, (exact >> 64).astype(np.int64)], axis=1).astype("<i8").tobytes()
 
 
 def _int128_bytes(x: NDArray[np.int64]) -> bytes:

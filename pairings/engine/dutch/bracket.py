@@ -3,10 +3,10 @@
 Method (ours; the criteria are C.04.3's):
 
 - **Weights.** Every edge carries the counts of :mod:`.criteria` (C.5-C.19);
-  :func:`encode` packs them into one integer per edge, each layer's radix above
+  :func:`.graph.encode` packs them into one integer per edge, each layer's radix above
   the largest total any perfect matching can reach, so the maximum-weight
   perfect matching minimises the layers lexicographically, exactly.
-- **Graphs** (:class:`_Graph`), tried in this order, each used only when it is
+- **Graphs** (:class:`.graph.BracketGraph`, built and solved at scale there), tried in this order, each used only when it is
   provably exact for the bracket at hand (:meth:`BracketSolver.run`):
   *compact*, the bracket alone plus as few float places as let it be paired;
   *fast*, the bracket and the next score group, each vertex given a private
@@ -44,7 +44,10 @@ Method (ours; the criteria are C.04.3's):
   (4) "the S2-to-S1 group holds the lowest differing BSN": a reward likewise;
   then the transpositions, lexicographic in the partners' BSNs, a block of S1
   places at a time (digit base ``len(S2) + 1``), each block's pairs fixed
-  before the next. Digits that would pass the compiled kernel's integers are
+  before the next; an S1 player whose partner in the current (optimal)
+  matching is the first of his possible partners is fixed without a solve,
+  and a term below each block's digits pairs the later S1 players in BSN
+  order so that most of them are. Digits that would pass the compiled kernel's integers are
   avoided by the block sizes; the pure-Python blossom takes any size.
 - A last bracket (the CLB included) that cannot be paired without pairing
   MDPs with each other is paired as one homogeneous group (our decision).
@@ -59,63 +62,12 @@ import numpy as np
 from numpy.typing import NDArray
 
 from pairings.engine import blossom
-from pairings.engine.certificate import reduced_costs
-from pairings.engine.dutch.criteria import (
-    Bracket, Costs, float_costs, next_float_costs, next_pair_costs, pair_costs,
-)
+from pairings.engine.dutch.criteria import Bracket, Costs, float_costs, next_float_costs, next_pair_costs, pair_costs
 from pairings.engine.dutch.entrants import Entrants
+from pairings.engine.dutch.graph import BracketGraph as _Graph
 from pairings.state import PlayerId
 
 Pair = tuple[PlayerId, PlayerId]
-CostEdge = tuple[int, int, Costs]
-
-
-def encode(edges: Sequence[CostEdge]) -> list[tuple[int, int, int]]:
-    """Integer weights whose maximum perfect matching minimises the cost layers lexicographically.
-
-    A layer's total over a matching is at most half the sum, over vertices,
-    of the layer's largest value on an edge at that vertex (each matched
-    edge's value is at most the mean of its two ends' largest values); its
-    radix is one more. Edges may share cost objects: each distinct one is
-    packed once.
-    """
-    if not edges:
-        return []
-    distinct: dict[int, Costs] = {}
-    which = np.empty(len(edges), dtype=np.int64)
-    slot: dict[int, int] = {}
-    for k, (_, _, c) in enumerate(edges):
-        key = id(c)
-        if key not in slot:
-            slot[key] = len(slot)
-            distinct[slot[key]] = c
-        which[k] = slot[key]
-    layers = sorted({layer for c in distinct.values() for layer, n in c.items() if n})
-    if not layers:
-        return [(u, v, 1) for u, v, _ in edges]
-    col = {layer: j for j, layer in enumerate(layers)}
-    table = np.zeros((len(distinct), len(layers)), dtype=np.int64)
-    for i, c in distinct.items():
-        for layer, n in c.items():
-            if n:
-                table[i, col[layer]] = n
-    u = np.fromiter((e[0] for e in edges), dtype=np.int64, count=len(edges))
-    v = np.fromiter((e[1] for e in edges), dtype=np.int64, count=len(edges))
-    size = int(max(u.max(), v.max())) + 1
-    top = np.zeros((size, len(layers)), dtype=np.int64)
-    values = table[which]
-    np.maximum.at(top, u, values)
-    np.maximum.at(top, v, values)
-    bound = (top.sum(axis=0) + 1) // 2
-    scale: list[int] = [0] * len(layers)
-    step = 1
-    for j in reversed(range(len(layers))):
-        scale[j] = step
-        step *= int(bound[j]) + 1
-    packed = [sum(int(n) * scale[j] for j, n in enumerate(row) if n) for row in table.tolist()]
-    costs = [packed[k] for k in which.tolist()]
-    ceiling = max(costs) + 1
-    return [(a, b, ceiling - cost) for (a, b, _), cost in zip(edges, costs)]
 
 
 def completable(ent: Entrants, players: Sequence[PlayerId]) -> bool:
@@ -151,147 +103,6 @@ def _dirac(ent: Entrants, players: Sequence[PlayerId]) -> bool:
         if n - 1 - blocked < n / 2:
             return False
     return True
-
-
-Edge = tuple[int, int, Costs, "Pair | None"]
-"""``(u, v, quality costs, the bracket pair it stands for or None)``."""
-
-
-class _Graph:
-    """A bracket's matching graph, its quality-optimal face, and lexicographic tie-break solves.
-
-    Built once per form (fast or exact). :meth:`optimise` solves the quality
-    layers and keeps the optimal dual; afterwards every edge carries a penalty
-    (1 if its reduced cost is not zero, plus 1 for each blossom with a positive
-    dual it crosses). By complementary slackness a perfect matching is
-    quality-optimal exactly when all its edges are tight and it crosses every
-    such blossom once, i.e. when its penalty is the least possible, so the
-    tie-break solves minimise (penalty, digits) on small integers instead of
-    (quality, digits) on large ones. Removing both players of a pair that the
-    current optimum holds, or edges that it does not use, keeps that property
-    (an optimal matching survives, and crossing counts keep their parity).
-    """
-
-    def __init__(self, solver: "BracketSolver", form: str, slots: int = 0) -> None:
-        self.solver = solver
-        ent, br = solver.ent, solver.br
-        exact = form == "exact"
-        self.vertices = list(br.members) + (list(br.lower) if exact else list(br.next) if form == "fast" else [])
-        self.real = len(self.vertices)
-        self.index = {p: i for i, p in enumerate(self.vertices)}
-        idx = self.index
-        edges: list[Edge] = []
-        for i, u in enumerate(self.vertices):
-            for v in self.vertices[i + 1:]:
-                pair: Pair | None = None
-                if u in solver.members and v in solver.members:
-                    if br.allows(ent, u, v):
-                        c, pair = solver.pair_cost(u, v), (u, v)
-                    elif exact and not br.last and ent.compatible(u, v):  # both float, meet further down
-                        c = solver.lone(u) + solver.lone(v)
-                    else:
-                        continue
-                elif not ent.compatible(u, v):
-                    continue
-                elif u in solver.members:
-                    c = solver.below(u, v)
-                elif u in solver.next and v in solver.next:
-                    c = solver.shared(("next pair", ent.score[u], ent.score[v]),
-                                      lambda: next_pair_costs(ent, br, u, v))
-                elif u in solver.next or v in solver.next:
-                    c = solver.shared(("next float", u if u in solver.next else v),
-                                      lambda: next_float_costs(ent, br, u if u in solver.next else v))
-                else:
-                    c = solver.shared(("nothing",), Counter)
-                edges.append((idx[u], idx[v], c, pair))
-        alone = [solver.alone(u, exact) for u in self.vertices]
-        n = self.real
-        self.copies = 2 if form == "fast" else 1
-        if form == "compact":  # ``slots`` places to float to, each open to every member
-            for k in range(slots):
-                edges += [(i, n + k, solver.floats(u), None) for i, u in enumerate(self.vertices)
-                          if not br.last or u in ent.pab_eligible]
-                edges += [(n + k, n + j, solver.shared(("nothing",), Counter), None) for j in range(k + 1, slots)]
-            n += slots
-        elif exact:
-            if n % 2:
-                edges += [(i, n, c, None) for i, c in enumerate(alone) if c is not None]
-                n += 1
-        else:
-            edges += [(u + n, v + n, c, pair) for u, v, c, pair in edges]
-            edges += [(i, i + n, c + c, None) for i, c in enumerate(alone) if c is not None]
-            n *= 2
-        self.n = n
-        self.edges = edges
-        self.mate: dict[int, int] = {}
-
-    def optimise(self) -> bool:
-        """Solve the quality layers; False when no perfect matching exists."""
-        weights = encode([(u, v, c) for u, v, c, _ in self.edges])
-        found = blossom.perfect_matching(self.n, weights)
-        if found is None:
-            return False
-        pairs, dual = found
-        self._read(pairs)
-        u = np.array([e[0] for e in weights], dtype=np.int64)
-        v = np.array([e[1] for e in weights], dtype=np.int64)
-        w = np.array([e[2] for e in weights], dtype=object)
-        tight = reduced_costs(u, v, w, dual) == 0
-        crossings = np.zeros(len(weights), dtype=np.int64)
-        for group, z in dual.blossoms:
-            if z > 0:
-                inside = np.zeros(self.n, dtype=bool)
-                inside[list(group)] = True
-                crossings += inside[u] != inside[v]
-        # An optimal matching uses tight edges only: the others can go.
-        kept = [(a, b, pair, x) for (a, b, _, pair), x, t in zip(self.edges, crossings.tolist(), tight.tolist()) if t]
-        self.eu = np.array([e[0] for e in kept], dtype=np.int64)
-        self.ev = np.array([e[1] for e in kept], dtype=np.int64)
-        self.pen = np.array([e[3] for e in kept], dtype=np.int64)
-        self.pu = np.array([self.index[e[2][0]] if e[2] else -1 for e in kept], dtype=np.int64)
-        self.pv = np.array([self.index[e[2][1]] if e[2] else -1 for e in kept], dtype=np.int64)
-        self.cu = self.eu % self.real if self.copies == 2 else self.eu
-        self.cv = self.ev % self.real if self.copies == 2 else self.ev
-        self.keep = np.ones(len(kept), dtype=bool)
-        self.live = np.ones(self.n, dtype=bool)
-        return True
-
-    def _read(self, pairs: Iterable[tuple[int, int]]) -> None:
-        for a, b in pairs:
-            self.mate[a], self.mate[b] = b, a
-
-    def tiebreak(self, digits: NDArray[Any], limit: int) -> None:
-        """Among the quality-optimal matchings left, one with the least ``digits`` (one value per edge).
-
-        ``limit`` exceeds the digits' sum over any matching, so one more
-        penalty always outweighs them.
-        """
-        use = self.keep & self.live[self.eu] & self.live[self.ev]
-        local = np.cumsum(self.live) - 1
-        cost = self.pen[use].astype(object) * limit + np.asarray(digits, dtype=object)[use]
-        ceiling = (max(cost.tolist()) if len(cost) else 0) + 1
-        found = blossom.perfect_matching_arrays(int(self.live.sum()), local[self.eu[use]], local[self.ev[use]],
-                                                ceiling - cost)
-        assert found is not None, "a quality-optimal matching survives every restriction"
-        order = np.flatnonzero(self.live)
-        self._read((int(order[a]), int(order[b])) for a, b in found[0])
-
-    def drop(self, bad: NDArray[np.bool_]) -> None:
-        """Remove the edges ``bad`` marks (the current matching uses none of them)."""
-        self.keep &= ~bad
-
-    def remove(self, players: Iterable[PlayerId]) -> None:
-        """Take the players (a decided pair) out of every copy."""
-        for p in players:
-            i = self.index[p]
-            self.live[i] = False
-            if self.copies == 2:
-                self.live[i + self.real] = False
-
-    def partner(self, p: PlayerId) -> PlayerId | None:
-        """``p``'s partner inside the bracket in the current matching (None: floats)."""
-        m = self.mate[self.index[p]]
-        return self.vertices[m] if m < self.real and self.vertices[m] in self.solver.members else None
 
 
 class BracketSolver:
@@ -330,7 +141,7 @@ class BracketSolver:
         return (self.ent.score[p], pref.side, pref.strength, self.ent.floats[p])
 
     def shared(self, key: tuple[object, ...], make: Callable[[], Costs]) -> Costs:
-        """One cost object per key (edges share them; :func:`encode` packs each once). Never mutated."""
+        """One cost object per key (edges share them; :func:`.graph.encode` packs each once). Never mutated."""
         if key not in self.memo:
             self.memo[key] = make()
         return self.memo[key]
@@ -488,7 +299,11 @@ class BracketSolver:
             chosen = self._membership(g, leads, count, relevant, lead, swaps, swap_limit, heads)
         self._settle(g, leads, chosen, relevant, lead)
         order = sorted(chosen, key=leads.index)
-        budget = 2 ** max(8, 100 - g.n.bit_length())
+        # Below the block's digits, a term that pairs the S1 players after the block in BSN order with
+        # their partners (largest sum of rank products), so the next S1 players mostly need no solve.
+        spread = g.copies * count * (len(leads) + 1) * (len(follows) + 1) + 1
+        after = np.where(relevant, (len(leads) + 1 - lrank[lead]) * frank[follow], 0)
+        budget = 2 ** max(8, 100 - g.n.bit_length() - spread.bit_length())
         out: list[Pair] = []
         k = 0
         while k < len(order):
@@ -497,22 +312,40 @@ class BracketSolver:
             ids = np.flatnonzero(relevant & g.keep & g.live[g.eu] & g.live[g.ev])
             ids = ids[np.argsort(lead[ids], kind="stable")]
             heads_of = lead[ids]
+
+            def edges_of(x: PlayerId) -> tuple[NDArray[np.int64], NDArray[np.int64]]:
+                """``x``'s edges still live, and the ranks of their partners."""
+                at = g.index[x]
+                mine = ids[np.searchsorted(heads_of, at, "left"):np.searchsorted(heads_of, at, "right")]
+                mine = mine[g.live[g.eu[mine]] & g.live[g.ev[mine]]]
+                return mine, np.unique(frank[follow[mine]])
+
+            # An S1 player whose partner in the current (optimal) matching is the first of his possible
+            # partners has it in the first candidate too: fixed without a solve.
+            while k < len(order):
+                y = g.partner(order[k])
+                options = edges_of(order[k])[1]
+                if y is None or not len(options) or frank[g.index[y]] != options[0]:
+                    break
+                out.append((order[k], y))
+                g.remove((order[k], y))
+                k += 1
+            if k == len(order):
+                break
             block: list[tuple[PlayerId, NDArray[np.int64], NDArray[np.int64]]] = []
             product = 1
             for x in order[k:]:
-                lo, hi = np.searchsorted(heads_of, g.index[x], "left"), np.searchsorted(heads_of, g.index[x], "right")
-                mine = ids[lo:hi]
-                options = np.unique(frank[follow[mine]])
+                mine, options = edges_of(x)
                 if block and product * len(options) > budget:
                     break
                 block.append((x, mine, options))
                 product *= max(1, len(options))
-            digits = np.zeros(len(g.eu), dtype=object)
+            digits = after.astype(object)
             weight = product
             for x, mine, options in block:
                 weight //= max(1, len(options))
-                digits[mine] = np.searchsorted(options, frank[follow[mine]]).astype(object) * weight
-            g.tiebreak(digits, g.copies * product)
+                digits[mine] = np.searchsorted(options, frank[follow[mine]]).astype(object) * (weight * spread)
+            g.tiebreak(digits, g.copies * product * spread)
             for x, _, _ in block:
                 y = g.partner(x)
                 assert y is not None

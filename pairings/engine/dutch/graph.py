@@ -1,0 +1,383 @@
+"""A bracket's matching graph as arrays, its optimal solve and the tie-break solves (C.04.3 via matching).
+
+The graph forms and what their edges mean are in :mod:`.bracket`'s notes;
+this module builds them and solves them at scale (ours):
+
+- **Edges as arrays.** A bracket of ``k`` players has about ``k**2 / 2``
+  edges, but few distinct costs: outside topscorers' pairs a pair's costs
+  depend only on the two players' profiles (score, colour preference, float
+  history, and whether he is one of the bracket's MDPs, which decides between
+  C.12 and C.16; :meth:`.bracket.BracketSolver.pair_cost`). Edges are enumerated in
+  numpy, row by row, and each gets the index of its cost object in a small
+  table (:class:`CostTable`), one Python call per distinct profile pair;
+  :func:`encode` packs the table, not the edges.
+- **Pruned solve with a certificate** (:data:`PRUNE`). The quality solve runs
+  on each vertex's edges nearest the rank-order ideal (``S1[i]`` with
+  ``S2[i]``) plus its heaviest ones; its Edmonds dual is checked on every edge
+  of the full graph (:func:`pairings.engine.certificate.reduced_costs`): an
+  edge left out with a non-negative reduced cost cannot improve the matching,
+  so once none is negative the matching is optimal on the full graph (LP
+  duality, :mod:`pairings.engine.certificate`), and the dual, feasible on
+  every edge, marks the full graph's optimal face as an unpruned solve's does
+  (complementary slackness holds for every optimal dual). Edges with negative
+  reduced cost are added and the solve repeated, warm-started.
+- **Tie-break solves** run on the tight edges only. Those whose weights fit
+  64 bits (the exchange steps) are pruned and certified the same way, seeded
+  with the current matching (an optimal one, which the next solve mostly
+  keeps); the transpositions' wide digits are solved on every tight edge,
+  warm-started from the current matching (pruning them cost more than it saved
+  when measured: the seed cannot see the digits' order in floating point).
+"""
+
+from __future__ import annotations
+
+from collections import Counter
+from typing import TYPE_CHECKING, Any, Callable, Iterable, Sequence
+
+import numpy as np
+from numpy.typing import NDArray
+
+from pairings.engine import blossom
+from pairings.engine.candidates import index_pairs
+from pairings.engine.certificate import certify, reduced_costs
+from pairings.engine.dutch.criteria import Costs, next_pair_costs
+from pairings.engine.sparse import best_per_vertex
+from pairings.engine.vector import AnyArray, IntArray
+from pairings.state import PlayerId, Side
+
+if TYPE_CHECKING:
+    from pairings.engine.dutch.bracket import BracketSolver
+
+PRUNE = True
+"""Solve the quality layers on a pruned graph and certify it on every edge (tests set it False to compare)."""
+PRUNE_WINDOW = 2
+"""Pairs kept around the rank-order ideal, either side (``S1[i]`` with ``S2[i - 2..i + 2]``)."""
+PRUNE_BEST = 4
+"""... plus each vertex's heaviest edges."""
+PRUNE_ADD = 4
+"""Per vertex, the most violated edges added after the first failed certificate (doubled after each)."""
+PRUNE_ROUNDS = 6
+"""Pruned solves before the full graph is solved instead."""
+ROW_PAIRS = 1 << 22
+"""Vertex pairs enumerated at a time (memory of the exact form's graphs)."""
+SMALL = 2**62
+"""Weights below this go to the kernel as int64 (no Python integer per edge)."""
+
+
+class CostTable:
+    """Distinct cost objects of a graph's edges, each once (edges hold their index)."""
+
+    def __init__(self) -> None:
+        self.costs: list[Costs] = []
+        self._slot: dict[int, int] = {}
+
+    def add(self, c: Costs) -> int:
+        key = id(c)  # cost objects are shared and never mutated (BracketSolver.shared)
+        if key not in self._slot:
+            self._slot[key] = len(self.costs)
+            self.costs.append(c)
+        return self._slot[key]
+
+    def classes(self, keys: IntArray, make: Callable[[int], Costs], memo: dict[int, int]) -> IntArray:
+        """Per edge, the index of its cost: one ``make(first edge)`` call per distinct ``keys`` value."""
+        if not len(keys):
+            return np.zeros(0, dtype=np.int64)
+        values, first, inverse = np.unique(keys, return_index=True, return_inverse=True)
+        ids = np.empty(len(values), dtype=np.int64)
+        for k, (key, at) in enumerate(zip(values.tolist(), first.tolist())):
+            if key not in memo:
+                memo[key] = self.add(make(at))
+            ids[k] = memo[key]
+        return ids[inverse.reshape(-1)]
+
+
+def encode(u: IntArray, v: IntArray, which: IntArray, costs: Sequence[Costs]) -> AnyArray:
+    """Integer weights whose maximum perfect matching minimises the cost layers lexicographically.
+
+    Edge ``k`` costs ``costs[which[k]]``. A layer's total over a matching is
+    at most half the sum, over vertices, of the layer's largest value on an
+    edge at that vertex (each matched edge's value is at most the mean of its
+    two ends' largest values); its radix is one more. int64 when the weights
+    fit, else Python integers.
+    """
+    if not len(u):
+        return np.zeros(0, dtype=np.int64)
+    layers = sorted({layer for c in costs for layer, n in c.items() if n})
+    if not layers:
+        return np.ones(len(u), dtype=np.int64)
+    col = {layer: j for j, layer in enumerate(layers)}
+    table = np.zeros((len(costs), len(layers)), dtype=np.int64)
+    for i, c in enumerate(costs):
+        for layer, n in c.items():
+            if n:
+                table[i, col[layer]] = n
+    size = int(max(u.max(), v.max())) + 1
+    top = np.zeros((size, len(layers)), dtype=np.int64)
+    for ends in (u, v):  # each (vertex, cost) once
+        seen = np.unique(ends * len(costs) + which)
+        np.maximum.at(top, seen // len(costs), table[seen % len(costs)])
+    bound = (top.sum(axis=0) + 1) // 2
+    scale: list[int] = [0] * len(layers)
+    step = 1
+    for j in reversed(range(len(layers))):
+        scale[j] = step
+        step *= int(bound[j]) + 1
+    packed = [sum(int(n) * scale[j] for j, n in enumerate(row) if n) for row in table.tolist()]
+    used = np.unique(which)
+    ceiling = max(packed[k] for k in used.tolist()) + 1
+    dtype: Any = np.int64 if ceiling < SMALL else object
+    return np.array([ceiling - x for x in packed], dtype=dtype)[which]
+
+
+def _side_code(side: Side | None) -> int:
+    return 0 if side is None else 1 if side is Side.FIRST else 2
+
+
+class BracketGraph:
+    """A bracket's matching graph, its quality-optimal face, and lexicographic tie-break solves.
+
+    Built once per form (:mod:`.bracket`): *compact*, the members and
+    float places; *fast*, the members and the next score group, doubled (its
+    leftovers cost C.7, :func:`.criteria.next_float_costs`); *exact*, the
+    PPB's form (no next group, no C.7), the members and every lower player (a
+    member matched to one floats; two lower players meet at no cost here), and
+    a bye vertex for the PAB-eligible when the count is odd.
+    :meth:`optimise` solves the quality layers and keeps the optimal dual;
+    afterwards every edge carries a penalty (1 if its reduced cost is not
+    zero, plus 1 for each blossom with a positive dual it crosses). By
+    complementary slackness a perfect matching is quality-optimal exactly
+    when all its edges are tight and it crosses every such blossom once, i.e.
+    when its penalty is the least possible, so the tie-break solves minimise
+    (penalty, digits) on small integers instead of (quality, digits) on large
+    ones. Removing both players of a pair that the current optimum holds, or
+    edges that it does not use, keeps that property (an optimal matching
+    survives, and crossing counts keep their parity).
+    """
+
+    def __init__(self, solver: "BracketSolver", form: str, slots: int = 0) -> None:
+        self.solver = solver
+        br = solver.br
+        exact = form == "exact"
+        assert not (exact and br.next), "the exact form is the PPB's, which has no next bracket (no C.7)"
+        self.vertices = list(br.members) + (list(br.lower) if exact else list(br.next) if form == "fast" else [])
+        self.real = len(self.vertices)
+        self.index = {p: i for i, p in enumerate(self.vertices)}
+        self.table = CostTable()
+        u, v, which, pair, rank = self._pairs(exact)
+        n = self.real
+        self.copies = 2 if form == "fast" else 1
+        alone = [solver.alone(p, exact) for p in self.vertices]
+        extra: list[tuple[int, int, Costs]] = []
+        if form == "compact":  # ``slots`` places to float to, each open to every member
+            nothing = solver.shared(("nothing",), Counter)
+            for k in range(slots):
+                extra += [(i, n + k, solver.floats(p)) for i, p in enumerate(self.vertices)
+                          if not br.last or p in solver.ent.pab_eligible]
+                extra += [(n + k, n + j, nothing) for j in range(k + 1, slots)]
+            n += slots
+        elif exact:
+            if n % 2:
+                extra += [(i, n, c) for i, c in enumerate(alone) if c is not None]
+                n += 1
+        else:
+            u, v = np.concatenate([u, u + n]), np.concatenate([v, v + n])
+            which, pair, rank = np.tile(which, 2), np.tile(pair, 2), np.tile(rank, 2)
+            extra += [(i, i + n, c + c) for i, c in enumerate(alone) if c is not None]
+            n *= 2
+        self.n = n
+        self.u = np.concatenate([u, np.array([e[0] for e in extra], dtype=np.int64)])
+        self.v = np.concatenate([v, np.array([e[1] for e in extra], dtype=np.int64)])
+        self.which = np.concatenate([which, np.array([self.table.add(e[2]) for e in extra], dtype=np.int64)])
+        self.pair = np.concatenate([pair, np.zeros(len(extra), dtype=bool)])
+        self.rank = np.concatenate([rank, np.zeros(len(extra), dtype=np.int64)])
+        self.mate: dict[int, int] = {}
+
+    def _pairs(self, exact: bool) -> tuple[IntArray, IntArray, IntArray, NDArray[np.bool_], IntArray]:
+        """The edges between real vertices, in row order: ends, cost index, bracket pair or not, rank."""
+        solver, ent, br, table = self.solver, self.solver.ent, self.solver.br, self.table
+        vx = self.vertices
+        n = len(vx)
+        member = np.array([p in solver.members for p in vx], dtype=bool)
+        nxt = np.array([p in solver.next for p in vx], dtype=bool)
+        mdp = np.array([br.heterogeneous and p in br.mdps for p in vx], dtype=bool)
+        must = np.array([_side_code(ent.must[p]) for p in vx], dtype=np.int64)
+        topscorer = np.array([p in ent.topscorers for p in vx], dtype=bool)
+        score = np.array([ent.score[p] for p in vx], dtype=np.int64)
+        profiles: dict[object, int] = {}
+        # The MDP flag too: the higher player's downfloat counts for C.16 if he is an MDP, else for C.12.
+        profile = np.array([profiles.setdefault(("top", p) if p in ent.topscorers else (solver.profile(p), bool(m)),
+                                                len(profiles)) for p, m in zip(vx, mdp)], dtype=np.int64)
+        banned = self._banned()
+        half = max(1, int(member.sum()) // 2)
+        memos: list[dict[int, int]] = [{} for _ in range(4)]
+        us, vs, whiches, pairs, ranks = [], [], [], [], []
+        row = 0
+        while row < n:
+            stop = row + 1
+            while stop < n and (stop - row) * (n - row) < ROW_PAIRS:
+                stop += 1
+            i, j = index_pairs(np.zeros(n, dtype=np.int64), None, range(row, stop))
+            start = row * (2 * n - row - 1) // 2  # position of the pair (row, row + 1) in row order
+            clear = np.ones(len(i), dtype=bool)
+            hit = banned[(banned >= start) & (banned < start + len(i))] - start
+            clear[hit] = False
+            clear &= ~((must[i] > 0) & (must[i] == must[j]) & ~(topscorer[i] | topscorer[j]))  # C.3
+            row = stop
+            both = member[i] & member[j]
+            allowed = both & clear & ~(mdp[i] & mdp[j])
+            which = np.full(len(i), -1, dtype=np.int64)
+            a, b = i[allowed], j[allowed]
+            which[allowed] = table.classes(profile[a] * n + profile[b],
+                                           lambda k: solver.pair_cost(vx[a[k]], vx[b[k]]), memos[0])
+            if exact and not br.last:  # both float and meet further down (only MDP-MDP pairs)
+                for k in np.flatnonzero(both & clear & ~allowed).tolist():
+                    which[k] = table.add(solver.lone(vx[i[k]]) + solver.lone(vx[j[k]]))
+            down = member[i] & ~member[j] & clear
+            meet = down & nxt[j]
+            a, b = i[meet], j[meet]
+            which[meet] = table.classes(a * (score.max() + 1) + score[b],
+                                        lambda k: solver.below(vx[a[k]], vx[b[k]]), memos[1])
+            lone = down & ~nxt[j]
+            a = i[lone]
+            which[lone] = table.classes(a, lambda k: solver.lone(vx[a[k]]), memos[2])
+            rest = ~member[i] & clear
+            both_next = rest & nxt[i] & nxt[j]
+            a, b = i[both_next], j[both_next]
+            which[both_next] = table.classes(
+                score[a] * (score.max() + 1) + score[b],
+                lambda k: solver.shared(("next pair", ent.score[vx[a[k]]], ent.score[vx[b[k]]]),
+                                        lambda: next_pair_costs(ent, br, vx[a[k]], vx[b[k]])), memos[3])
+            # Lower players meeting each other (exact form, whose PPB has no next group): no cost here.
+            which[rest & ~nxt[i] & ~nxt[j]] = table.add(solver.shared(("nothing",), Counter))
+            keep = which >= 0
+            i, j = i[keep], j[keep]
+            us.append(i)
+            vs.append(j)
+            whiches.append(which[keep])
+            pairs.append(allowed[keep])
+            ranks.append(np.abs(j - i - np.where(member[i] & member[j], half, 1)))
+        empty = np.zeros(0, dtype=np.int64)
+        return (np.concatenate(us) if us else empty, np.concatenate(vs) if vs else empty,
+                np.concatenate(whiches) if whiches else empty,
+                np.concatenate(pairs) if pairs else np.zeros(0, dtype=bool), np.concatenate(ranks) if ranks else empty)
+
+    def _banned(self) -> IntArray:
+        """Row-order positions of the vertex pairs that C.1 forbids (met before, or on the do-not-pair list)."""
+        ent, idx, n = self.solver.ent, self.index, self.real
+        out = []
+        for a, p in enumerate(self.vertices):
+            for q in ent.met[p]:
+                b = idx.get(q)
+                if b is not None and a < b:
+                    out.append(a * (2 * n - a - 1) // 2 + b - a - 1)
+        for f in ent.forbidden:
+            ends = sorted(idx[p] for p in f if p in idx)
+            if len(ends) == 2:
+                a, b = ends
+                out.append(a * (2 * n - a - 1) // 2 + b - a - 1)
+        return np.array(out, dtype=np.int64)
+
+    def optimise(self) -> bool:
+        """Solve the quality layers; False when no perfect matching exists."""
+        w = encode(self.u, self.v, self.which, self.table.costs)
+        found = certified(self.n, self.u, self.v, w, self.rank <= PRUNE_WINDOW)
+        if found is None:
+            return False
+        pairs, dual = found
+        self._read(pairs)
+        u, v = self.u, self.v
+        tight = reduced_costs(u, v, w, dual) == 0
+        crossings = np.zeros(len(u), dtype=np.int64)
+        for group, z in dual.blossoms:
+            if z > 0:
+                inside = np.zeros(self.n, dtype=bool)
+                inside[list(group)] = True
+                crossings += inside[u] != inside[v]
+        # An optimal matching uses tight edges only: the others can go.
+        self.eu, self.ev, self.pen = u[tight], v[tight], crossings[tight]
+        pair = self.pair[tight]
+        self.cu = self.eu % self.real if self.copies == 2 else self.eu
+        self.cv = self.ev % self.real if self.copies == 2 else self.ev
+        self.pu = np.where(pair, self.cu, -1)
+        self.pv = np.where(pair, self.cv, -1)
+        self.keep = np.ones(len(self.eu), dtype=bool)
+        self.live = np.ones(self.n, dtype=bool)
+        return True
+
+    def _read(self, pairs: Iterable[tuple[int, int]]) -> None:
+        for a, b in pairs:
+            self.mate[a], self.mate[b] = b, a
+
+    def tiebreak(self, digits: NDArray[Any], limit: int) -> None:
+        """Among the quality-optimal matchings left, one with the least ``digits`` (one value per edge).
+
+        ``limit`` exceeds the digits' sum over any matching, so one more
+        penalty always outweighs them.
+        """
+        use = self.keep & self.live[self.eu] & self.live[self.ev]
+        local = np.cumsum(self.live) - 1
+        cost = self.pen[use].astype(object) * limit + np.asarray(digits, dtype=object)[use]
+        ceiling = (max(cost.tolist()) if len(cost) else 0) + 1
+        w = ceiling - cost
+        n, u, v = int(self.live.sum()), local[self.eu[use]], local[self.ev[use]]
+        if ceiling < SMALL:  # the exchange steps' small weights: a pruned solve seeded with the current matching
+            mate = np.full(self.n, -1, dtype=np.int64)
+            for a, b in self.mate.items():
+                mate[a] = b
+            found = certified(n, u, v, w.astype(np.int64), mate[self.eu[use]] == self.ev[use])
+        else:  # the transpositions' wide digits: warm-started from the current matching
+            warm = [(int(local[a]), int(local[b])) for a, b in self.mate.items()
+                    if a < b and self.live[a] and self.live[b]]
+            found = blossom.perfect_matching_arrays(n, u, v, w, warm)
+        assert found is not None, "a quality-optimal matching survives every restriction"
+        order = np.flatnonzero(self.live)
+        self._read((int(order[a]), int(order[b])) for a, b in found[0])
+
+    def drop(self, bad: NDArray[np.bool_]) -> None:
+        """Remove the edges ``bad`` marks (the current matching uses none of them)."""
+        self.keep &= ~bad
+
+    def remove(self, players: Iterable[PlayerId]) -> None:
+        """Take the players (a decided pair) out of every copy."""
+        for p in players:
+            i = self.index[p]
+            self.live[i] = False
+            if self.copies == 2:
+                self.live[i + self.real] = False
+
+    def partner(self, p: PlayerId) -> PlayerId | None:
+        """``p``'s partner inside the bracket in the current matching (None: floats)."""
+        m = self.mate[self.index[p]]
+        return self.vertices[m] if m < self.real and self.vertices[m] in self.solver.members else None
+
+
+def certified(n: int, u: IntArray, v: IntArray, w: AnyArray, seed: NDArray[np.bool_]
+              ) -> tuple[list[tuple[int, int]], blossom.Dual] | None:
+    """A maximum-weight perfect matching of ``(u, v, w)`` and its dual, solved on few edges (:data:`PRUNE`).
+
+    Start from the ``seed`` edges and each vertex's heaviest ones; solve them
+    with the blossom (later rounds warm-started from the previous round's
+    matching and dual); check the dual on every edge: no negative
+    reduced cost, with the subgraph's own certificate (dual objective equal
+    to the matching's weight), proves the matching optimal on all edges
+    (:mod:`pairings.engine.certificate`). Else add each vertex's most
+    violated edges (twice as many each time) and repeat; after :data:`PRUNE_ROUNDS` solves (or a
+    subgraph without a perfect matching) the whole graph is solved.
+    """
+    if PRUNE and len(u) > 4 * n:
+        score = w if w.dtype != object else w.astype(float)
+        mask = seed | best_per_vertex(u, v, score, np.ones(len(u), dtype=bool), PRUNE_BEST)
+        start: tuple[Sequence[tuple[int, int]], blossom.Dual | None] = ((), None)
+        for attempt in range(PRUNE_ROUNDS):
+            idx = np.flatnonzero(mask)
+            found = blossom.perfect_matching_arrays(n, u[idx], v[idx], w[idx], *start)
+            if found is None:
+                break
+            pairs, dual = found
+            rc = reduced_costs(u, v, w, dual)
+            bad = rc < 0
+            if not bad.any() and certify(n, u[idx], v[idx], w[idx], pairs, dual):
+                return found
+            mask |= best_per_vertex(u, v, -rc, bad, PRUNE_ADD << attempt)
+            start = (pairs, dual)
+    return blossom.perfect_matching_arrays(n, u, v, w)
