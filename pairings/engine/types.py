@@ -14,7 +14,7 @@ from typing import Mapping
 from pairings.costs import LAYOUT
 from pairings.state import Bye, PlayerId
 
-ENGINE_VERSION = "1.3"
+ENGINE_VERSION = "1.4"
 """Recorded with every draft; bumped whenever the same log could yield a different draft."""
 
 CRITERIA: tuple[str, ...] = LAYOUT.keys
