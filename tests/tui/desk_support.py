@@ -5,6 +5,7 @@ from __future__ import annotations
 from pathlib import Path
 from typing import Any
 
+from textual import events
 from textual.worker import WorkerCancelled
 
 from pairings import actions
@@ -32,6 +33,18 @@ async def settle(app: DeskApp, pilot: Any) -> None:
 
 
 async def type_text(pilot: Any, text: str) -> None:
+    """Put ``text`` into the focused field as one paste (a user may paste as well as type).
+
+    A key press costs the pilot at least 40 ms of idle waiting, so typing every field key by key was
+    most of the desk tests' time; the keys themselves are tested where they matter (``press_keys``,
+    the typeahead tests, and the real-terminal smoke test, which types every key).
+    """
+    pilot.app.post_message(events.Paste(text))
+    await pilot.pause()
+
+
+async def press_keys(pilot: Any, text: str) -> None:
+    """Type ``text`` key by key, as the keyboard sends it."""
     await pilot.press(*text)
 
 

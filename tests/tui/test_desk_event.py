@@ -17,7 +17,7 @@ from pairings.store import EventStore
 from pairings.tui.app import DeskApp
 from pairings.tui.dialogs import ConfirmDialog, FormDialog
 from tests.cli.conftest import run_in_process
-from tests.tui.desk_support import PLAYERS, Notes, new_event, settle, type_text
+from tests.tui.desk_support import PLAYERS, Notes, new_event, press_keys, settle, type_text
 
 
 def cli(*args: object) -> str:
@@ -121,7 +121,7 @@ async def drive(path: Path, sheet: Path) -> tuple[dict[str, object], list[list[o
         await pilot.press("f7")
         assert isinstance(app.screen, FormDialog)
         await pilot.press("enter")           # pairings
-        await type_text(pilot, "json")
+        await press_keys(pilot, "json")  # the choice follows the letters typed
         await pilot.press("enter", "enter")  # the latest round
         await type_text(pilot, str(sheet))
         await pilot.press("enter")

@@ -16,7 +16,7 @@ from pairings.tui.app import DeskApp
 from pairings.tui.base import KeyLine
 from pairings.tui.dialogs import Choice, ConfirmDialog, FormDialog, ReadDialog
 from pairings.tui.grid import Grid
-from tests.tui.desk_support import Notes, burst, settle, type_text
+from tests.tui.desk_support import Notes, burst, press_keys, settle, type_text
 
 # Invented names and clubs.
 ROSTER = [("Zoë Quillfeather", "Tarnside"), ("Anders Ångström", "Nordvik"), ("Brisa Bray", "Old Mill"),
@@ -146,7 +146,7 @@ def test_print_dialog_offers_choices_and_the_file_name_follows_the_format(tmp_pa
             assert file.placeholder.endswith("e-pairings-round1.txt")
             notes = Notes(app)
             await pilot.press("right", "right", "right", "left", "left", "enter")  # names
-            await type_text(pilot, "pd")  # pdf
+            await press_keys(pilot, "pd")  # pdf: the choice follows the letters typed
             await pilot.pause()
             assert (kind.value, fmt.value) == ("names", "pdf")
             assert file.placeholder.endswith("e-names-round1.pdf"), file.placeholder
