@@ -85,7 +85,7 @@ FLAGS: tuple[Flag, ...] = (
     Flag("pinned", "kept as the organiser pinned it"),
     Flag("changed", "the organiser overrode the engine here"),
 )
-"""Board flags in the order a board lists them, with what each means (shared/naming.md). The first five
+"""Board flags in the order a board lists them, with what each means (the words of docs/naming.md). The first five
 are raised by the criteria naming them; ``pinned`` and ``changed`` record the organiser's own decisions."""
 
 

@@ -70,7 +70,7 @@ class Acceleration(StrEnum):
 
 
 class Unplayed(StrEnum):
-    """How tiebreaks treat rounds a player did not play (see rules.md, Tiebreaks)."""
+    """How tiebreaks treat rounds a player did not play (docs/tiebreaks.md, "Unplayed rounds")."""
 
     AS_THEY_STAND = "as_they_stand"
     VIRTUAL_OPPONENT = "virtual_opponent"

@@ -38,7 +38,7 @@ def assemble(state: EventState, fld: Field, pairs: Sequence[tuple[Pair | None, P
     """Number the boards, settle open sides by the lot and compute costs and flags.
 
     ``pairs`` holds ``(sides or None, pair)``: sides None means neither player
-    has a preference and the round's lot decides (rules.md: the lot gives board
+    has a preference and the round's lot decides (docs/engine.md: the lot gives board
     1's higher-ranked player a side; boards alternate).
     """
     pinned_set = {frozenset(p) for p in pinned}

@@ -1,10 +1,10 @@
 """The canonical optimum: one documented choice among pairings of equal cost.
 
 Many pairings of a round often share the optimal cost (the rank-order
-distances of rules.md S6 tie freely), and which one a maximum-weight matching
+distances of docs/engine.md S6 tie freely), and which one a maximum-weight matching
 returns depends on the solver, so without a rule two installations (compiled
 kernels or not, rustworkx or networkx) could draft different boards from one
-log. The engine's final tie-break, below every criterion of rules.md, is:
+log. The engine's final tie-break, below every criterion of docs/engine.md, is:
 
     **Among the pairings of optimal cost, the one whose players, taken in
     pairing rank order (score, then initial rank), have the best-ranked

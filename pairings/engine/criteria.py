@@ -3,7 +3,7 @@
 A :class:`Field` holds everything the rules need about the players to pair in
 one round: scores in integer scoring units, score groups, ranks, side
 preferences and float history. :meth:`Field.pair` returns the pair's sides
-(allocated per rules.md "Side allocation") and its cost tuple in
+(allocated per docs/engine.md "Sides and boards") and its cost tuple in
 :data:`pairings.costs.LAYOUT` order (each value placed by its criterion's name);
 :meth:`Field.bye` the cost of giving one player the pairing bye. Hard rule H4
 (availability) is the choice of the field; H5 (do-not-pair) is :meth:`Field.forbidden`, never relaxed.
@@ -50,7 +50,7 @@ def score_unit(state: EventState) -> Fraction:
 
 @dataclass(frozen=True, slots=True)
 class Preference:
-    """A player's side wish before the round (rules.md S4) and what H3 forbids."""
+    """A player's side wish before the round (docs/engine.md S4) and what H3 forbids."""
 
     side: Side | None
     strength: int
@@ -60,7 +60,7 @@ class Preference:
 
 
 def preference(sides: tuple[Side, ...]) -> Preference:
-    """Side preference from the played sides, oldest first (rules.md S4, H3).
+    """Side preference from the played sides, oldest first (docs/engine.md S4, H3).
 
     absolute: SD <= -2 or the last two on the second side (wants first), or the
     mirror case; strong: SD = +-1; mild: SD = 0 after at least one game.
@@ -119,7 +119,7 @@ class Field:
         self.units: dict[PlayerId, int] = {
             pid: units(recs[pid].score_before(round_number) + float(self.virtual.get(pid, 0))) for pid in players
         }
-        # Rank during the event: score descending, then initial rank (rules.md).
+        # Rank during the event: score descending, then initial rank (docs/engine.md).
         self.order: tuple[PlayerId, ...] = tuple(sorted(self.units, key=lambda p: (-self.units[p], initial[p])))
         self.index = {pid: i for i, pid in enumerate(self.order)}
         self.group_rank: dict[PlayerId, int] = {}
@@ -136,7 +136,7 @@ class Field:
             pid for pid in self.order
             if s.final_round_side_exception and round_number == s.rounds and 2 * self.units[pid] > max_score
         )
-        # H1 counts pairings that ended in a forfeit as meetings when the event says so (rules.md H1).
+        # H1 counts pairings that ended in a forfeit as meetings when the event says so (docs/engine.md H1).
         self.meetings = {pid: Counter(recs[pid].met(s.forfeit_is_meeting)) for pid in self.order}
         self.max_meetings = s.max_meetings
         self.prev_float = {pid: self._float(pid, round_number - 1) for pid in self.order}
@@ -168,7 +168,7 @@ class Field:
         return frozenset((p, q)) in self._forbidden
 
     def allocate(self, p: PlayerId, q: PlayerId) -> tuple[PlayerId, PlayerId] | None:
-        """Sides inside a pair per rules.md; None when neither has any preference.
+        """Sides inside a pair per docs/engine.md; None when neither has any preference.
 
         Order: first the sides that break H3 for fewer of the two (a player
         who breaks it whatever side he gets must not make his opponent break it

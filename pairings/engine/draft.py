@@ -6,7 +6,7 @@ maximum-weight maximum-cardinality matching (weights from
 tables. :func:`rebuild` evaluates an organiser-made pairing with the same
 costs and flags; :func:`swap` exchanges two players and rebuilds.
 
-Decisions where rules.md is silent (also in docs/engine.md):
+Decisions where the rules are silent (also in docs/engine.md):
 
 - H5 (do-not-pair) is never relaxed; H1, H2 and H3 are relaxed only at a cost
   that outweighs every soft criterion, and flagged. A round made only of

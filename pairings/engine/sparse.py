@@ -195,7 +195,7 @@ def ideal_partners(a: Arrays, near: int = SPARSE_CLASS, wide: int | None = None)
 
     For each player and each side-wish class (first, second, none) of its
     score group, the ``near`` players of that class on each side of the
-    ideal position (group rank plus or minus half the group, rules.md S6),
+    ideal position (group rank plus or minus half the group, docs/engine.md S6),
     or the ``wide`` ones (default ``near``) when the class is compatible with
     the player's own wish (no wish, or not the same side). Side preferences
     (S4) outrank the rank order, so a player's partner in an optimum is

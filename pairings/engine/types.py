@@ -88,7 +88,7 @@ class Draft:
     def key(self) -> tuple[object, ...]:
         """The lexicographic cost key (smaller is better), in :data:`CRITERIA` order.
 
-        ``score_gap`` is replaced by the sorted gap list (rules.md S2).
+        ``score_gap`` is replaced by the sorted gap list (docs/engine.md S2).
         """
         out: list[object] = []
         for name in CRITERIA:

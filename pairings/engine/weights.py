@@ -9,7 +9,7 @@ gap_1, bye_rank, pref_absolute, ..., rank_order``), where ``gap_d`` is 1 when
 the pair's score gap is ``d`` units (``L`` is the largest gap among the
 candidate edges). Comparing the per-level
 counts ``(c_L, ..., c_1)`` highest level first is the same as comparing the
-sorted-largest-first gap lists lexicographically (rules.md S2), because all
+sorted-largest-first gap lists lexicographically (docs/engine.md S2), because all
 maximum-cardinality matchings have the same number of pairs: at the highest
 level where the counts differ, the list with more entries at that level has the
 larger element at the first position where the lists differ.

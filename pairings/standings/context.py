@@ -6,7 +6,7 @@ a game played over the board, a game still waiting for its result, or an
 before the player entered or after they withdrew). The tiebreak functions in
 :mod:`pairings.standings.tiebreaks` read only a :class:`Context`.
 
-The treatment of unplayed rounds follows ``rules.md`` ("Tiebreaks"):
+The treatment of unplayed rounds follows docs/tiebreaks.md ("Unplayed rounds"):
 
 * *as they stand*: an unplayed round adds no opponent, and every player counts
   with their actual score in other players' tiebreaks;

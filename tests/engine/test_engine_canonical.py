@@ -142,7 +142,7 @@ def test_a_cycle_that_would_empty_a_blossom_is_not_swapped() -> None:
 
 
 def _key(fld: Field, players: Sequence[PlayerId], pairs: Sequence[tuple[int, int]]) -> tuple[object, ...]:
-    """A pairing's cost key as Draft.key (rules.md: criteria in order, S2 as the sorted gap list)."""
+    """A pairing's cost key as Draft.key (docs/engine.md: criteria in order, S2 as the sorted gap list)."""
     n = len(players)
     costs = [fld.bye(players[a]) if b == n else fld.pair(players[a], players[b])[1] for a, b in pairs]
     totals = [sum(col) for col in zip(*costs)]

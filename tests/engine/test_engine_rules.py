@@ -32,7 +32,7 @@ def pairings_of(items: list[str]) -> Iterator[list[tuple[str, str]]]:
 
 
 def key_of(costs: list[Cost]) -> tuple[object, ...]:
-    """Lexicographic key of a whole pairing, straight from rules.md S1-S6."""
+    """Lexicographic key of a whole pairing, straight from docs/engine.md S1-S6."""
     sums = [sum(c[k] for c in costs) for k in range(len(CRITERIA))]
     gaps = tuple(sorted((c[GAP] for c in costs), reverse=True))
     return tuple(gaps if name == "score_gap" else sums[k] for k, name in enumerate(CRITERIA))

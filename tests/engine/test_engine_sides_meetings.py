@@ -40,7 +40,7 @@ FFFF = [[(2, 1), (5, 6), (3, 4)], [(2, 3), (4, 6), (5, 1)], [(2, 4), (6, 1), (3,
 
 
 def test_a_player_who_breaks_the_side_rule_anyway_does_not_make_his_opponent_break_it() -> None:
-    # rules.md "Sides inside a pair": first, the sides that break H3 for fewer players. Before the fix
+    # docs/engine.md "Sides and boards": first, the sides that break H3 for fewer players. Before the fix
     # p2's larger |SD| won him the second side and p6 broke H3 too (2 breaks on the board, not 1).
     state = state_of(_history(FFFF))
     fld = Field(state, 5, state.available(5))

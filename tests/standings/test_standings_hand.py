@@ -3,7 +3,7 @@ a forfeit in round 2 and a withdrawal from round 3.
 
 Every expected number below was worked out by hand from the definitions of FIDE
 Handbook C.07 (from memory: the text was not at hand) and the FIDE 2009 Congress
-decision on unplayed games as restated in /work/shared/rules.md; the working is
+decision on unplayed games as restated in docs/tiebreaks.md ("Unplayed rounds"); the working is
 in the comments. Scoring 1-½-0, pairing bye 1 point.
 
 Results (first side listed first):
@@ -89,7 +89,7 @@ def test_as_they_stand(hand: EventState, key: str) -> None:
     assert column(hand, key, Unplayed.AS_THEY_STAND) == AS_THEY_STAND[key]
 
 
-# --- virtual opponent (FIDE 2009 decision; rules.md) ---------------------------------
+# --- virtual opponent (FIDE 2009 decision; docs/tiebreaks.md) ---------------------------------
 # Score counted towards others (own unplayed rounds as draws, n = 4):
 #   A 2½  B 3  C 1½  D ½+1+1+½ = 3  E 0+½+½+0 = 1  F 0+½+½+0 = 1  G ½+½+½+½ = 2
 # Virtual opponents, Svon = SPR + (1 - SfPR) + ½(n - R):
@@ -117,7 +117,7 @@ VIRTUAL = {
 
 @pytest.mark.parametrize("key", sorted(VIRTUAL))
 def test_virtual_opponent(hand: EventState, key: str) -> None:
-    # Hand-worked above: FIDE 2009 Congress decision on unplayed games (rules.md; from memory).
+    # Hand-worked above: FIDE 2009 Congress decision on unplayed games (docs/tiebreaks.md; from memory).
     assert column(hand, key, Unplayed.VIRTUAL_OPPONENT) == VIRTUAL[key]
 
 

@@ -64,7 +64,7 @@ def nine_rounds(build: Build) -> tuple[EventState, str, str]:
 
 
 def test_virtual_opponent_worked_examples(nine_rounds: tuple[EventState, str, str]) -> None:
-    # FIDE 2009 Congress decision on unplayed games, worked examples as quoted in rules.md.
+    # FIDE 2009 Congress decision on unplayed games, worked examples as restated in docs/tiebreaks.md.
     state, a, b = nine_rounds
     assert (state.score(PlayerId(a)), state.score(PlayerId(b))) == (6, 6)
     ctx = build_context(state, 9, Unplayed.VIRTUAL_OPPONENT)
@@ -118,7 +118,7 @@ def test_json_shape(build: Build) -> None:
     players = [("x", "Xia", None), ("y", "Yann", None), ("z", "Zoë Ødegård", None)]
     state = build(players, [([("x", "y", "1/2-1/2")], [("z", "pairing", 1.0)])])
     rows = json.loads(json.dumps(standings(state).to_json()))
-    # z's bye meets a virtual opponent on 0 + (1 - 1) + 0.5·0 = 0 (rules.md formula, n = 1).
+    # z's bye meets a virtual opponent on 0 + (1 - 1) + 0.5·0 = 0 (the formula of docs/tiebreaks.md, n = 1).
     assert rows[0] == {"rank": 1, "player": "z", "name": "Zoë Ødegård", "points": 1.0,
                        "tiebreaks": {"buchholz_cut1": 0.0, "buchholz": 0.0, "sonneborn_berger": 0.0,
                                      "wins": 1.0}}

@@ -177,7 +177,7 @@ def boards(state: EventState, rnd: int, sided: Sequence[Pair], bye: PlayerId | N
 
 
 def _flags(ent: Entrants, b: DraftBoard) -> tuple[str, ...]:
-    """Board flags (naming.md's words) as the Dutch criteria see the board."""
+    """Board flags (the words of docs/naming.md) as the Dutch criteria see the board."""
     out: list[str] = []
     if b.second in ent.met[b.first]:
         out.append("rematch")  # only an organiser's change can make one (C.1)
