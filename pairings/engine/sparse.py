@@ -153,16 +153,17 @@ class Certified:
     priced: Priced
 
 
-def certify(sparse: SparseGraph, pricing: Pricing, warm: Sequence[tuple[int, int]] = ()) -> Certified | None:
+def certify(sparse: SparseGraph, pricing: Pricing, warm: Sequence[tuple[int, int]] = (),
+            solves: int | None = None) -> Certified | None:
     """The sparse solve repeated until its dual holds on every pruned pair (module Notes).
 
     ``warm``: a full pairing to start the first solve from. None when the
     sparse graph has no full pairing, values leave the kernels' range, or no
-    certificate is reached within :data:`SOLVES` solves.
+    certificate is reached within ``solves`` solves (default :data:`SOLVES`).
     """
     pairs: Sequence[tuple[int, int]] = warm
     dual: blossom.Dual | None = None
-    for attempt in range(1, SOLVES + 1):
+    for attempt in range(1, (SOLVES if solves is None else solves) + 1):
         u, v, w = sparse.edges()
         result = blossom.perfect_matching_arrays(sparse.n, u, v, w, pairs, dual)
         if result is None:

@@ -39,9 +39,9 @@ from numpy.typing import NDArray
 
 from pairings.engine import blossom
 from pairings.engine.candidates import index_pairs
-from pairings.engine.certificate import certify, reduced_costs
+from pairings.engine.certificate import reduced_costs
 from pairings.engine.dutch.criteria import Costs, next_pair_costs
-from pairings.engine.sparse import best_per_vertex
+from pairings.engine.sparse import Priced, SparseGraph, best_per_vertex, certify
 from pairings.engine.vector import AnyArray, IntArray
 from pairings.state import PlayerId, Side
 
@@ -355,29 +355,34 @@ def certified(n: int, u: IntArray, v: IntArray, w: AnyArray, seed: NDArray[np.bo
               ) -> tuple[list[tuple[int, int]], blossom.Dual] | None:
     """A maximum-weight perfect matching of ``(u, v, w)`` and its dual, solved on few edges (:data:`PRUNE`).
 
-    Start from the ``seed`` edges and each vertex's heaviest ones; solve them
-    with the blossom (later rounds warm-started from the previous round's
-    matching and dual); check the dual on every edge: no negative
-    reduced cost, with the subgraph's own certificate (dual objective equal
-    to the matching's weight), proves the matching optimal on all edges
-    (:mod:`pairings.engine.certificate`). Else add each vertex's most
-    violated edges (twice as many each time) and repeat; after :data:`PRUNE_ROUNDS` solves (or a
-    subgraph without a perfect matching) the whole graph is solved.
+    The whole-round engine's repeated sparse solve (:func:`pairings.engine.sparse.certify`): start from
+    the ``seed`` edges and each vertex's heaviest ones, solve, check the dual on every edge, add each
+    vertex's most violated edges (twice as many after each failed check) and repeat; after
+    :data:`PRUNE_ROUNDS` solves (or a subgraph without a perfect matching) the whole graph is solved.
     """
     if PRUNE and len(u) > 4 * n:
-        score = w if w.dtype != object else w.astype(float)
-        mask = seed | best_per_vertex(u, v, score, np.ones(len(u), dtype=bool), PRUNE_BEST)
-        start: tuple[Sequence[tuple[int, int]], blossom.Dual | None] = ((), None)
-        for attempt in range(PRUNE_ROUNDS):
-            idx = np.flatnonzero(mask)
-            found = blossom.perfect_matching_arrays(n, u[idx], v[idx], w[idx], *start)
-            if found is None:
-                break
-            pairs, dual = found
+        keys = u * n + v
+        order = np.argsort(keys, kind="stable")
+
+        def weigh(i: IntArray, j: IntArray) -> AnyArray:
+            return w[order[np.searchsorted(keys[order], i * n + j)]]
+
+        failed = 0
+
+        def pricing(dual: blossom.Dual) -> Priced:
+            nonlocal failed
             rc = reduced_costs(u, v, w, dual)
             bad = rc < 0
-            if not bad.any() and certify(n, u[idx], v[idx], w[idx], pairs, dual):
-                return found
-            mask |= best_per_vertex(u, v, -rc, bad, PRUNE_ADD << attempt)
-            start = (pairs, dual)
+            add = best_per_vertex(u, v, -rc, bad, PRUNE_ADD << failed)
+            failed += 1
+            tight = rc == 0
+            return Priced(u[add], v[add], int(bad.sum()), u[tight], v[tight])
+
+        score = w if w.dtype != object else w.astype(float)
+        first = seed | best_per_vertex(u, v, score, np.ones(len(u), dtype=bool), PRUNE_BEST)
+        graph = SparseGraph(n, weigh)
+        graph.add(u[first], v[first], w[first])
+        found = certify(graph, pricing, solves=PRUNE_ROUNDS)
+        if found is not None:
+            return list(found.pairs), found.dual
     return blossom.perfect_matching_arrays(n, u, v, w)
