@@ -45,9 +45,12 @@ Method (ours; the criteria are C.04.3's):
   then the transpositions, lexicographic in the partners' BSNs, a block of S1
   places at a time (digit base ``len(S2) + 1``), each block's pairs fixed
   before the next; an S1 player whose partner in the current (optimal)
-  matching is the first of his possible partners is fixed without a solve,
-  and a term below each block's digits pairs the later S1 players in BSN
-  order so that most of them are. Digits that would pass the compiled kernel's integers are
+  matching is the first of his possible partners, or can be made so by an
+  alternating cycle that keeps the matching optimal
+  (:meth:`.graph.BracketGraph.swap_in`), is fixed without a solve, and a
+  term below each block's digits pairs the later S1 players in BSN order so
+  that most of them are. The exchange solve is skipped when the current
+  matching's S1 is already the first players (the least its digits can be). Digits that would pass the compiled kernel's integers are
   avoided by the block sizes; the pure-Python blossom takes any size.
 - A last bracket (the CLB included) that cannot be paired without pairing
   MDPs with each other is paired as one homogeneous group (our decision).
@@ -68,6 +71,10 @@ from pairings.engine.dutch.graph import BracketGraph as _Graph
 from pairings.state import PlayerId
 
 Pair = tuple[PlayerId, PlayerId]
+
+SHORTCUTS = True
+"""Skip the tie-break solves whose answer is known without them (:meth:`BracketSolver._choose`; tests set
+it False to compare)."""
 
 
 def completable(ent: Entrants, players: Sequence[PlayerId]) -> bool:
@@ -293,9 +300,12 @@ class BracketSolver:
         swap_limit = (g.copies * len(leads) + 1) * spread
         # tests 1 and 2: players swapped into S1, then the BSN sum of S1
         swaps = np.where(relevant, (lrank[lead] > count) * spread + lrank[lead], 0)
-        g.tiebreak(swaps, swap_limit)
+        first = set(leads[:count])
+        # A matching whose S1 is the first ``count`` leads in every copy has the least swaps already.
+        if not SHORTCUTS or any(self._leads(g, leads, heads, copy) != first for copy in range(g.copies)):
+            g.tiebreak(swaps, swap_limit)
         chosen = self._leads(g, leads, heads)
-        if chosen != set(leads[:count]):
+        if chosen != first:
             chosen = self._membership(g, leads, count, relevant, lead, swaps, swap_limit, heads)
         self._settle(g, leads, chosen, relevant, lead)
         order = sorted(chosen, key=leads.index)
@@ -321,12 +331,17 @@ class BracketSolver:
                 return mine, np.unique(frank[follow[mine]])
 
             # An S1 player whose partner in the current (optimal) matching is the first of his possible
-            # partners has it in the first candidate too: fixed without a solve.
+            # partners, or can be by one alternating 4-cycle that keeps it optimal, has it in the
+            # first candidate too: fixed without a solve.
             while k < len(order):
                 y = g.partner(order[k])
                 options = edges_of(order[k])[1]
-                if y is None or not len(options) or frank[g.index[y]] != options[0]:
+                if not len(options):
                     break
+                if y is None or frank[g.index[y]] != options[0]:
+                    y = follows[int(options[0]) - 1]
+                    if not SHORTCUTS or not g.swap_in(order[k], y):
+                        break
                 out.append((order[k], y))
                 g.remove((order[k], y))
                 k += 1
@@ -354,12 +369,13 @@ class BracketSolver:
             k += len(block)
         return out
 
-    def _leads(self, g: _Graph, leads: list[PlayerId], heads: Callable[[PlayerId, PlayerId], bool]
-               ) -> set[PlayerId]:
-        """The ``leads`` on S1's side of their pair in the current matching (``heads(p, q)``: p is)."""
+    def _leads(self, g: _Graph, leads: list[PlayerId], heads: Callable[[PlayerId, PlayerId], bool],
+               copy: int = 0) -> set[PlayerId]:
+        """The ``leads`` on S1's side of their pair in the current matching (``heads(p, q)``: p is), in
+        the doubled graph's ``copy``."""
         out = set()
         for p in leads:
-            q = g.partner(p)
+            q = g.partner(p, copy)
             if q is not None and heads(p, q):
                 out.add(p)
         return out

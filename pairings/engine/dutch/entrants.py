@@ -95,6 +95,7 @@ class Entrants:
         refused = set(no_bye)
         self.pab_eligible = frozenset(p for p in self.order if p not in refused and self._may_get_bye(p))
         self.must: dict[PlayerId, Side | None] = {p: self.absolute(p) for p in self.order}
+        self._before: dict[tuple[PlayerId, int], Fraction] = {}
         self.floats: dict[PlayerId, tuple[Float | None, Float | None]] = {
             p: (self.float_in(p, round_number - 1), self.float_in(p, round_number - 2)) for p in self.order
         }
@@ -127,10 +128,16 @@ class Entrants:
         if rnd not in self._vp:
             self._vp[rnd] = virtual_points(self.state, rnd, self.numbers)
         vp = self._vp[rnd]
-        mine = Fraction(rec.score_before(rnd)).limit_denominator(1000) + vp.get(p, 0)
-        theirs = Fraction(self.state.records[e.opponent].score_before(rnd)).limit_denominator(1000) \
-            + vp.get(e.opponent, 0)
+        mine = self._score_before(p, rnd) + vp.get(p, 0)
+        theirs = self._score_before(e.opponent, rnd) + vp.get(e.opponent, 0)
         return Float.DOWN if mine > theirs else Float.UP if mine < theirs else None
+
+    def _score_before(self, p: PlayerId, rnd: int) -> Fraction:
+        """``p``'s exact score before round ``rnd`` (each opponent's is asked for again: kept)."""
+        key = (p, rnd)
+        if key not in self._before:
+            self._before[key] = self.state.records[p].score_before(rnd)
+        return self._before[key]
 
     def absolute(self, p: PlayerId) -> Side | None:
         """The side ``p`` must have (absolute preference), or None."""

@@ -62,6 +62,8 @@ ROW_PAIRS = 1 << 22
 """Vertex pairs enumerated at a time (memory of the exact form's graphs)."""
 SMALL = 2**62
 """Weights below this go to the kernel as int64 (no Python integer per edge)."""
+REROUTE_DEPTH = 3
+"""Matched edges walked at most when looking for an alternating cycle (:meth:`BracketGraph.swap_in`)."""
 
 
 class CostTable:
@@ -294,7 +296,7 @@ class BracketGraph:
                 inside[list(group)] = True
                 crossings += inside[u] != inside[v]
         # An optimal matching uses tight edges only: the others can go.
-        self.eu, self.ev, self.pen = u[tight], v[tight], crossings[tight]
+        self.eu, self.ev, self.pen, self.near = u[tight], v[tight], crossings[tight], self.rank[tight] <= PRUNE_WINDOW
         pair = self.pair[tight]
         self.cu = self.eu % self.real if self.copies == 2 else self.eu
         self.cv = self.ev % self.real if self.copies == 2 else self.ev
@@ -302,6 +304,101 @@ class BracketGraph:
         self.pv = np.where(pair, self.cv, -1)
         self.keep = np.ones(len(self.eu), dtype=bool)
         self.live = np.ones(self.n, dtype=bool)
+        keys = np.minimum(self.eu, self.ev) * self.n + np.maximum(self.eu, self.ev)
+        self._by_key = np.argsort(keys, kind="stable")
+        self._keys = keys[self._by_key]
+        ends = np.concatenate([self.eu, self.ev])
+        order = np.argsort(ends, kind="stable")
+        self._adj_ptr = np.searchsorted(ends[order], np.arange(self.n + 1))
+        self._adj_to = np.concatenate([self.ev, self.eu])[order]
+        self._adj_edge = np.concatenate([np.arange(len(self.eu))] * 2)[order]
+        return True
+
+    def _edge(self, a: int, b: int) -> int | None:
+        """The index of the usable tight edge ``(a, b)`` (kept, both ends live), or None."""
+        key = min(a, b) * self.n + max(a, b)
+        at = int(np.searchsorted(self._keys, key))
+        if at == len(self._keys) or self._keys[at] != key:
+            return None
+        k = int(self._by_key[at])
+        return k if self.keep[k] and self.live[a] and self.live[b] else None
+
+    def swap_in(self, p: PlayerId, q: PlayerId) -> bool:
+        """Give ``p`` the partner ``q`` by one alternating cycle, if that keeps the matching optimal.
+
+        With ``p``'s partner ``a`` and ``q``'s partner ``b``, a path from ``b`` to ``a`` that leaves
+        each vertex by an unmatched edge and goes on by its matched one (searched breadth first,
+        :data:`REROUTE_DEPTH` matched edges at most, first copy only) closes the cycle
+        ``p q b ... a p``; exchanging the cycle's matched and unmatched edges covers the same
+        vertices. The current matching's first copy is optimal for the bracket, so is the doubled
+        matching that repeats it in both copies (their floaters are common), and that one has the
+        least penalty; the exchange, made in every copy, changes the penalty by the cycle's edges'
+        penalties: when that change is not positive the new matching is optimal too. Only the
+        first copy is rewritten (later solves start from it; the second copy's pairs are left, and
+        those that lost a vertex are ignored). False: no such cycle was found, nothing changed. A
+        sufficient test only: a cycle through a blossom is not searched, and the caller solves.
+        """
+        x, y = self.index[p], self.index[q]
+        a, b = self.mate[x], self.mate[y]
+        top = self.real if self.copies == 2 else self.n
+        if a == y or a >= top or b >= top:
+            return False
+        mate = np.full(self.n, -1, dtype=np.int64)
+        ends = np.fromiter(self.mate.keys(), dtype=np.int64, count=len(self.mate))
+        mate[ends] = np.fromiter(self.mate.values(), dtype=np.int64, count=len(self.mate))
+        seen = ~self.live.copy()
+        seen[top:] = True
+        seen[[x, y, b]] = True
+        back: dict[int, tuple[int, int]] = {}  # a vertex reached by its matched edge: (where from, via)
+        frontier = np.array([b], dtype=np.int64)
+        path: list[int] | None = None
+        for _ in range(REROUTE_DEPTH):
+            start, stop = self._adj_ptr[frontier], self._adj_ptr[frontier + 1]
+            span = stop - start
+            at = np.repeat(start - np.cumsum(span) + span, span) + np.arange(int(span.sum()))
+            src = np.repeat(frontier, span)
+            dst, edge = self._adj_to[at], self._adj_edge[at]
+            ok = self.keep[edge] & (mate[src] != dst)
+            src, dst = src[ok], dst[ok]
+            hit = np.flatnonzero(dst == a)
+            if len(hit):
+                u = int(src[hit[0]])
+                path = [a, u]
+                while u != b:
+                    u, via = back[u]
+                    path += [via, u]
+                break
+            fresh = ~seen[dst] & (mate[np.maximum(dst, 0)] >= 0)
+            dst, src = dst[fresh], src[fresh]
+            dst, first = np.unique(dst, return_index=True)
+            src = src[first]
+            nxt = mate[dst]
+            usable = ~seen[nxt]
+            dst, src, nxt = dst[usable], src[usable], nxt[usable]
+            nxt, first = np.unique(nxt, return_index=True)
+            dst, src = dst[first], src[first]
+            if not len(nxt):
+                return False
+            seen[dst] = True
+            seen[nxt] = True
+            for d, via, u in zip(nxt.tolist(), dst.tolist(), src.tolist()):
+                back[d] = (u, via)
+            frontier = nxt
+        if path is None:
+            return False
+        cycle = [x, y, *reversed(path)]  # x y b ... a: alternately matched (y b, ..., a x) and not
+        change = 0
+        for shift in range(self.copies):
+            s = shift * self.real
+            for k in range(len(cycle)):
+                e = self._edge(cycle[k] + s, cycle[(k + 1) % len(cycle)] + s)
+                if e is None:
+                    return False
+                change += int(self.pen[e]) * (1 if k % 2 == 0 else -1)
+        if change > 0:
+            return False
+        for k in range(0, len(cycle), 2):
+            self.mate[cycle[k]], self.mate[cycle[k + 1]] = cycle[k + 1], cycle[k]
         return True
 
     def _read(self, pairs: Iterable[tuple[int, int]]) -> None:
@@ -316,15 +413,20 @@ class BracketGraph:
         """
         use = self.keep & self.live[self.eu] & self.live[self.ev]
         local = np.cumsum(self.live) - 1
-        cost = self.pen[use].astype(object) * limit + np.asarray(digits, dtype=object)[use]
-        ceiling = (max(cost.tolist()) if len(cost) else 0) + 1
+        pen, part = self.pen[use], np.asarray(digits)[use]
+        if part.dtype != object and (not len(part) or int(pen.max()) * limit + int(part.max()) < SMALL):
+            cost: NDArray[Any] = pen * limit + part  # int64 without overflow: no Python integer per edge
+            ceiling = (int(cost.max()) if len(cost) else 0) + 1
+        else:
+            cost = pen.astype(object) * limit + part.astype(object)
+            ceiling = (max(cost.tolist()) if len(cost) else 0) + 1
         w = ceiling - cost
         n, u, v = int(self.live.sum()), local[self.eu[use]], local[self.ev[use]]
         if ceiling < SMALL:  # the exchange steps' small weights: a pruned solve seeded with the current matching
             mate = np.full(self.n, -1, dtype=np.int64)
             for a, b in self.mate.items():
                 mate[a] = b
-            found = certified(n, u, v, w.astype(np.int64), mate[self.eu[use]] == self.ev[use])
+            found = certified(n, u, v, w.astype(np.int64), (mate[self.eu[use]] == self.ev[use]) | self.near[use])
         else:  # the transpositions' wide digits: warm-started from the current matching
             warm = [(int(local[a]), int(local[b])) for a, b in self.mate.items()
                     if a < b and self.live[a] and self.live[b]]
@@ -345,10 +447,11 @@ class BracketGraph:
             if self.copies == 2:
                 self.live[i + self.real] = False
 
-    def partner(self, p: PlayerId) -> PlayerId | None:
-        """``p``'s partner inside the bracket in the current matching (None: floats)."""
-        m = self.mate[self.index[p]]
-        return self.vertices[m] if m < self.real and self.vertices[m] in self.solver.members else None
+    def partner(self, p: PlayerId, copy: int = 0) -> PlayerId | None:
+        """``p``'s partner inside the bracket in the current matching (None: floats); ``copy`` 1: in the
+        doubled graph's second copy."""
+        m = self.mate[self.index[p] + copy * self.real] - copy * self.real
+        return self.vertices[m] if 0 <= m < self.real and self.vertices[m] in self.solver.members else None
 
 
 def certified(n: int, u: IntArray, v: IntArray, w: AnyArray, seed: NDArray[np.bool_]
