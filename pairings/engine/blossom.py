@@ -78,6 +78,28 @@ class Dual:
         return sum(self.y2) + sum(z * (len(b) - 1) for b, z in self.blossoms)
 
 
+@dataclass(frozen=True)
+class Wide:
+    """Exact weights ``0 <= w < 2**126`` wider than int64, two 64-bit limbs each: ``hi * 2**64 + lo``.
+
+    ``lo`` is read unsigned. Built in numpy by the caller (no Python integer per edge) and handed
+    to the compiled kernel as they are (:func:`perfect_matching_arrays`).
+    """
+
+    hi: NDArray[np.int64]
+    lo: NDArray[np.uint64]
+
+    def ints(self) -> NDArray[Any]:
+        """The weights as Python integers (an object array), for the pure-Python search."""
+        return self.hi.astype(object) * 2**64 + self.lo.astype(object)  # type: ignore[no-any-return]
+
+    def packed(self, bound: int = WEIGHT_BOUND) -> bytes | None:
+        """16-byte little-endian integers for the kernel, or None when some weight reaches ``bound``."""
+        if len(self.hi) and int(self.hi.max()) >= bound >> 64:
+            return None
+        return np.stack([self.lo.view(np.int64), self.hi], axis=1).astype("<i8").tobytes()
+
+
 def compiled() -> bool:
     """True when :func:`perfect_matching` runs the compiled kernel (built and not switched off)."""
     return _kernel is not None and USE_COMPILED
@@ -121,13 +143,13 @@ def perfect_matching(n: int, edges: Sequence[Edge], warm: Sequence[int] = (), du
     return python_perfect_matching(n, edges, warm, dual)
 
 
-def perfect_matching_arrays(n: int, u: NDArray[np.int64], v: NDArray[np.int64], w: NDArray[Any],
+def perfect_matching_arrays(n: int, u: NDArray[np.int64], v: NDArray[np.int64], w: NDArray[Any] | Wide,
                             warm_pairs: Sequence[tuple[int, int]] = (), dual: Dual | None = None
                             ) -> tuple[list[tuple[int, int]], Dual] | None:
     """:func:`perfect_matching` of the edges ``(u[k], v[k], w[k])`` given as arrays.
 
-    ``u``, ``v``: int64 vertex arrays; ``w``: exact integers (dtype int64, or
-    object of Python ints). ``warm_pairs`` are vertex pairs ``(a, b)`` (either
+    ``u``, ``v``: int64 vertex arrays; ``w``: exact integers (dtype int64, an
+    object array of Python ints, or :class:`Wide`). ``warm_pairs`` are vertex pairs ``(a, b)`` (either
     order) of a good matching rather than edge indices; a pair that is no edge
     is ignored. No Python tuple per edge is built on the compiled path.
     """
@@ -136,14 +158,14 @@ def perfect_matching_arrays(n: int, u: NDArray[np.int64], v: NDArray[np.int64], 
     uu = np.ascontiguousarray(u, dtype=np.int64)
     vv = np.ascontiguousarray(v, dtype=np.int64)
     if compiled():
-        ww = _weights(w)
+        ww = w.packed() if isinstance(w, Wide) else _weights(w)
         if ww is not None:
             flat = np.asarray(warm_pairs, dtype=np.int64).reshape(-1)
             try:
                 return _solve(n, uu, vv, ww, np.zeros(0, dtype=np.int64), flat, dual)
             except _OutOfRange:
                 pass
-    edges = list(zip(uu.tolist(), vv.tolist(), np.asarray(w).tolist()))
+    edges = list(zip(uu.tolist(), vv.tolist(), (w.ints() if isinstance(w, Wide) else np.asarray(w)).tolist()))
     where = {(min(a, b), max(a, b)): k for k, (a, b, _) in enumerate(edges)}
     warm = [where[key] for key in ((min(a, b), max(a, b)) for a, b in warm_pairs) if key in where]
     return python_perfect_matching(n, edges, warm, dual)

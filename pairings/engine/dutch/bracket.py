@@ -355,12 +355,16 @@ class BracketSolver:
                     break
                 block.append((x, mine, options))
                 product *= max(1, len(options))
-            digits = after.astype(object)
+            digits = after.copy()
+            terms = []
             weight = product
             for x, mine, options in block:
                 weight //= max(1, len(options))
-                digits[mine] = np.searchsorted(options, frank[follow[mine]]).astype(object) * (weight * spread)
-            g.tiebreak(digits, g.copies * product * spread)
+                digits[mine] = 0
+                terms.append((mine, np.searchsorted(options, frank[follow[mine]]), weight * spread))
+            # One limit for every block (a block's product is at most the budget, or one player's
+            # options), so that each solve starts from the last one's dual.
+            g.tiebreak(digits, g.copies * max(budget, len(follows) + 1) * spread, terms, carry=True)
             for x, _, _ in block:
                 y = g.partner(x)
                 assert y is not None

@@ -193,6 +193,7 @@ class BracketGraph:
         self.pair = np.concatenate([pair, np.zeros(len(extra), dtype=bool)])
         self.rank = np.concatenate([rank, np.zeros(len(extra), dtype=np.int64)])
         self.mate: dict[int, int] = {}
+        self._carried: tuple[int, IntArray, list[int]] | None = None
 
     def _pairs(self, exact: bool) -> tuple[IntArray, IntArray, IntArray, NDArray[np.bool_], IntArray]:
         """The edges between real vertices, in row order: ends, cost index, bracket pair or not, rank."""
@@ -405,22 +406,39 @@ class BracketGraph:
         for a, b in pairs:
             self.mate[a], self.mate[b] = b, a
 
-    def tiebreak(self, digits: NDArray[Any], limit: int) -> None:
-        """Among the quality-optimal matchings left, one with the least ``digits`` (one value per edge).
+    def tiebreak(self, digits: NDArray[Any], limit: int, terms: Sequence[Term] = (), carry: bool = False) -> None:
+        """Among the quality-optimal matchings left, one with the least digits (one value per edge).
 
-        ``limit`` exceeds the digits' sum over any matching, so one more
-        penalty always outweighs them.
+        An edge's digits are ``digits`` plus, for each term ``(edges, d, scale)``,
+        ``d[i] * scale`` on ``edges[i]`` (the transpositions' wide digits, kept as
+        small integers and one scale per S1 player). ``limit`` exceeds the digits' sum
+        over any matching, so one more penalty always outweighs them.
+
+        ``carry`` (with ``terms``): the weights are ``(most penalty + 1) * limit`` less the cost, a
+        ceiling that stays while the caller keeps ``limit`` from one solve to the next, so that the
+        weights of the edges whose digits did not change stay too and the last solve's dual
+        (flattened onto the vertices still live) starts this one: only the players whose digits
+        changed start unmatched, more or less. Any ceiling gives the same optimum (every perfect
+        matching has as many edges).
         """
         use = self.keep & self.live[self.eu] & self.live[self.ev]
         local = np.cumsum(self.live) - 1
         pen, part = self.pen[use], np.asarray(digits)[use]
-        if part.dtype != object and (not len(part) or int(pen.max()) * limit + int(part.max()) < SMALL):
+        wide: blossom.Wide | None = None
+        if terms:
+            fixed = (int(self.pen.max(initial=0)) + 1) * limit if carry else None
+            ceiling, wide = _wide(self.pen, limit, np.asarray(digits, dtype=np.int64), terms, use, fixed)
+            if ceiling < SMALL:
+                w: NDArray[Any] = wide.lo.astype(np.int64)
+                wide = None
+        elif part.dtype != object and (not len(part) or int(pen.max()) * limit + int(part.max()) < SMALL):
             cost: NDArray[Any] = pen * limit + part  # int64 without overflow: no Python integer per edge
             ceiling = (int(cost.max()) if len(cost) else 0) + 1
+            w = ceiling - cost
         else:
             cost = pen.astype(object) * limit + part.astype(object)
             ceiling = (max(cost.tolist()) if len(cost) else 0) + 1
-        w = ceiling - cost
+            w = ceiling - cost
         n, u, v = int(self.live.sum()), local[self.eu[use]], local[self.ev[use]]
         if ceiling < SMALL:  # the exchange steps' small weights: a pruned solve seeded with the current matching
             mate = np.full(self.n, -1, dtype=np.int64)
@@ -430,7 +448,13 @@ class BracketGraph:
         else:  # the transpositions' wide digits: warm-started from the current matching
             warm = [(int(local[a]), int(local[b])) for a, b in self.mate.items()
                     if a < b and self.live[a] and self.live[b]]
-            found = blossom.perfect_matching_arrays(n, u, v, w, warm)
+            start = None
+            if carry and self._carried is not None and self._carried[0] == ceiling:
+                _, ids, flat = self._carried
+                start = blossom.Dual([d for d, alive in zip(flat, self.live[ids].tolist()) if alive], [])
+            found = blossom.perfect_matching_arrays(n, u, v, w if wide is None else wide, warm, start)
+            if found is not None and carry:
+                self._carried = ceiling, np.flatnonzero(self.live), _flat(found[1])
         assert found is not None, "a quality-optimal matching survives every restriction"
         order = np.flatnonzero(self.live)
         self._read((int(order[a]), int(order[b])) for a, b in found[0])
@@ -452,6 +476,62 @@ class BracketGraph:
         doubled graph's second copy."""
         m = self.mate[self.index[p] + copy * self.real] - copy * self.real
         return self.vertices[m] if 0 <= m < self.real and self.vertices[m] in self.solver.members else None
+
+
+Term = tuple[IntArray, IntArray, int]
+"""Wide digits ``d * scale`` on some edges (:meth:`BracketGraph.tiebreak`)."""
+_LIMB = 40
+_MASK = (1 << _LIMB) - 1
+
+
+def _limbs3(x: int) -> tuple[int, int, int]:
+    return x & _MASK, (x >> _LIMB) & _MASK, x >> 2 * _LIMB
+
+
+def _carry(c: list[IntArray]) -> None:
+    """Normalise three limbs in place: the lower two in ``[0, 2**40)``."""
+    for k in (0, 1):
+        up = c[k] >> _LIMB
+        c[k] &= _MASK
+        c[k + 1] += up
+
+
+def _flat(dual: blossom.Dual) -> list[int]:
+    """The doubled vertex duals with each blossom's ``z`` added to its vertices (a feasible start)."""
+    flat = np.array(dual.y2, dtype=object)
+    for members, z in dual.blossoms:
+        flat[list(members)] += z
+    return flat.tolist()  # type: ignore[no-any-return]
+
+
+def _wide(pen: IntArray, limit: int, digits: IntArray, terms: Sequence[Term], use: NDArray[np.bool_],
+          ceiling: int | None = None) -> tuple[int, blossom.Wide]:
+    """``ceiling - (pen * limit + digits + terms)`` on the ``use`` edges, exactly, in int64 limbs.
+
+    ``ceiling`` (default: the cost's maximum plus one, as the Python-integer route computes it)
+    must exceed every cost. Every value is held as three 40-bit limbs (int64 columns) while it
+    is summed; the terms' small factors keep every partial sum far inside int64.
+    """
+    assert int(pen.max(initial=0)) < 1 << 20 and int(digits.max(initial=0)) < 1 << _LIMB
+    scale = _limbs3(limit)
+    c = [digits + pen * scale[0], pen * scale[1], pen * scale[2]]
+    for edges, d, factor in terms:
+        assert int(d.max(initial=0)) < 1 << 20
+        for k, f in enumerate(_limbs3(factor)):
+            c[k][edges] += d * f
+    c = [x[use] for x in c]
+    _carry(c)
+    if not len(c[0]):
+        return 1, blossom.Wide(np.zeros(0, dtype=np.int64), np.zeros(0, dtype=np.uint64))
+    top = int(np.lexsort((c[0], c[1], c[2]))[-1])
+    most = (int(c[2][top]) << 2 * _LIMB) + (int(c[1][top]) << _LIMB) + int(c[0][top])
+    assert ceiling is None or ceiling > most, "the ceiling must exceed every cost"
+    ceiling = most + 1 if ceiling is None else ceiling
+    w = [f - x for f, x in zip(_limbs3(ceiling), c)]
+    _carry(w)
+    low24 = (1 << 64 - _LIMB) - 1
+    lo = w[0].astype(np.uint64) | ((w[1] & low24).astype(np.uint64) << np.uint64(_LIMB))
+    return ceiling, blossom.Wide((w[1] >> (64 - _LIMB)) + (w[2] << (2 * _LIMB - 64)), lo)
 
 
 def certified(n: int, u: IntArray, v: IntArray, w: AnyArray, seed: NDArray[np.bool_]
