@@ -50,7 +50,10 @@ Method (ours; the criteria are C.04.3's):
   (:meth:`.graph.BracketGraph.swap_in`), is fixed without a solve, and a
   term below each block's digits pairs the later S1 players in BSN order so
   that most of them are. The exchange solve is skipped when the current
-  matching's S1 is already the first players (the least its digits can be). Digits that would pass the compiled kernel's integers are
+  matching's S1 is already the first players (the least its digits can be),
+  or can be made so without raising the penalty by unpairing the pairs of two
+  first players or of two others and joining the players so freed by
+  alternating paths (:meth:`.graph.BracketGraph.repair`). Digits that would pass the compiled kernel's integers are
   avoided by the block sizes; the pure-Python blossom takes any size.
 - A last bracket (the CLB included) that cannot be paired without pairing
   MDPs with each other is paired as one homogeneous group (our decision).
@@ -301,8 +304,13 @@ class BracketSolver:
         # tests 1 and 2: players swapped into S1, then the BSN sum of S1
         swaps = np.where(relevant, (lrank[lead] > count) * spread + lrank[lead], 0)
         first = set(leads[:count])
-        # A matching whose S1 is the first ``count`` leads in every copy has the least swaps already.
-        if not SHORTCUTS or any(self._leads(g, leads, heads, copy) != first for copy in range(g.copies)):
+        # A matching whose S1 is the first ``count`` leads in every copy has the least swaps already;
+        # one that pairs no two of them and no two of the others (with the same penalty) is one.
+        settled = SHORTCUTS and all(self._leads(g, leads, heads, copy) == first for copy in range(g.copies))
+        if SHORTCUTS and not settled:
+            within = (lrank[follow] >= 1) & (lrank[follow] <= count)
+            settled = g.repair(relevant & ((lrank[lead] > count) | within)) and self._leads(g, leads, heads) == first
+        if not settled:
             g.tiebreak(swaps, swap_limit)
         chosen = self._leads(g, leads, heads)
         if chosen != first:

@@ -324,11 +324,73 @@ class BracketGraph:
         k = int(self._by_key[at])
         return k if self.keep[k] and self.live[a] and self.live[b] else None
 
+    def _mates(self) -> IntArray:
+        """The current matching as an array (-1: no partner)."""
+        mate = np.full(self.n, -1, dtype=np.int64)
+        ends = np.fromiter(self.mate.keys(), dtype=np.int64, count=len(self.mate))
+        mate[ends] = np.fromiter(self.mate.values(), dtype=np.int64, count=len(self.mate))
+        return mate
+
+    def _path(self, mate: IntArray, source: int, target: NDArray[np.bool_], seen: NDArray[np.bool_],
+              allowed: NDArray[np.bool_], depth: int) -> list[int] | None:
+        """An alternating path ``source c1 d1 ... u t`` to a ``target`` vertex, breadth first.
+
+        Its edges alternate: unmatched (``source c1``, ..., ``u t``, each an ``allowed`` edge)
+        and matched (``c1 d1``, ...); at most ``depth`` matched edges; no vertex of ``seen``
+        (which the search marks) and none twice. A sufficient search only: it does not
+        shrink blossoms, so a path found is real but one may be missed.
+        """
+        back: dict[int, tuple[int, int]] = {}  # a vertex reached by its matched edge: (where from, via)
+        frontier = np.array([source], dtype=np.int64)
+        for level in range(depth + 1):
+            start, stop = self._adj_ptr[frontier], self._adj_ptr[frontier + 1]
+            span = stop - start
+            at = np.repeat(start - np.cumsum(span) + span, span) + np.arange(int(span.sum()))
+            src = np.repeat(frontier, span)
+            dst, edge = self._adj_to[at], self._adj_edge[at]
+            ok = allowed[edge] & (mate[src] != dst) & ~seen[dst]
+            src, dst = src[ok], dst[ok]
+            hit = np.flatnonzero(target[dst])
+            if len(hit):
+                u = int(src[hit[0]])
+                path = [int(dst[hit[0]]), u]
+                while u != source:
+                    u, via = back[u]
+                    path += [via, u]
+                return path[::-1]
+            if level == depth:
+                return None
+            dst, first = np.unique(dst, return_index=True)
+            src, nxt = src[first], mate[dst]
+            fresh = (nxt >= 0) & ~seen[np.maximum(nxt, 0)]
+            dst, src, nxt = dst[fresh], src[fresh], nxt[fresh]
+            nxt, first = np.unique(nxt, return_index=True)
+            dst, src = dst[first], src[first]
+            if not len(nxt):
+                return None
+            seen[dst] = True
+            seen[nxt] = True
+            for d, via, u in zip(nxt.tolist(), dst.tolist(), src.tolist()):
+                back[d] = (u, via)
+            frontier = nxt
+        return None
+
+    def _penalty(self, pairs: Iterable[tuple[int, int]]) -> int | None:
+        """The pairs' penalty summed over every copy (None: some pair is no usable edge)."""
+        total = 0
+        for a, b in pairs:
+            for shift in range(self.copies):
+                e = self._edge(a + shift * self.real, b + shift * self.real)
+                if e is None:
+                    return None
+                total += int(self.pen[e])
+        return total
+
     def swap_in(self, p: PlayerId, q: PlayerId) -> bool:
         """Give ``p`` the partner ``q`` by one alternating cycle, if that keeps the matching optimal.
 
         With ``p``'s partner ``a`` and ``q``'s partner ``b``, a path from ``b`` to ``a`` that leaves
-        each vertex by an unmatched edge and goes on by its matched one (searched breadth first,
+        each vertex by an unmatched edge and goes on by its matched one (:meth:`_path`,
         :data:`REROUTE_DEPTH` matched edges at most, first copy only) closes the cycle
         ``p q b ... a p``; exchanging the cycle's matched and unmatched edges covers the same
         vertices. The current matching's first copy is optimal for the bracket, so is the doubled
@@ -336,70 +398,77 @@ class BracketGraph:
         least penalty; the exchange, made in every copy, changes the penalty by the cycle's edges'
         penalties: when that change is not positive the new matching is optimal too. Only the
         first copy is rewritten (later solves start from it; the second copy's pairs are left, and
-        those that lost a vertex are ignored). False: no such cycle was found, nothing changed. A
-        sufficient test only: a cycle through a blossom is not searched, and the caller solves.
+        those that lost a vertex are ignored). False: no such cycle was found, nothing changed.
         """
         x, y = self.index[p], self.index[q]
         a, b = self.mate[x], self.mate[y]
         top = self.real if self.copies == 2 else self.n
         if a == y or a >= top or b >= top:
             return False
-        mate = np.full(self.n, -1, dtype=np.int64)
-        ends = np.fromiter(self.mate.keys(), dtype=np.int64, count=len(self.mate))
-        mate[ends] = np.fromiter(self.mate.values(), dtype=np.int64, count=len(self.mate))
-        seen = ~self.live.copy()
+        seen = ~self.live
         seen[top:] = True
         seen[[x, y, b]] = True
-        back: dict[int, tuple[int, int]] = {}  # a vertex reached by its matched edge: (where from, via)
-        frontier = np.array([b], dtype=np.int64)
-        path: list[int] | None = None
-        for _ in range(REROUTE_DEPTH):
-            start, stop = self._adj_ptr[frontier], self._adj_ptr[frontier + 1]
-            span = stop - start
-            at = np.repeat(start - np.cumsum(span) + span, span) + np.arange(int(span.sum()))
-            src = np.repeat(frontier, span)
-            dst, edge = self._adj_to[at], self._adj_edge[at]
-            ok = self.keep[edge] & (mate[src] != dst)
-            src, dst = src[ok], dst[ok]
-            hit = np.flatnonzero(dst == a)
-            if len(hit):
-                u = int(src[hit[0]])
-                path = [a, u]
-                while u != b:
-                    u, via = back[u]
-                    path += [via, u]
-                break
-            fresh = ~seen[dst] & (mate[np.maximum(dst, 0)] >= 0)
-            dst, src = dst[fresh], src[fresh]
-            dst, first = np.unique(dst, return_index=True)
-            src = src[first]
-            nxt = mate[dst]
-            usable = ~seen[nxt]
-            dst, src, nxt = dst[usable], src[usable], nxt[usable]
-            nxt, first = np.unique(nxt, return_index=True)
-            dst, src = dst[first], src[first]
-            if not len(nxt):
-                return False
-            seen[dst] = True
-            seen[nxt] = True
-            for d, via, u in zip(nxt.tolist(), dst.tolist(), src.tolist()):
-                back[d] = (u, via)
-            frontier = nxt
+        target = np.zeros(self.n, dtype=bool)
+        target[a] = True
+        path = self._path(self._mates(), b, target, seen, self.keep, REROUTE_DEPTH)
         if path is None:
             return False
-        cycle = [x, y, *reversed(path)]  # x y b ... a: alternately matched (y b, ..., a x) and not
-        change = 0
-        for shift in range(self.copies):
-            s = shift * self.real
-            for k in range(len(cycle)):
-                e = self._edge(cycle[k] + s, cycle[(k + 1) % len(cycle)] + s)
-                if e is None:
-                    return False
-                change += int(self.pen[e]) * (1 if k % 2 == 0 else -1)
-        if change > 0:
+        cycle = [x, y, *path]  # x y b ... a: alternately unmatched (x y, b c1, ..., u a) and matched
+        new = [(cycle[k], cycle[k + 1]) for k in range(0, len(cycle), 2)]
+        old = [(cycle[k], cycle[(k + 1) % len(cycle)]) for k in range(1, len(cycle), 2)]
+        gain, loss = self._penalty(new), self._penalty(old)
+        if gain is None or loss is None or gain > loss:
             return False
-        for k in range(0, len(cycle), 2):
-            self.mate[cycle[k]], self.mate[cycle[k + 1]] = cycle[k + 1], cycle[k]
+        for c, d in new:
+            self.mate[c], self.mate[d] = d, c
+        return True
+
+    def repair(self, banned: NDArray[np.bool_]) -> bool:
+        """Change the matching so that it uses no ``banned`` edge and stays optimal, if found cheaply.
+
+        The banned edges it uses are unmatched, and each vertex left without a partner is joined
+        to another such vertex by an alternating path (:meth:`_path`) over edges not banned, which
+        flipping adds to the matching. Accepted only when every vertex is matched again and the
+        penalty did not grow (the matching is then optimal: the least penalty). Single graphs only
+        (a doubled graph's copies would have to be repaired alike). False: nothing changed.
+        """
+        if self.copies != 1:
+            return False
+        mate = self._mates()
+        live = np.flatnonzero(self.live)
+        bad = [(int(a), int(mate[a])) for a in live
+               if 0 <= mate[a] and a < mate[a] and (e := self._edge(int(a), int(mate[a]))) is not None and banned[e]]
+        if not bad:
+            return True
+        before = self._penalty(bad)
+        allowed = self.keep & ~banned
+        open_ = np.zeros(self.n, dtype=bool)
+        for a, b in bad:
+            mate[a] = mate[b] = -1
+            open_[a] = open_[b] = True
+        added: list[tuple[int, int]] = []
+        removed: list[tuple[int, int]] = []
+        for r in [x for pair in bad for x in pair]:
+            if not open_[r]:
+                continue
+            open_[r] = False
+            seen = ~self.live
+            seen[r] = True
+            path = self._path(mate, r, open_, seen, allowed, self.n)
+            if path is None:
+                return False
+            open_[path[-1]] = False
+            for k in range(1, len(path) - 1, 2):
+                removed.append((path[k], path[k + 1]))
+            for k in range(0, len(path), 2):
+                c, d = path[k], path[k + 1]
+                mate[c], mate[d] = d, c
+                added.append((c, d))
+        gain, loss = self._penalty(added), self._penalty(removed)
+        if before is None or gain is None or loss is None or gain > before + loss:
+            return False
+        for a in live.tolist():
+            self.mate[a] = int(mate[a])
         return True
 
     def _read(self, pairs: Iterable[tuple[int, int]]) -> None:

@@ -4,10 +4,12 @@ Two steps of :mod:`pairings.engine.dutch.bracket` skip a tie-break solve when
 a cheaper argument gives the same answer: an S1 player is given his first
 possible partner by an alternating cycle that keeps the matching optimal
 (:meth:`pairings.engine.dutch.graph.BracketGraph.swap_in`), and the exchange
-solve is skipped when S1 is already the first players in every copy. The
+solve is skipped when S1 is already the first players in every copy, or can
+be made so by repairing the matching with alternating paths
+(:meth:`pairings.engine.dutch.graph.BracketGraph.repair`). The
 generation order is a total order, so neither may change a draft: checked
 against the same engine with both shortcuts switched off, on random
-simulated fields (16-120 players, rounds 2-9), and the first is shown to act.
+simulated fields (16-120 players, rounds 2-9), and both are shown to act.
 """
 
 from __future__ import annotations
@@ -15,7 +17,9 @@ from __future__ import annotations
 import random
 from dataclasses import replace
 
+import numpy as np
 import pytest
+from numpy.typing import NDArray
 
 from pairings.engine import draft_round
 from pairings.engine.dutch import bracket, graph
@@ -41,14 +45,21 @@ def _fields(count: int) -> list[tuple[int, int, int]]:
 
 def test_shortcuts_draft_as_the_solves(monkeypatch: pytest.MonkeyPatch) -> None:
     rerouted: list[bool] = []
-    real = graph.BracketGraph.swap_in
+    repaired: list[bool] = []
+    swap_in, repair = graph.BracketGraph.swap_in, graph.BracketGraph.repair
 
     def counted(self: graph.BracketGraph, p: PlayerId, q: PlayerId) -> bool:
-        out = real(self, p, q)
+        out = swap_in(self, p, q)
         rerouted.append(out)
         return out
 
+    def mended(self: graph.BracketGraph, banned: NDArray[np.bool_]) -> bool:
+        out = repair(self, banned)
+        repaired.append(out)
+        return out
+
     monkeypatch.setattr(graph.BracketGraph, "swap_in", counted)
+    monkeypatch.setattr(graph.BracketGraph, "repair", mended)
     for n, played, seed in _fields(60):
         state = _state(n, played, seed)
         fast = draft_round(state)
@@ -58,3 +69,4 @@ def test_shortcuts_draft_as_the_solves(monkeypatch: pytest.MonkeyPatch) -> None:
         assert _key(fast) == _key(slow), (n, played, seed)
     assert any(rerouted), "no S1 player was given his partner by an alternating cycle"
     assert not all(rerouted), "every alternating-cycle search succeeded: the fallback solve went untested"
+    assert any(repaired), "no exchange solve was replaced by repairing the matching"
