@@ -163,6 +163,19 @@ def _common_z(n: int, u: IntArray, v: IntArray, dual: Dual, z: Limbs) -> Limbs |
     while (1 << len(up)) <= int(depth.max()):
         up.append(up[-1][up[-1]])
     a, c = owner[u], owner[v]
+    root = len(dual.blossoms)
+    inner = np.flatnonzero((a != root) & (c != root))  # an end in no blossom: no common blossom
+    if len(inner) < len(u):
+        zh, zl = np.zeros(len(u), dtype=np.int64), np.zeros(len(u), dtype=np.int64)
+        if len(inner):
+            zh[inner], zl[inner] = _lca_sums(a[inner], c[inner], up, depth, parent, ph, pl)
+        return zh, zl
+    return _lca_sums(a, c, up, depth, parent, ph, pl)
+
+
+def _lca_sums(a: IntArray, c: IntArray, up: list[IntArray], depth: IntArray, parent: IntArray, ph: IntArray,
+              pl: IntArray) -> Limbs:
+    """``P[lca(a[k], c[k])]`` as limbs, by binary lifting (``up[k]``: the ``2**k``-th ancestor)."""
     swap = depth[a] < depth[c]
     a, c = np.where(swap, c, a), np.where(swap, a, c)
     diff = depth[a] - depth[c]

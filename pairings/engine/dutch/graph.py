@@ -583,12 +583,13 @@ def _wide(pen: IntArray, limit: int, digits: IntArray, terms: Sequence[Term], us
     """
     assert int(pen.max(initial=0)) < 1 << 20 and int(digits.max(initial=0)) < 1 << _LIMB
     scale = _limbs3(limit)
-    c = [digits + pen * scale[0], pen * scale[1], pen * scale[2]]
+    at = np.cumsum(use) - 1  # an edge's place among the ``use`` edges
+    pen = pen[use]
+    c = [digits[use] + pen * scale[0], pen * scale[1], pen * scale[2]]
     for edges, d, factor in terms:
-        assert int(d.max(initial=0)) < 1 << 20
+        assert int(d.max(initial=0)) < 1 << 20 and bool(use[edges].all())
         for k, f in enumerate(_limbs3(factor)):
-            c[k][edges] += d * f
-    c = [x[use] for x in c]
+            c[k][at[edges]] += d * f
     _carry(c)
     if not len(c[0]):
         return 1, blossom.Wide(np.zeros(0, dtype=np.int64), np.zeros(0, dtype=np.uint64))
