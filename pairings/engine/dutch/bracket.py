@@ -323,23 +323,24 @@ class BracketSolver:
         after = np.where(relevant, (len(leads) + 1 - lrank[lead]) * frank[follow], 0)
         budget = 2 ** max(8, 100 - g.n.bit_length() - spread.bit_length())
         out: list[Pair] = []
+        # The S1 players' edges by S1 player (no edge is dropped below; players leave by ``remove``).
+        ids = np.flatnonzero(relevant & g.keep)
+        ids = ids[np.argsort(lead[ids], kind="stable")]
+        heads_of = lead[ids]
+
+        def edges_of(x: PlayerId) -> tuple[NDArray[np.int64], NDArray[np.int64]]:
+            """``x``'s edges still live, and the ranks of their partners."""
+            at = g.index[x]
+            mine = ids[np.searchsorted(heads_of, at, "left"):np.searchsorted(heads_of, at, "right")]
+            mine = mine[g.live[g.eu[mine]] & g.live[g.ev[mine]]]
+            return mine, np.unique(frank[follow[mine]])
+
         k = 0
         while k < len(order):
             # Transpositions: each S1 player's partner digit is its rank among the partners still
             # possible for him (the BSN order kept), so a block holds as many places as the budget allows.
-            ids = np.flatnonzero(relevant & g.keep & g.live[g.eu] & g.live[g.ev])
-            ids = ids[np.argsort(lead[ids], kind="stable")]
-            heads_of = lead[ids]
-
-            def edges_of(x: PlayerId) -> tuple[NDArray[np.int64], NDArray[np.int64]]:
-                """``x``'s edges still live, and the ranks of their partners."""
-                at = g.index[x]
-                mine = ids[np.searchsorted(heads_of, at, "left"):np.searchsorted(heads_of, at, "right")]
-                mine = mine[g.live[g.eu[mine]] & g.live[g.ev[mine]]]
-                return mine, np.unique(frank[follow[mine]])
-
             # An S1 player whose partner in the current (optimal) matching is the first of his possible
-            # partners, or can be by one alternating 4-cycle that keeps it optimal, has it in the
+            # partners, or can be made so by an alternating cycle that keeps it optimal, has it in the
             # first candidate too: fixed without a solve.
             while k < len(order):
                 y = g.partner(order[k])
