@@ -37,6 +37,8 @@ from pairings.engine.vector import AnyArray, IntArray
 SHIFT = 40
 """Limb width: exact values are split as ``hi * 2**SHIFT + lo`` with ``0 <= lo < 2**SHIFT``."""
 CLIP = 2**62
+PAIR_TABLE = 4096
+"""With at most this many pairs of blossom-tree nodes, the blossom sums are tabled per pair of nodes."""
 
 
 Limbs = tuple[IntArray, IntArray]
@@ -163,6 +165,12 @@ def _common_z(n: int, u: IntArray, v: IntArray, dual: Dual, z: Limbs) -> Limbs |
     while (1 << len(up)) <= int(depth.max()):
         up.append(up[-1][up[-1]])
     a, c = owner[u], owner[v]
+    nodes = len(parent)
+    if nodes * nodes <= PAIR_TABLE:  # few blossoms: every pair of nodes once, then one lookup per edge
+        x, y = np.divmod(np.arange(nodes * nodes, dtype=np.int64), nodes)
+        th, tl = _lca_sums(x, y, up, depth, parent, ph, pl)
+        key = a * nodes + c
+        return th[key], tl[key]
     root = len(dual.blossoms)
     inner = np.flatnonzero((a != root) & (c != root))  # an end in no blossom: no common blossom
     if len(inner) < len(u):

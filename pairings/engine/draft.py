@@ -73,13 +73,13 @@ def draft_round(state: EventState, overrides: Overrides = Overrides(), *, refere
             "(all others are withdrawn, absent or on a requested bye)"
         )
     _check_overrides(state, rnd, players, overrides)
-    fld = Field(state, rnd, players, overrides.forbidden)
-    if state.settings.system is System.ROUND_ROBIN:
-        return _round_robin(state, fld, overrides)
     if state.settings.system is System.DUTCH:
         from pairings.engine.dutch import draft_dutch  # the FIDE (Dutch) System, C.04.3
 
         return draft_dutch(state, overrides)
+    fld = Field(state, rnd, players, overrides.forbidden)
+    if state.settings.system is System.ROUND_ROBIN:
+        return _round_robin(state, fld, overrides)
     pinned = [(fld.pair(a, b, (a, b))[0], (a, b)) for a, b in overrides.pinned]
     placed = {p for _, pair in pinned for p in pair}
     free = [p for p in fld.order if p not in placed and p != overrides.bye]
