@@ -77,6 +77,15 @@ class Dual:
         """Twice the dual objective ``sum y_v + sum z_B * (|B| - 1) / 2``."""
         return sum(self.y2) + sum(z * (len(b) - 1) for b, z in self.blossoms)
 
+    def flat(self) -> list[int]:
+        """``y2`` with each blossom's ``z_B`` added to its vertices: feasible wherever this dual is, with
+        the edges inside blossoms still tight (a start for another solve, :func:`_carried`)."""
+        d = list(self.y2)
+        for members, z in self.blossoms:
+            for x in members:
+                d[x] += z
+        return d
+
 
 @dataclass(frozen=True)
 class Wide:
@@ -278,10 +287,7 @@ def _carried(edges: Sequence[Edge], dual: Dual) -> list[int]:
     Matched edges leaving a blossom lose tightness, so a few vertices start
     exposed; the rest of the previous matching can be kept.
     """
-    d = list(dual.y2)
-    for members, z in dual.blossoms:
-        for x in members:
-            d[x] += z
+    d = dual.flat()
     for u, v, w in edges:
         short = 2 * w - d[u] - d[v]
         if short > 0:

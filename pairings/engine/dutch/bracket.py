@@ -53,8 +53,9 @@ Method (ours; the criteria are C.04.3's):
   matching's S1 is already the first players (the least its digits can be),
   or can be made so without raising the penalty by unpairing the pairs of two
   first players or of two others and joining the players so freed by
-  alternating paths (:meth:`.graph.BracketGraph.repair`). Digits that would pass the compiled kernel's integers are
-  avoided by the block sizes; the pure-Python blossom takes any size.
+  alternating paths (:meth:`.graph.BracketGraph.repair`). Digits that would
+  pass the compiled kernel's integers are avoided by the block sizes; the
+  pure-Python blossom takes any size.
 - A last bracket (the CLB included) that cannot be paired without pairing
   MDPs with each other is paired as one homogeneous group (our decision).
 """

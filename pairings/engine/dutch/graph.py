@@ -24,9 +24,16 @@ this module builds them and solves them at scale (ours):
 - **Tie-break solves** run on the tight edges only. Those whose weights fit
   64 bits (the exchange steps) are pruned and certified the same way, seeded
   with the current matching (an optimal one, which the next solve mostly
-  keeps); the transpositions' wide digits are solved on every tight edge,
-  warm-started from the current matching (pruning them cost more than it saved
-  when measured: the seed cannot see the digits' order in floating point).
+  keeps); the transpositions' wide digits are solved on every tight edge
+  (pruning them cost more than it saved when measured: the seed cannot see the
+  digits' order in floating point), as 128-bit weights built in int64 limbs
+  (:func:`_wide`), warm-started from the current matching and from the last
+  block's dual (one weight ceiling per phase keeps that dual feasible).
+- **Solves avoided** (:meth:`BracketGraph.swap_in`, :meth:`BracketGraph.repair`):
+  alternating paths on the tight edges change the current optimal matching
+  without a solve when the change provably keeps its penalty least; the
+  search does not shrink blossoms, so it may miss a path, and the caller then
+  solves.
 """
 
 from __future__ import annotations
@@ -512,9 +519,7 @@ class BracketGraph:
             w = ceiling - cost
         n, u, v = int(self.live.sum()), local[self.eu[use]], local[self.ev[use]]
         if ceiling < SMALL:  # the exchange steps' small weights: a pruned solve seeded with the current matching
-            mate = np.full(self.n, -1, dtype=np.int64)
-            for a, b in self.mate.items():
-                mate[a] = b
+            mate = self._mates()
             found = certified(n, u, v, w.astype(np.int64), (mate[self.eu[use]] == self.ev[use]) | self.near[use])
         else:  # the transpositions' wide digits: warm-started from the current matching
             warm = [(int(local[a]), int(local[b])) for a, b in self.mate.items()
@@ -525,7 +530,7 @@ class BracketGraph:
                 start = blossom.Dual([d for d, alive in zip(flat, self.live[ids].tolist()) if alive], [])
             found = blossom.perfect_matching_arrays(n, u, v, w if wide is None else wide, warm, start)
             if found is not None and carry:
-                self._carried = ceiling, np.flatnonzero(self.live), _flat(found[1])
+                self._carried = ceiling, np.flatnonzero(self.live), found[1].flat()
         assert found is not None, "a quality-optimal matching survives every restriction"
         order = np.flatnonzero(self.live)
         self._read((int(order[a]), int(order[b])) for a, b in found[0])
@@ -565,14 +570,6 @@ def _carry(c: list[IntArray]) -> None:
         up = c[k] >> _LIMB
         c[k] &= _MASK
         c[k + 1] += up
-
-
-def _flat(dual: blossom.Dual) -> list[int]:
-    """The doubled vertex duals with each blossom's ``z`` added to its vertices (a feasible start)."""
-    flat = np.array(dual.y2, dtype=object)
-    for members, z in dual.blossoms:
-        flat[list(members)] += z
-    return flat.tolist()  # type: ignore[no-any-return]
 
 
 def _wide(pen: IntArray, limit: int, digits: IntArray, terms: Sequence[Term], use: NDArray[np.bool_],
